@@ -1,8 +1,9 @@
 // Brent's method for a root of a continuous function on a bracketing interval
 // (R. P. Brent, Algorithms for Minimization without Derivatives, 1973, chapter 4):
 // inverse quadratic interpolation and secant steps, safeguarded by bisection, so it never
-// converges more slowly than bisection. Used for mu at fixed atom number, T at fixed
-// entropy and the homogeneous order parameter.
+// converges more slowly than bisection. Used for the homogeneous order parameter, mu at
+// fixed atom number and T at fixed entropy. The step logic is shared by a synchronous
+// driver (cheap functions) and an asynchronous one (each evaluation is a lattice solve).
 
 export interface RootResult {
   root: number;
@@ -12,9 +13,81 @@ export interface RootResult {
   converged: boolean;
 }
 
+interface BrentState {
+  a: number;
+  b: number;
+  c: number;
+  fa: number;
+  fb: number;
+  fc: number;
+  d: number;
+  e: number;
+}
+
+function startState(a: number, b: number, fa: number, fb: number): BrentState {
+  if (fa > 0 === fb > 0 && fa !== 0 && fb !== 0) {
+    throw new Error(`brentRoot: f(${a}) = ${fa} and f(${b}) = ${fb} do not bracket a root`);
+  }
+  return { a, b, c: a, fa, fb, fc: fa, d: b - a, e: b - a };
+}
+
+/**
+ * Advance the bracket; returns the next abscissa to evaluate, or NaN when converged
+ * (then s.b is the root).
+ */
+function nextAbscissa(s: BrentState, xTolerance: number, fTolerance: number): number {
+  if (s.fb > 0 === s.fc > 0) {
+    s.c = s.a;
+    s.fc = s.fa;
+    s.d = s.b - s.a;
+    s.e = s.d;
+  }
+  if (Math.abs(s.fc) < Math.abs(s.fb)) {
+    s.a = s.b;
+    s.b = s.c;
+    s.c = s.a;
+    s.fa = s.fb;
+    s.fb = s.fc;
+    s.fc = s.fa;
+  }
+  const tol = 2 * 2.220446049250313e-16 * Math.abs(s.b) + xTolerance;
+  const m = 0.5 * (s.c - s.b);
+  if (Math.abs(m) <= tol || s.fb === 0 || Math.abs(s.fb) <= fTolerance) return NaN;
+  if (Math.abs(s.e) < tol || Math.abs(s.fa) <= Math.abs(s.fb)) {
+    s.d = m;
+    s.e = m;
+  } else {
+    let r0 = s.fb / s.fa;
+    let p: number;
+    let q: number;
+    if (s.a === s.c) {
+      p = 2 * m * r0;
+      q = 1 - r0;
+    } else {
+      const qa = s.fa / s.fc;
+      const r = s.fb / s.fc;
+      p = r0 * (2 * m * qa * (qa - r) - (s.b - s.a) * (r - 1));
+      q = (qa - 1) * (r - 1) * (r0 - 1);
+    }
+    if (p > 0) q = -q;
+    else p = -p;
+    r0 = s.e;
+    s.e = s.d;
+    if (2 * p < 3 * m * q - Math.abs(tol * q) && p < Math.abs(0.5 * r0 * q)) {
+      s.d = p / q;
+    } else {
+      s.d = m;
+      s.e = m;
+    }
+  }
+  s.a = s.b;
+  s.fa = s.fb;
+  return s.b + (Math.abs(s.d) > tol ? s.d : m > 0 ? tol : -tol);
+}
+
 /**
  * Root of f in [a, b], where f(a) and f(b) (passed in, to save evaluations) differ in sign
- * or one is zero. Stops when the bracket is shorter than 2 (xTolerance + 4 eps |x|) or
+ * or one is zero. Stops when the bracket is shorter than 2 (xTolerance + 2 eps |x|) or
  * |f| <= fTolerance.
  */
 export function brentRoot(
@@ -29,64 +102,36 @@ export function brentRoot(
 ): RootResult {
   if (fa === 0) return { root: a, value: 0, evaluations: 0, converged: true };
   if (fb === 0) return { root: b, value: 0, evaluations: 0, converged: true };
-  if (fa > 0 === fb > 0) throw new Error(`brentRoot: f(${a}) = ${fa} and f(${b}) = ${fb} do not bracket a root`);
-  let c = a;
-  let fc = fa;
-  let d = b - a;
-  let e = d;
-  let evaluations = 0;
-  for (;;) {
-    if (fb > 0 === fc > 0) {
-      c = a;
-      fc = fa;
-      d = b - a;
-      e = d;
-    }
-    if (Math.abs(fc) < Math.abs(fb)) {
-      a = b;
-      b = c;
-      c = a;
-      fa = fb;
-      fb = fc;
-      fc = fa;
-    }
-    const tol = 2 * 2.220446049250313e-16 * Math.abs(b) + xTolerance;
-    const m = 0.5 * (c - b);
-    if (Math.abs(m) <= tol || fb === 0 || Math.abs(fb) <= fTolerance) {
-      return { root: b, value: fb, evaluations, converged: true };
-    }
-    if (evaluations >= maxEvaluations) return { root: b, value: fb, evaluations, converged: false };
-    if (Math.abs(e) < tol || Math.abs(fa) <= Math.abs(fb)) {
-      d = m;
-      e = m;
-    } else {
-      let s = fb / fa;
-      let p: number;
-      let q: number;
-      if (a === c) {
-        p = 2 * m * s;
-        q = 1 - s;
-      } else {
-        const qa = fa / fc;
-        const r = fb / fc;
-        p = s * (2 * m * qa * (qa - r) - (b - a) * (r - 1));
-        q = (qa - 1) * (r - 1) * (s - 1);
-      }
-      if (p > 0) q = -q;
-      else p = -p;
-      s = e;
-      e = d;
-      if (2 * p < 3 * m * q - Math.abs(tol * q) && p < Math.abs(0.5 * s * q)) {
-        d = p / q;
-      } else {
-        d = m;
-        e = m;
-      }
-    }
-    a = b;
-    fa = fb;
-    b += Math.abs(d) > tol ? d : m > 0 ? tol : -tol;
-    fb = f(b);
-    evaluations++;
+  const s = startState(a, b, fa, fb);
+  for (let evaluations = 0; ; evaluations++) {
+    const x = nextAbscissa(s, xTolerance, fTolerance);
+    if (x !== x) return { root: s.b, value: s.fb, evaluations, converged: true };
+    if (evaluations >= maxEvaluations) return { root: s.b, value: s.fb, evaluations, converged: false };
+    s.b = x;
+    s.fb = f(x);
+  }
+}
+
+/** The same with an asynchronous function; `abort()` ends the search early (not converged). */
+export async function brentRootAsync(
+  f: (x: number) => Promise<number>,
+  a: number,
+  b: number,
+  fa: number,
+  fb: number,
+  xTolerance: number,
+  fTolerance: number,
+  maxEvaluations: number,
+  abort: () => boolean = () => false,
+): Promise<RootResult> {
+  if (Math.abs(fa) <= fTolerance) return { root: a, value: fa, evaluations: 0, converged: true };
+  if (Math.abs(fb) <= fTolerance) return { root: b, value: fb, evaluations: 0, converged: true };
+  const s = startState(a, b, fa, fb);
+  for (let evaluations = 0; ; evaluations++) {
+    const x = nextAbscissa(s, xTolerance, fTolerance);
+    if (x !== x) return { root: s.b, value: s.fb, evaluations, converged: Math.abs(s.fb) <= fTolerance || s.fb === 0 };
+    if (evaluations >= maxEvaluations || abort()) return { root: s.b, value: s.fb, evaluations, converged: false };
+    s.b = x;
+    s.fb = await f(x);
   }
 }

@@ -134,9 +134,8 @@ export function weylLowerBound(
 
 /**
  * Lowest eigenpair of the site Hamiltonian. Returns phi = <b>; the normalised amplitudes
- * are left in ws.amplitudes and the eigenvalue in the return of `siteGroundEnergy`.
+ * are left in ws.amplitudes and the ground energy in ws.eigenvalues[0].
  * `lowerBound` must lie below the ground energy (pass NaN to use Gershgorin's bound).
- * The ground energy is written to ws.eigenvalues[0].
  */
 export function solveSiteGround(
   ws: SiteWorkspace,
@@ -145,11 +144,26 @@ export function solveSiteGround(
   psi: number,
   lowerBound: number,
 ): number {
+  if (psi < 0) {
+    // phi(-psi) = -phi(psi): the unitary (-1)^n maps one problem onto the other. The
+    // amplitudes left in the workspace are those for |psi|.
+    return -solveSiteGround(ws, interactionU, muLocal, -psi, lowerBound);
+  }
   const states = ws.states;
   const diag = ws.diag;
   const offSq = ws.offSq;
   const amp = ws.amplitudes;
-  fillDiagonal(ws, interactionU, muLocal, psi);
+  const psiSq = psi * psi;
+  // Diagonal a_n = U n(n-1)/2 - muLocal n by increments, squared off-diagonals psi^2 (n+1).
+  let a = 0;
+  let minDiag = 0;
+  let gersh = Infinity;
+  for (let n = 0; n < states; n++) {
+    diag[n] = a;
+    offSq[n] = psiSq * (n + 1);
+    if (a < minDiag) minDiag = a;
+    a += interactionU * n - muLocal;
+  }
 
   if (psi === 0) {
     // Diagonal: the ground state is the lowest diagonal entry (lowest n on a tie).
@@ -164,122 +178,258 @@ export function solveSiteGround(
   // Starting point below the spectrum.
   let lambda = lowerBound;
   if (!(lambda === lambda)) {
-    const absPsi = Math.abs(psi);
-    lambda = Infinity;
+    const sqrtUp = ws.sqrtUp;
     for (let n = 0; n < states; n++) {
-      const radius = absPsi * ((n > 0 ? ws.sqrtUp[n - 1] : 0) + (n < states - 1 ? ws.sqrtUp[n] : 0));
+      const radius = psi * ((n > 0 ? sqrtUp[n - 1] : 0) + (n < states - 1 ? sqrtUp[n] : 0));
       const g = diag[n] - radius;
-      if (g < lambda) lambda = g;
+      if (g < gersh) gersh = g;
     }
-    lambda -= 1e-12 * (Math.abs(lambda) + 1);
+    lambda = gersh - 1e-12 * (Math.abs(gersh) + 1);
   }
+
+  if (states <= POLYNOMIAL_PATH_MAX_STATES) return groundByPolynomials(ws, interactionU, psi, lambda, minDiag);
 
   // Laguerre iteration on p(lambda) = det(H - lambda) through the pivots:
   //   d_k = a_k - lambda - e_{k-1}^2 / d_{k-1}
   //   d_k' = -1 + e_{k-1}^2 d_{k-1}' / d_{k-1}^2
   //   d_k'' = e_{k-1}^2 (d_{k-1}'' / d_{k-1}^2 - 2 d_{k-1}'^2 / d_{k-1}^3)
   //   G = p'/p = sum d_k'/d_k,  H = G^2 - p''/p = sum (d_k'/d_k)^2 - d_k''/d_k
+  // Convergence is cubic, so once a step is below 1e-6 of the scale the next error is
+  // below rounding and the loop can stop without another evaluation.
   const degree = states;
+  const scale = Math.abs(minDiag) + Math.abs(interactionU) + psi;
+  const small = 1e-6 * scale;
+  const done = 4e-16 * scale;
   for (let iter = 0; iter < 100; iter++) {
     let d = diag[0] - lambda;
     if (d <= 0) break; // at or above the smallest eigenvalue: converged to rounding
+    let inv = 1 / d;
     let dp = -1;
     let dpp = 0;
-    let g = dp / d;
-    let h = g * g;
+    let g = -inv;
+    let h = inv * inv;
     let positive = true;
     for (let k = 1; k < states; k++) {
-      const inv = 1 / d;
-      const e2 = offSq[k - 1];
-      const t = e2 * inv;
+      const t = offSq[k - 1] * inv;
       const dNew = diag[k] - lambda - t;
-      const dpNew = -1 + t * dp * inv;
-      const dppNew = t * inv * (dpp - 2 * dp * dp * inv);
+      const tInv = t * inv;
+      dpp = tInv * (dpp - 2 * dp * dp * inv);
+      dp = -1 + tInv * dp;
       d = dNew;
-      dp = dpNew;
-      dpp = dppNew;
       if (d <= 0) {
         positive = false;
         break;
       }
-      const r = dp / d;
+      inv = 1 / d;
+      const r = dp * inv;
       g += r;
-      h += r * r - dpp / d;
+      h += r * r - dpp * inv;
     }
     if (!positive) break;
     // Laguerre step: lambda_new = lambda - n / (G -/+ sqrt((n-1)(n H - G^2))), with the
     // sign that maximises the denominator. G < 0 left of all zeros, so step > 0.
     const disc = (degree - 1) * (degree * h - g * g);
-    const denom = g - Math.sqrt(disc > 0 ? disc : 0);
-    const step = -degree / denom;
+    const step = degree / (Math.sqrt(disc > 0 ? disc : 0) - g);
     lambda += step;
-    if (!(step > 4e-16 * (Math.abs(lambda) + Math.abs(interactionU) + psi))) break;
+    if (!(step > small)) {
+      if (step < done || iter > 0) break;
+    }
   }
 
-  twistedGroundVector(ws, lambda);
   ws.eigenvalues[0] = lambda;
-  let phi = 0;
-  for (let n = 0; n < states - 1; n++) phi += ws.sqrtUp[n] * amp[n] * amp[n + 1];
-  return phi;
+  return twistedGroundVector(ws, lambda, psi);
 }
 
 /**
- * Eigenvector of the tridiagonal matrix in ws (diag, offSq, off-diagonals negative) for the
- * eigenvalue lambda, by a twisted factorisation; written to ws.amplitudes, normalised,
- * all components >= 0.
+ * Eigenvector of the tridiagonal matrix in ws (diag, offSq, off-diagonals -psi sqrt(k+1))
+ * for the eigenvalue lambda, by a twisted factorisation; written to ws.amplitudes,
+ * normalised, all components >= 0. Returns phi = sum sqrt(n+1) c_n c_{n+1}.
  */
-function twistedGroundVector(ws: SiteWorkspace, lambda: number): void {
+function twistedGroundVector(ws: SiteWorkspace, lambda: number, psi: number): number {
   const states = ws.states;
   const diag = ws.diag;
   const offSq = ws.offSq;
-  const top = ws.pivotsTop;
-  const bottom = ws.pivotsBottom;
+  const invTop = ws.pivotsTop;
+  const invBottom = ws.pivotsBottom;
   const amp = ws.amplitudes;
   const sqrtUp = ws.sqrtUp;
+  const last = states - 1;
 
-  let d = diag[0] - lambda;
-  if (d === 0) d = TINY_PIVOT;
-  top[0] = d;
+  // Inverse pivots of the top-down and bottom-up LDL^T factorisations of H - lambda;
+  // gamma_k = top_k + bottom_k - (a_k - lambda) is needed only to choose the twist.
+  let top = diag[0] - lambda;
+  if (top === 0) top = TINY_PIVOT;
+  invTop[0] = 1 / top;
+  const topPivot = ws.populations; // scratch: pivots themselves
+  topPivot[0] = top;
   for (let k = 1; k < states; k++) {
-    d = diag[k] - lambda - offSq[k - 1] / d;
-    if (d === 0) d = TINY_PIVOT;
-    top[k] = d;
+    top = diag[k] - lambda - offSq[k - 1] * invTop[k - 1];
+    if (top === 0) top = TINY_PIVOT;
+    topPivot[k] = top;
+    invTop[k] = 1 / top;
   }
-  d = diag[states - 1] - lambda;
-  if (d === 0) d = TINY_PIVOT;
-  bottom[states - 1] = d;
-  for (let k = states - 2; k >= 0; k--) {
-    d = diag[k] - lambda - offSq[k] / d;
-    if (d === 0) d = TINY_PIVOT;
-    bottom[k] = d;
-  }
-  // gamma_k = top_k + bottom_k - (a_k - lambda); pick the smallest |gamma|.
-  let twist = 0;
-  let best = Infinity;
-  for (let k = 0; k < states; k++) {
-    const gamma = Math.abs(top[k] + bottom[k] - (diag[k] - lambda));
+  let bottom = diag[last] - lambda;
+  if (bottom === 0) bottom = TINY_PIVOT;
+  invBottom[last] = 1 / bottom;
+  let twist = last;
+  let best = Math.abs(topPivot[last]);
+  for (let k = last - 1; k >= 0; k--) {
+    const shifted = diag[k] - lambda;
+    bottom = shifted - offSq[k] * invBottom[k + 1];
+    if (bottom === 0) bottom = TINY_PIVOT;
+    invBottom[k] = 1 / bottom;
+    const gamma = Math.abs(topPivot[k] + bottom - shifted);
     if (gamma < best) {
       best = gamma;
       twist = k;
     }
   }
-  // Off-diagonal e_k = -psi sqrt(k+1) < 0, so x_k = -e_k/top_k x_{k+1} = |e_k|/top_k x_{k+1}.
-  // |e_k| = sqrt(offSq[k]); written through sqrtUp to avoid a square root per entry.
-  const psi = Math.sqrt(offSq[0]);
+  // Off-diagonal e_k = -psi sqrt(k+1) < 0, so x_k = |e_k|/top_k x_{k+1} below the twist
+  // and x_k = |e_{k-1}|/bottom_k x_{k-1} above it.
   amp[twist] = 1;
   let norm = 1;
+  let x = 1;
   for (let k = twist - 1; k >= 0; k--) {
-    const x = ((psi * sqrtUp[k]) / top[k]) * amp[k + 1];
+    x *= psi * sqrtUp[k] * invTop[k];
     amp[k] = x;
     norm += x * x;
   }
+  x = 1;
   for (let k = twist + 1; k < states; k++) {
-    const x = ((psi * sqrtUp[k - 1]) / bottom[k]) * amp[k - 1];
+    x *= psi * sqrtUp[k - 1] * invBottom[k];
     amp[k] = x;
     norm += x * x;
   }
-  const scale = 1 / Math.sqrt(norm);
-  for (let k = 0; k < states; k++) amp[k] *= scale;
+  const scaleAmp = 1 / Math.sqrt(norm);
+  let phi = 0;
+  amp[0] *= scaleAmp;
+  for (let k = 1; k < states; k++) {
+    amp[k] *= scaleAmp;
+    phi += sqrtUp[k - 1] * amp[k - 1] * amp[k];
+  }
+  return phi;
+}
+
+/**
+ * Largest Fock space for which the division-free path below is used: the determinants of
+ * the leading blocks, products of up to 17 factors |a_k - lambda| (at most ~1e5 in any
+ * sensible unit), stay far inside double range.
+ */
+const POLYNOMIAL_PATH_MAX_STATES = 17;
+
+/**
+ * Ground state through the characteristic polynomials of the leading and trailing blocks
+ * (three-term Sturm recurrences; Wilkinson 1965, section 5.37), which need no division per
+ * entry, unlike the pivot form:
+ *   p_k = (a_k - lambda) p_{k-1} - e_{k-1}^2 p_{k-2},   p_{-1} = 1,
+ * with first and second derivatives in lambda for Laguerre's method. At the eigenvalue,
+ * the adjugate of H - lambda is proportional to x x^T, and for a tridiagonal matrix its
+ * entries are products of leading (p) and trailing (q) determinants and off-diagonals
+ * (Usmani, Linear Algebra Appl. 212/213, 413 (1994)):
+ *   adj_kk = p_{k-1} q_{k+1},  adj_kr = p_{k-1} q_{r+1} prod_{j=k}^{r-1} |e_j|  (k <= r).
+ * The column r of the largest diagonal entry gives the eigenvector from determinants of
+ * blocks that exclude the dominant occupation, which are well conditioned.
+ */
+function groundByPolynomials(ws: SiteWorkspace, interactionU: number, psi: number, start: number, minDiag: number): number {
+  const states = ws.states;
+  const diag = ws.diag;
+  const offSq = ws.offSq;
+  const degree = states;
+  const scale = Math.abs(minDiag) + Math.abs(interactionU) + psi;
+  const small = 1e-6 * scale;
+  let lambda = start;
+  for (let iter = 0; iter < 100; iter++) {
+    let pPrev = 1;
+    let dPrev = 0;
+    let ddPrev = 0;
+    let p = diag[0] - lambda;
+    let d = -1;
+    let dd = 0;
+    for (let k = 1; k < states; k++) {
+      const shifted = diag[k] - lambda;
+      const e2 = offSq[k - 1];
+      const pNew = shifted * p - e2 * pPrev;
+      const dNew = shifted * d - p - e2 * dPrev;
+      const ddNew = shifted * dd - 2 * d - e2 * ddPrev;
+      pPrev = p;
+      dPrev = d;
+      ddPrev = dd;
+      p = pNew;
+      d = dNew;
+      dd = ddNew;
+    }
+    if (!(p > 0)) break; // at or above the smallest eigenvalue: converged to rounding
+    const invP = 1 / p;
+    const g = d * invP;
+    const h = g * g - dd * invP;
+    const disc = (degree - 1) * (degree * h - g * g);
+    const step = degree / (Math.sqrt(disc > 0 ? disc : 0) - g);
+    lambda += step;
+    // Cubic convergence: after a step below 1e-6 of the scale the error is ~1e-18.
+    if (!(step > small)) break;
+  }
+  ws.eigenvalues[0] = lambda;
+
+  // Leading determinants p_{k-1} stored at lead[k] (lead[0] = 1), trailing q_{k+1} at
+  // trail[k] (trail[states-1] = 1).
+  const lead = ws.pivotsTop;
+  const trail = ws.pivotsBottom;
+  lead[0] = 1;
+  let pPrev = 1;
+  let p = diag[0] - lambda;
+  for (let k = 1; k < states; k++) {
+    lead[k] = p;
+    const pNew = (diag[k] - lambda) * p - offSq[k - 1] * pPrev;
+    pPrev = p;
+    p = pNew;
+  }
+  const last = states - 1;
+  trail[last] = 1;
+  let qNext = 1;
+  let q = diag[last] - lambda;
+  let twist = last;
+  let best = lead[last];
+  for (let k = last - 1; k >= 0; k--) {
+    trail[k] = q;
+    const weight = lead[k] * q;
+    if (weight > best) {
+      best = weight;
+      twist = k;
+    }
+    const qNew = (diag[k] - lambda) * q - offSq[k] * qNext;
+    qNext = q;
+    q = qNew;
+  }
+  const amp = ws.amplitudes;
+  const sqrtUp = ws.sqrtUp;
+  // x_k / x_r = (p_{k-1}/p_{r-1}) prod_{j=k}^{r-1} |e_j|   (k < r)
+  //           = (q_{k+1}/q_{r+1}) prod_{j=r}^{k-1} |e_j|   (k > r)
+  amp[twist] = 1;
+  let norm = 1;
+  const invLead = 1 / lead[twist];
+  let prod = 1;
+  for (let k = twist - 1; k >= 0; k--) {
+    prod *= psi * sqrtUp[k];
+    const x = lead[k] * invLead * prod;
+    amp[k] = x;
+    norm += x * x;
+  }
+  const invTrail = 1 / trail[twist];
+  prod = 1;
+  for (let k = twist + 1; k < states; k++) {
+    prod *= psi * sqrtUp[k - 1];
+    const x = trail[k] * invTrail * prod;
+    amp[k] = x;
+    norm += x * x;
+  }
+  const scaleAmp = 1 / Math.sqrt(norm);
+  let phi = 0;
+  amp[0] *= scaleAmp;
+  for (let k = 1; k < states; k++) {
+    amp[k] *= scaleAmp;
+    phi += sqrtUp[k - 1] * amp[k - 1] * amp[k];
+  }
+  return phi;
 }
 
 /** Fill `out` from the ground-state amplitudes left by solveSiteGround. */

@@ -1,0 +1,40 @@
+// `tiercake check SCENARIO`: validate a scenario and print the resolved parameters,
+// without solving or writing anything.
+
+import type { Command } from 'commander';
+import type { CommandContext } from './main.js';
+import { collectRepeated } from './solveCommand.js';
+import { prepareScenario } from './solveRun.js';
+import { inAllUnits } from '../scenario/resolveScenario.js';
+import { ExitCode } from './inputError.js';
+
+export function registerCheck(program: Command, context: CommandContext): void {
+  program
+    .command('check')
+    .description('validate a scenario and print the resolved parameters (nothing is solved or written)')
+    .argument('<scenario>', 'scenario file (JSON)')
+    .option('-s, --set <path=value>', 'override a scenario field (repeatable)', collectRepeated, [])
+    .action((scenarioPath: string, options: { set: string[] }) => {
+      const { resolved } = prepareScenario(scenarioPath, options.set);
+      const u = resolved.units;
+      const show = (label: string, v: number): string => {
+        const all = inAllUnits(v, u);
+        return `  ${label.padEnd(22)} ${Object.entries(all).map(([k, x]) => `${x.toPrecision(6)} ${k}`).join('   ')}`;
+      };
+      const lines = [
+        `scenario ${resolved.scenario.name}: valid`,
+        `  mode                   ${resolved.mode}`,
+        `  lattice                ${resolved.geometry.shape.join(' x ')} sites (${resolved.geometry.siteCount}), ${resolved.geometry.periodic.map((p) => (p ? 'periodic' : 'open')).join('/')}`,
+        ...(resolved.latticeSpacingUm !== null ? [`  lattice spacing        ${resolved.latticeSpacingUm.toPrecision(6)} µm`] : []),
+        show('hopping J', u.hopping),
+        show('interaction U', u.interaction),
+        `  U/J                    ${(u.interaction / u.hopping).toPrecision(6)}`,
+        ...resolved.trapCoefficient.map((k, d) => show(`trap coeff. ${'xyz'[d]} /site²`, k)),
+        resolved.chemical.kind === 'mu' ? show('chemical potential', resolved.chemical.mu) : `  atoms                  ${resolved.chemical.atoms}`,
+        resolved.thermal.kind === 'temperature' ? show('k_B T', resolved.thermal.kT) : `  entropy per atom       ${resolved.thermal.entropyPerAtom} k_B`,
+        `  nmax                   ${resolved.scenario.truncation.nmax}${resolved.scenario.truncation.automatic ? ' (raised automatically if needed)' : ''}`,
+      ];
+      process.stdout.write(`${lines.join('\n')}\n`);
+      context.exitCode = ExitCode.done;
+    });
+}

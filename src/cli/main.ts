@@ -1,0 +1,65 @@
+// The command-line entry point: builds the commander program from one module per command,
+// and maps every outcome to an exit code (DESIGN.md section 6): 0 done, 2 bad input,
+// 3 not converged (results written and flagged), 130 interrupted, 1 anything else.
+
+import { Command, CommanderError } from 'commander';
+import { ExitCode, InputError } from './inputError.js';
+import { registerSolve } from './solveCommand.js';
+import { registerCheck } from './checkCommand.js';
+import { registerDiagram } from './diagramCommand.js';
+import { registerHubbard } from './hubbardCli.js';
+import { toolVersion } from './version.js';
+
+/** Commands set this when they finish with a non-zero status without throwing. */
+export interface CommandContext {
+  exitCode: number;
+}
+
+export function buildProgram(context: CommandContext): Command {
+  const program = new Command();
+  program
+    .name('tiercake')
+    .description('Site-resolved Gutzwiller predictions for bosons in trapped, disordered optical lattices')
+    .version(toolVersion(), '-V, --version')
+    .showHelpAfterError('(run with --help for usage)')
+    .exitOverride();
+  registerSolve(program, context);
+  registerCheck(program, context);
+  registerDiagram(program, context);
+  registerHubbard(program, context);
+  return program;
+}
+
+export async function runCli(argv: string[]): Promise<number> {
+  const context: CommandContext = { exitCode: ExitCode.done };
+  const program = buildProgram(context);
+  try {
+    await program.parseAsync(argv, { from: 'user' });
+    return context.exitCode;
+  } catch (err) {
+    if (err instanceof CommanderError) {
+      if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') return 0;
+      return ExitCode.badInput; // commander already printed the message
+    }
+    if (err instanceof InputError) {
+      process.stderr.write(`tiercake: ${err.message}\n`);
+      return ExitCode.badInput;
+    }
+    const message = err instanceof Error ? err.message : String(err);
+    process.stderr.write(`tiercake: failed: ${message}\n`);
+    if (process.env.TIERCAKE_DEBUG && err instanceof Error && err.stack) process.stderr.write(`${err.stack}\n`);
+    return ExitCode.failure;
+  }
+}
+
+export function main(): void {
+  runCli(process.argv.slice(2)).then(
+    (code) => {
+      process.exitCode = code;
+    },
+    (err) => {
+      process.stderr.write(`tiercake: failed: ${err instanceof Error ? err.message : String(err)}\n`);
+      process.exitCode = ExitCode.failure;
+    },
+  );
+}

@@ -1,0 +1,94 @@
+// `tiercake solve SCENARIO`: the main job. Thin layer: options -> solveScenario ->
+// files in an output folder that appears complete or not at all -> exit code.
+
+import type { Command } from 'commander';
+import { resolve } from 'node:path';
+import { OutputFolder } from '../io/outputFolder.js';
+import { renderReportHtml } from '../report/renderReport.js';
+import { ExitCode } from './inputError.js';
+import type { CommandContext } from './main.js';
+import { createProgressReporter } from './progressReporter.js';
+import { parseThreads, solveScenario } from './solveRun.js';
+import { writeSolveFiles } from './solveOutputs.js';
+import { buildSolveReport } from './solveReport.js';
+
+export interface SolveCommandOptions {
+  out?: string;
+  set: string[];
+  threads?: string;
+  quiet?: boolean;
+  jsonProgress?: boolean;
+}
+
+export const collectRepeated = (value: string, previous: string[]): string[] => [...previous, value];
+
+export function registerSolve(program: Command, context: CommandContext): void {
+  program
+    .command('solve')
+    .description('solve a scenario and write fields, images, profiles, summary.json and report.html')
+    .argument('<scenario>', 'scenario file (JSON); examples in configs/')
+    .option('-o, --out <dir>', 'output folder (default: out/<scenario name>)')
+    .option('-s, --set <path=value>', 'override a scenario field by its dotted path, e.g. particles.atoms=5000 (repeatable)', collectRepeated, [])
+    .option('-t, --threads <n>', 'compute threads, the main thread included (default: all cores)')
+    .option('-q, --quiet', 'no progress output')
+    .option('--json-progress', 'progress as one JSON object per line on stderr')
+    .action(async (scenarioPath: string, options: SolveCommandOptions) => {
+      context.exitCode = await runSolveCommand(scenarioPath, options);
+    });
+}
+
+export async function runSolveCommand(scenarioPath: string, options: SolveCommandOptions): Promise<number> {
+  const threads = parseThreads(options.threads);
+  const progress = createProgressReporter(options.quiet ? 'quiet' : options.jsonProgress ? 'json' : 'auto');
+  let interrupted = false;
+  const onSignal = (): void => {
+    interrupted = true;
+  };
+  process.on('SIGINT', onSignal);
+  process.on('SIGTERM', onSignal);
+  let artifacts;
+  try {
+    artifacts = await solveScenario({
+      scenarioPath,
+      overrides: options.set,
+      threads,
+      observer: (p) => {
+        progress.update({
+          stage: p.stage === 'solve' ? 'solving' : p.stage === 'temperature' ? 'finding T' : 'dn/dmu',
+          sweep: p.totalSweeps,
+          residual: p.change,
+          errorEstimate: p.errorEstimate,
+          atoms: p.atoms,
+          mu: p.mu,
+          detail: `nmax ${p.nmax}`,
+        });
+        return interrupted ? 'stop' : undefined;
+      },
+    });
+  } finally {
+    process.off('SIGINT', onSignal);
+    process.off('SIGTERM', onSignal);
+  }
+  const outDir = resolve(options.out ?? `out/${artifacts.scenario.name}`);
+  const folder = new OutputFolder(outDir);
+  try {
+    const createdIso = new Date().toISOString();
+    writeSolveFiles(artifacts, folder, (images) => renderReportHtml(buildSolveReport(artifacts, images, createdIso)));
+    folder.commit();
+  } catch (err) {
+    folder.discard();
+    throw err;
+  }
+  const o = artifacts.outcome;
+  progress.done();
+  const t = o.solve.totals;
+  const lines = [
+    `${artifacts.scenario.name}: ${o.converged ? 'converged' : 'NOT CONVERGED'} after ${o.totalSweeps} sweeps (${artifacts.timings.solveSeconds.toFixed(2)} s, ${artifacts.threadsUsed} thread${artifacts.threadsUsed > 1 ? 's' : ''})`,
+    `  atoms ${t.atoms.toPrecision(8)}, condensate fraction ${(t.condensedAtoms / Math.max(t.atoms, 1e-300)).toFixed(4)}, mu = ${(o.solve.mu / artifacts.resolved.units.interaction).toPrecision(6)} U`,
+    `  shells: ${artifacts.shells.shells.map((s) => `n=${s.filling} (${s.sites} sites)`).join(', ') || 'none'}`,
+    `  results in ${outDir}`,
+  ];
+  process.stdout.write(`${lines.join('\n')}\n`);
+  if (interrupted) return ExitCode.interrupted;
+  return o.converged ? ExitCode.done : ExitCode.notConverged;
+}

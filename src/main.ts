@@ -1,0 +1,3 @@
+#!/usr/bin/env node
+import { main } from './cli/main.js';
+main();

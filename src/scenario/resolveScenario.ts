@@ -1,0 +1,174 @@
+// From a validated scenario to the arrays the solver takes: lattice geometry, site
+// potential, U and J, the chemical-potential and temperature modes, and the unit
+// bookkeeping that lets every output state energies in the scenario's unit, in units of
+// J and U and (laboratory mode) in Hz and nK.
+
+import { createLatticeGeometry, type LatticeGeometry } from '../lattice/latticeGeometry.js';
+import { addHarmonicTrap, latticeCentre } from '../lattice/harmonicTrap.js';
+import type { LatticeModel } from '../lattice/latticeModel.js';
+import type { ChemicalPotentialMode } from '../solver/latticeSolve.js';
+import type { ThermalMode } from '../solver/runLattice.js';
+import { InputError } from '../cli/inputError.js';
+import type { Scenario } from './scenarioSchema.js';
+import { resolveLaboratory, type LaboratoryParameters } from './resolveLaboratory.js';
+
+export interface EnergyUnits {
+  /** label of the internal energy unit the solver works in (J, U or Hz) */
+  internal: 'J' | 'U' | 'Hz';
+  /** internal energy of one J (nearest-neighbour hopping along the first axis) */
+  hopping: number;
+  /** internal energy of one U (at the trap centre) */
+  interaction: number;
+  /** internal energy of 1 Hz (h x 1 Hz), laboratory mode only */
+  hertz: number | null;
+  /** internal energy of k_B x 1 nK, laboratory mode only */
+  nanokelvin: number | null;
+}
+
+export interface ResolvedScenario {
+  scenario: Scenario;
+  mode: 'hubbard' | 'laboratory';
+  geometry: LatticeGeometry;
+  /** the model without the truncation (set from scenario.truncation) */
+  model: LatticeModel;
+  chemical: ChemicalPotentialMode;
+  thermal: ThermalMode;
+  units: EnergyUnits;
+  trapCentre: number[];
+  /** trap coefficient per axis, internal energy per site^2 (0 where no trap) */
+  trapCoefficient: number[];
+  /** lattice spacing in micrometres (laboratory mode) */
+  latticeSpacingUm: number | null;
+  laboratory: LaboratoryParameters | null;
+}
+
+function perAxisValues(v: number | number[] | undefined, dims: number, fallback: number): number[] {
+  if (v === undefined) return Array(dims).fill(fallback);
+  if (typeof v === 'number') return Array(dims).fill(v);
+  return v.length === 1 ? Array(dims).fill(v[0]) : [...v];
+}
+
+/** Bytes the solver and the outputs need for this many sites (estimate before allocating). */
+export function estimateMemoryBytes(siteCount: number, uniform: boolean): number {
+  const solverArrays = uniform ? 12 : 16;
+  const outputCopies = 14; // derived fields, compressibility solves, images, npy encoding
+  return siteCount * 8 * (solverArrays + outputCopies);
+}
+
+export function resolveScenario(scenario: Scenario): ResolvedScenario {
+  const dims = scenario.lattice.shape.length;
+  const boundary = scenario.lattice.boundary;
+  const periodic = (Array.isArray(boundary) ? (boundary.length === 1 ? Array(dims).fill(boundary[0]) : boundary) : Array(dims).fill(boundary)).map(
+    (b: string) => b === 'periodic',
+  );
+  let geometry: LatticeGeometry;
+  try {
+    geometry = createLatticeGeometry(scenario.lattice.shape, periodic);
+  } catch (err) {
+    throw new InputError((err as Error).message);
+  }
+
+  let units: EnergyUnits;
+  let hopping: number[];
+  let interactionU: number | Float64Array;
+  let trapCoefficient: number[];
+  let latticeSpacingUm: number | null = null;
+  let laboratory: LaboratoryParameters | null = null;
+  const eps = new Float64Array(geometry.siteCount);
+
+  if (scenario.hubbard) {
+    const unit = (scenario.energyUnit ?? 'J') as 'J' | 'U';
+    if (unit === 'J') {
+      const rel = perAxisValues(scenario.hubbard.hopping, dims, 1);
+      hopping = rel;
+      interactionU = scenario.hubbard.interaction as number;
+      units = { internal: 'J', hopping: rel[0], interaction: interactionU, hertz: null, nanokelvin: null };
+    } else {
+      hopping = perAxisValues(scenario.hubbard.hopping, dims, NaN);
+      interactionU = 1;
+      units = { internal: 'U', hopping: hopping[0], interaction: 1, hertz: null, nanokelvin: null };
+    }
+    trapCoefficient = perAxisValues(scenario.trap?.coefficient, dims, 0);
+  } else {
+    laboratory = resolveLaboratory(scenario);
+    hopping = laboratory.hoppingHz;
+    interactionU = laboratory.interactionHz;
+    latticeSpacingUm = laboratory.latticeSpacingUm;
+    units = {
+      internal: 'Hz',
+      hopping: laboratory.hoppingHz[0],
+      interaction: laboratory.interactionHz,
+      hertz: 1,
+      nanokelvin: laboratory.hertzPerNanokelvin,
+    };
+    trapCoefficient = laboratory.trapCoefficientHz;
+  }
+
+  const trapCentre = scenario.trap?.centreSites ? [...scenario.trap.centreSites] : latticeCentre(geometry);
+  if (trapCoefficient.some((k) => k > 0)) addHarmonicTrap(geometry, { coefficient: trapCoefficient, centre: trapCentre }, eps);
+
+  const toInternal = energyParser(scenario, units);
+  const chemical: ChemicalPotentialMode =
+    scenario.particles.atoms !== undefined
+      ? { kind: 'atoms', atoms: scenario.particles.atoms, relativeTolerance: scenario.solver.atomTolerance }
+      : { kind: 'mu', mu: toInternal(scenario.particles.chemicalPotential as number, 'particles.chemicalPotential') };
+
+  const t = scenario.temperature;
+  let thermal: ThermalMode;
+  if (t.entropyPerAtom !== undefined) {
+    thermal = t.entropyPerAtom === 0 ? { kind: 'temperature', kT: 0 } : { kind: 'entropy', entropyPerAtom: t.entropyPerAtom, relativeTolerance: 1e-9 };
+  } else if (t.nanokelvin !== undefined) {
+    thermal = { kind: 'temperature', kT: t.nanokelvin * (units.nanokelvin as number) };
+  } else {
+    thermal = { kind: 'temperature', kT: t.kT === undefined ? 0 : toInternal(t.kT, 'temperature.kT') };
+  }
+
+  const model: LatticeModel = {
+    geometry,
+    nmax: scenario.truncation.nmax,
+    eps,
+    interactionU,
+    hopping,
+  };
+  return {
+    scenario,
+    mode: scenario.hubbard ? 'hubbard' : 'laboratory',
+    geometry,
+    model,
+    chemical,
+    thermal,
+    units,
+    trapCentre,
+    trapCoefficient,
+    latticeSpacingUm,
+    laboratory,
+  };
+}
+
+/** Converts an energy written in the scenario's unit into the internal unit. */
+export function energyParser(scenario: Scenario, units: EnergyUnits): (value: number, field: string) => number {
+  const unit = scenario.energyUnit ?? (scenario.hubbard ? 'J' : 'Hz');
+  return (value: number, field: string): number => {
+    switch (unit) {
+      case 'J':
+        return value * units.hopping;
+      case 'U':
+        return value * units.interaction;
+      case 'Hz':
+        return value * (units.hertz ?? NaN);
+      case 'kHz':
+        return value * 1000 * (units.hertz ?? NaN);
+      case 'nK':
+        if (units.nanokelvin === null) throw new InputError(`${field}: nK needs laboratory mode`);
+        return value * units.nanokelvin;
+    }
+  };
+}
+
+/** A value in the internal unit expressed in every unit system available. */
+export function inAllUnits(value: number, units: EnergyUnits): Record<string, number> {
+  const out: Record<string, number> = { J: value / units.hopping, U: value / units.interaction };
+  if (units.hertz !== null) out.Hz = value / units.hertz;
+  if (units.nanokelvin !== null) out.nK = value / units.nanokelvin;
+  return out;
+}

@@ -1,0 +1,213 @@
+// The scenario file: the single source of configuration types, bounds, defaults and the
+// documentation of every key (the README's reference table is generated from it).
+// Objects are strict: an unknown key is an error, with the nearest valid key suggested
+// (see formatScenarioError.ts).
+
+import * as z from 'zod';
+
+const finite = (): z.ZodNumber => z.number();
+const positive = (): z.ZodNumber => z.number().positive();
+const perAxis = (item: z.ZodNumber) => z.union([item, z.array(item).min(1).max(3)]);
+
+const boundary = z.enum(['open', 'periodic']);
+
+export const LatticeSchema = z
+  .strictObject({
+    shape: z
+      .array(z.int().min(1).max(100_000))
+      .min(1)
+      .max(3)
+      .describe('sites per axis, 1 to 3 axes (first axis x); e.g. [64, 64] for a 2D layer'),
+    boundary: z
+      .union([boundary, z.array(boundary).min(1).max(3)])
+      .default('open')
+      .describe("'open' or 'periodic', for all axes or per axis; periodic axes need an even length"),
+  })
+  .describe('lattice geometry');
+
+export const HubbardSchema = z
+  .strictObject({
+    hopping: perAxis(positive())
+      .optional()
+      .describe('nearest-neighbour hopping J (per axis allowed), in the energy unit; give it when energyUnit is U'),
+    interaction: positive().optional().describe('on-site interaction U, in the energy unit; give it when energyUnit is J'),
+  })
+  .describe('dimensionless model: Bose-Hubbard parameters directly (use this or laboratory)');
+
+export const SpeciesSchema = z.union([
+  z.string().min(1).describe('isotope name from the built-in table, e.g. "87Rb"'),
+  z.strictObject({
+    massU: positive().describe('atomic mass in unified atomic mass units'),
+    scatteringLengthBohr: positive().optional().describe('s-wave scattering length in Bohr radii'),
+    scatteringLengthNm: positive().optional().describe('s-wave scattering length in nm'),
+  }),
+]);
+
+export const LaboratorySchema = z
+  .strictObject({
+    species: SpeciesSchema.describe('built-in isotope name or {massU, scatteringLengthBohr | scatteringLengthNm}'),
+    wavelengthNm: positive().max(100_000).describe('lattice laser wavelength in nm (lattice spacing = wavelength/2)'),
+    depthEr: perAxis(z.number().min(0).max(500)).describe('lattice depth per axis in recoil energies E_r'),
+    transverse: z
+      .strictObject({
+        trapFrequencyHz: positive().optional().describe('harmonic confinement along the axes the lattice does not resolve, Hz'),
+        depthEr: positive().optional().describe('or: lattice depth along those axes, E_r (one site thick)'),
+      })
+      .optional()
+      .describe('for 1D and 2D lattices: what holds the atoms along the missing axes'),
+  })
+  .describe('laboratory description: tiercake computes J and U from Wannier functions (use this or hubbard)');
+
+export const TrapSchema = z
+  .strictObject({
+    coefficient: perAxis(z.number().min(0))
+      .optional()
+      .describe('dimensionless mode: eps = sum_d coefficient_d (x_d - centre_d)^2, energy unit per site^2'),
+    frequencyHz: perAxis(z.number().min(0)).optional().describe('laboratory mode: trap frequency per axis in Hz (f, not omega)'),
+    centreSites: z.array(finite()).min(1).max(3).optional().describe('trap centre in site coordinates (default: lattice centre)'),
+  })
+  .describe('harmonic trap');
+
+export const ParticlesSchema = z
+  .strictObject({
+    atoms: positive().optional().describe('total atom number N; the chemical potential is solved for'),
+    chemicalPotential: finite().optional().describe('chemical potential mu at the trap centre, in the energy unit'),
+  })
+  .describe('give exactly one of atoms and chemicalPotential');
+
+export const TemperatureSchema = z
+  .strictObject({
+    kT: z.number().min(0).optional().describe('k_B T in the energy unit (0: ground state)'),
+    nanokelvin: z.number().min(0).optional().describe('laboratory mode: temperature in nK'),
+    entropyPerAtom: z.number().min(0).optional().describe('entropy per atom in units of k_B; T is solved for'),
+  })
+  .describe('give at most one; default is the ground state (kT = 0)');
+
+export const TruncationSchema = z
+  .strictObject({
+    nmax: z.int().min(1).max(60).default(6).describe('highest occupation kept per site'),
+    automatic: z.boolean().default(true).describe('raise nmax and solve again when the truncation weight is too large'),
+    topWeightMax: positive().max(0.1).default(1e-6).describe('largest allowed probability of |nmax> at any site'),
+  })
+  .describe('Fock-space truncation');
+
+export const SolverSchema = z
+  .strictObject({
+    tolerance: positive().max(1e-2).default(1e-8).describe('stop when max |delta phi| and its estimated remaining error are below this'),
+    maxSweeps: z.int().min(1).max(10_000_000).default(20_000).describe('sweep budget for the whole solve (all mu steps)'),
+    accelerate: z.boolean().default(true).describe('extrapolate the slowest mode against critical slowing down'),
+    atomTolerance: positive().max(0.1).default(1e-6).describe('relative accuracy of the atom number at fixed N'),
+    compressibility: z.boolean().default(true).describe('compute the local compressibility map dn/dmu (two extra solves)'),
+  })
+  .describe('self-consistency settings');
+
+export const PhasesSchema = z
+  .strictObject({
+    condensateMin: positive().default(1e-4).describe('|phi|^2 above this: superfluid'),
+    integerTolerance: positive().max(0.5).default(0.02).describe('|n - round(n)| below this (and incompressible): Mott insulator'),
+    compressibilityMin: positive().default(1e-3).describe('dn/dmu (per energy unit times U) above this: compressible'),
+    emptyDensityMax: positive().max(0.5).default(0.02).describe('density below this: empty'),
+  })
+  .describe('thresholds for the site-by-site phase labels');
+
+export const ProfilesSchema = z
+  .strictObject({
+    binWidthSites: positive().max(1000).default(1).describe('width of the radial bins in (trap-scaled) lattice sites'),
+  })
+  .describe('radial profiles');
+
+export const ScenarioSchema = z
+  .strictObject({
+    name: z
+      .string()
+      .regex(/^[A-Za-z0-9][A-Za-z0-9._-]{0,79}$/, 'letters, digits, ".", "_" and "-" only, at most 80 characters')
+      .describe('scenario name (used in titles and as the default output folder)'),
+    description: z.string().max(2000).optional().describe('free text shown in the report'),
+    energyUnit: z
+      .enum(['J', 'U', 'Hz', 'kHz', 'nK'])
+      .optional()
+      .describe('unit of every energy in the file: J or U in dimensionless mode; Hz, kHz or nK (also J or U) in laboratory mode'),
+    lattice: LatticeSchema,
+    hubbard: HubbardSchema.optional(),
+    laboratory: LaboratorySchema.optional(),
+    trap: TrapSchema.optional(),
+    particles: ParticlesSchema,
+    temperature: TemperatureSchema.prefault({}),
+    truncation: TruncationSchema.prefault({}),
+    solver: SolverSchema.prefault({}),
+    phases: PhasesSchema.prefault({}),
+    profiles: ProfilesSchema.prefault({}),
+  })
+  .superRefine((s, ctx) => {
+    const issue = (path: PropertyKey[], message: string): void => ctx.addIssue({ code: 'custom', path, message });
+    const dims = s.lattice.shape.length;
+    const perAxisLength = (v: number | number[] | undefined, path: PropertyKey[]): void => {
+      if (Array.isArray(v) && v.length !== 1 && v.length !== dims) {
+        issue(path, `expected one value or ${dims} (one per lattice axis), got ${v.length}`);
+      }
+    };
+    if (Array.isArray(s.lattice.boundary) && s.lattice.boundary.length !== dims) {
+      issue(['lattice', 'boundary'], `expected one value or ${dims} (one per lattice axis), got ${s.lattice.boundary.length}`);
+    }
+    if (!s.hubbard === !s.laboratory) {
+      issue(['hubbard'], 'give exactly one of "hubbard" (J and U directly) and "laboratory" (species, wavelength, depth)');
+    }
+    if (s.hubbard) {
+      const unit = s.energyUnit ?? 'J';
+      if (unit !== 'J' && unit !== 'U') {
+        issue(['energyUnit'], `in dimensionless mode (hubbard) the energy unit must be J or U, got ${unit}`);
+      }
+      if (unit === 'J') {
+        if (s.hubbard.interaction === undefined) issue(['hubbard', 'interaction'], 'required when energyUnit is J: give U/J');
+        if (s.hubbard.hopping !== undefined && !Array.isArray(s.hubbard.hopping) && s.hubbard.hopping !== 1) {
+          issue(['hubbard', 'hopping'], 'with energyUnit J the hopping is 1 by definition; omit it or give per-axis values relative to J');
+        }
+      } else if (unit === 'U') {
+        if (s.hubbard.hopping === undefined) issue(['hubbard', 'hopping'], 'required when energyUnit is U: give J/U');
+        if (s.hubbard.interaction !== undefined && s.hubbard.interaction !== 1) {
+          issue(['hubbard', 'interaction'], 'with energyUnit U the interaction is 1 by definition; omit it');
+        }
+      }
+      perAxisLength(s.hubbard.hopping, ['hubbard', 'hopping']);
+      if (s.trap?.frequencyHz !== undefined) issue(['trap', 'frequencyHz'], 'needs laboratory mode; in hubbard mode use trap.coefficient');
+      if (s.temperature.nanokelvin !== undefined) {
+        issue(['temperature', 'nanokelvin'], 'needs laboratory mode; in hubbard mode use temperature.kT in the energy unit');
+      }
+    }
+    if (s.laboratory) {
+      perAxisLength(s.laboratory.depthEr, ['laboratory', 'depthEr']);
+      if (s.trap?.coefficient !== undefined) issue(['trap', 'coefficient'], 'in laboratory mode give trap.frequencyHz instead');
+      if (dims < 3 && !s.laboratory.transverse) {
+        issue(['laboratory', 'transverse'], `a ${dims}D lattice needs the confinement along the missing axes: transverse.trapFrequencyHz or transverse.depthEr`);
+      }
+      if (s.laboratory.transverse) {
+        const t = s.laboratory.transverse;
+        if ((t.trapFrequencyHz === undefined) === (t.depthEr === undefined)) {
+          issue(['laboratory', 'transverse'], 'give exactly one of trapFrequencyHz and depthEr');
+        }
+      }
+      if (typeof s.laboratory.species !== 'string') {
+        const sp = s.laboratory.species;
+        if ((sp.scatteringLengthBohr === undefined) === (sp.scatteringLengthNm === undefined)) {
+          issue(['laboratory', 'species'], 'give exactly one of scatteringLengthBohr and scatteringLengthNm');
+        }
+      }
+    }
+    perAxisLength(s.trap?.coefficient, ['trap', 'coefficient']);
+    perAxisLength(s.trap?.frequencyHz, ['trap', 'frequencyHz']);
+    if (s.trap?.centreSites && s.trap.centreSites.length !== dims) {
+      issue(['trap', 'centreSites'], `expected ${dims} coordinates (one per lattice axis), got ${s.trap.centreSites.length}`);
+    }
+    if ((s.particles.atoms === undefined) === (s.particles.chemicalPotential === undefined)) {
+      issue(['particles'], 'give exactly one of particles.atoms and particles.chemicalPotential');
+    }
+    const t = s.temperature;
+    const given = [t.kT, t.nanokelvin, t.entropyPerAtom].filter((v) => v !== undefined).length;
+    if (given > 1) issue(['temperature'], 'give at most one of kT, nanokelvin and entropyPerAtom');
+    if (t.entropyPerAtom !== undefined && s.particles.atoms === undefined) {
+      issue(['temperature', 'entropyPerAtom'], 'fixed entropy per atom needs a fixed atom number: give particles.atoms');
+    }
+  });
+
+export type ScenarioInput = z.input<typeof ScenarioSchema>;
+export type Scenario = z.output<typeof ScenarioSchema>;

@@ -1,0 +1,215 @@
+// One complete lattice run, independent of files and terminals: solve at fixed mu or N,
+// at fixed temperature or fixed entropy per atom, guard the Fock-space truncation
+// (raise nmax and solve again when |nmax> carries weight), and optionally measure the
+// local compressibility dn_i/dmu by two extra warm-started solves at mu +- dmu.
+//
+// Fixed entropy: S/N at fixed N grows monotonically with T, so T comes from Brent's
+// method on S(T)/N - target, each evaluation a fixed-N solve warm-started from the last.
+
+import type { LatticeModel } from '../lattice/latticeModel.js';
+import { maxHopping, maxInteraction } from '../lattice/latticeModel.js';
+import { brentRootAsync } from './brentRoot.js';
+import { initialOrderParameter, solveLattice, type ChemicalPotentialMode, type LatticeSolveResult, type SolveProgress } from './latticeSolve.js';
+import { relaxAtFixedMu, shiftLowerBounds } from './relaxation.js';
+import type { SweepExecutor } from './sweepExecutor.js';
+import { createSolverState, type SolverState } from './solverState.js';
+
+export type ThermalMode = { kind: 'temperature'; kT: number } | { kind: 'entropy'; entropyPerAtom: number; relativeTolerance: number };
+
+export interface RunRequest {
+  model: LatticeModel;
+  chemical: ChemicalPotentialMode;
+  thermal: ThermalMode;
+  tolerance: number;
+  maxSweeps: number;
+  accelerate: boolean;
+  truncation: { automatic: boolean; topWeightMax: number; nmaxLimit: number };
+  compressibility: boolean;
+  /** starting order parameter (e.g. from a checkpoint); default: atomic-limit guess */
+  initialPhi?: Float64Array;
+  observer?: (progress: RunProgress) => void | 'stop';
+}
+
+export interface RunProgress extends SolveProgress {
+  stage: 'solve' | 'temperature' | 'compressibility';
+  nmax: number;
+  temperature: number;
+}
+
+export interface TruncationReport {
+  nmaxUsed: number;
+  nmaxTried: number[];
+  maxTopWeight: number;
+  maxTopWeightSite: number;
+  ok: boolean;
+}
+
+export interface RunOutcome {
+  model: LatticeModel;
+  state: SolverState;
+  solve: LatticeSolveResult;
+  temperature: number;
+  temperatureSearch: { evaluations: number; converged: boolean; history: Array<{ kT: number; entropyPerAtom: number }> } | null;
+  truncation: TruncationReport;
+  /** dn_i/dmu per site (energy unit^-1), or null when not requested */
+  compressibility: Float64Array | null;
+  compressibilityStep: number;
+  converged: boolean;
+  stopped: boolean;
+  totalSweeps: number;
+}
+
+export type ExecutorFactory = (state: SolverState) => SweepExecutor;
+
+/** Copy of the model with a different truncation. */
+function withNmax(model: LatticeModel, nmax: number): LatticeModel {
+  return { ...model, nmax };
+}
+
+export async function runLattice(request: RunRequest, makeExecutor: ExecutorFactory): Promise<RunOutcome> {
+  let model = request.model;
+  const tried: number[] = [];
+  let phiStart = request.initialPhi ?? initialOrderParameter(model, request.chemical.kind === 'mu' ? request.chemical.mu : 0);
+  let sweepsUsed = 0;
+  for (;;) {
+    tried.push(model.nmax);
+    const state = createSolverState(model, phiStart);
+    const executor = makeExecutor(state);
+    const stageObserver = (stage: RunProgress['stage'], temperature: number) => (p: SolveProgress) =>
+      request.observer?.({ ...p, stage, nmax: model.nmax, temperature, totalSweeps: sweepsUsed + p.totalSweeps });
+
+    const solveAt = async (kT: number, stage: RunProgress['stage']): Promise<LatticeSolveResult> => {
+      const result = await solveLattice(model, state, executor, {
+        mode: request.chemical,
+        temperature: kT,
+        tolerance: request.tolerance,
+        maxSweeps: Math.max(1, request.maxSweeps - sweepsUsed),
+        accelerate: request.accelerate,
+        observer: stageObserver(stage, kT),
+      });
+      sweepsUsed += result.muSearch.totalSweeps;
+      return result;
+    };
+
+    let temperature: number;
+    let solve: LatticeSolveResult;
+    let temperatureSearch: RunOutcome['temperatureSearch'] = null;
+    if (request.thermal.kind === 'temperature') {
+      temperature = request.thermal.kT;
+      solve = await solveAt(temperature, 'solve');
+    } else {
+      const target = request.thermal.entropyPerAtom;
+      const history: Array<{ kT: number; entropyPerAtom: number }> = [];
+      const entropyAt = async (kT: number): Promise<number> => {
+        solve = await solveAt(kT, 'temperature');
+        const s = solve.totals.entropy / solve.totals.atoms;
+        history.push({ kT, entropyPerAtom: s });
+        return s - target;
+      };
+      const scale = Math.max(maxInteraction(model), 2 * model.geometry.dims * maxHopping(model));
+      let lo = 0.02 * scale;
+      let hi = 0.2 * scale;
+      let flo = await entropyAt(lo);
+      let k = 0;
+      while (flo > 0 && k++ < 30 && !solve!.stopped) {
+        hi = lo;
+        lo /= 3;
+        flo = await entropyAt(lo);
+      }
+      let fhi = flo > 0 ? flo : await entropyAt(hi);
+      k = 0;
+      while (fhi < 0 && k++ < 30 && !solve!.stopped) {
+        lo = hi;
+        flo = fhi;
+        hi *= 2.5;
+        fhi = await entropyAt(hi);
+      }
+      let converged = false;
+      if (flo <= 0 && fhi >= 0 && !solve!.stopped) {
+        const root = await brentRootAsync(entropyAt, lo, hi, flo, fhi, 1e-12 * hi, request.thermal.relativeTolerance * target, 80, () => solve.stopped);
+        converged = root.converged;
+        if (history[history.length - 1].kT !== root.root) await entropyAt(root.root);
+        temperature = root.root;
+      } else {
+        temperature = history[history.length - 1].kT;
+      }
+      temperatureSearch = { evaluations: history.length, converged, history };
+      solve = solve!;
+    }
+
+    const totals = solve.totals;
+    const truncationOk = totals.maxTopWeight <= request.truncation.topWeightMax;
+    if (!truncationOk && request.truncation.automatic && model.nmax + 2 <= request.truncation.nmaxLimit && !solve.stopped) {
+      // Keep the field: it is a good start for the larger Fock space.
+      phiStart = Float64Array.from(state.fields.phi);
+      model = withNmax(model, model.nmax + 2);
+      continue;
+    }
+
+    let compressibility: Float64Array | null = null;
+    const step = 1e-3 * Math.max(maxInteraction(model), 2 * model.geometry.dims * maxHopping(model), temperature);
+    if (request.compressibility && !solve.stopped) {
+      compressibility = await localCompressibility(state, executor, solve.mu, temperature, step, request, (p) =>
+        request.observer?.({ ...p, stage: 'compressibility', nmax: model.nmax, temperature, totalSweeps: sweepsUsed + p.sweep, mu: solve.mu, atoms: totals.atoms, muEvaluation: 0 }),
+      );
+    }
+    return {
+      model,
+      state,
+      solve,
+      temperature,
+      temperatureSearch,
+      truncation: {
+        nmaxUsed: model.nmax,
+        nmaxTried: tried,
+        maxTopWeight: totals.maxTopWeight,
+        maxTopWeightSite: totals.maxTopWeightSite,
+        ok: truncationOk,
+      },
+      compressibility,
+      compressibilityStep: step,
+      converged: solve.converged && truncationOk && (temperatureSearch?.converged ?? true),
+      stopped: solve.stopped,
+      totalSweeps: sweepsUsed,
+    };
+  }
+}
+
+/**
+ * dn_i/dmu by central differences of two converged solves at mu +- step (same T), each
+ * warm-started from the solution; the solution's phi and measured fields are restored.
+ */
+async function localCompressibility(
+  state: SolverState,
+  executor: SweepExecutor,
+  mu: number,
+  temperature: number,
+  step: number,
+  request: RunRequest,
+  observer: (p: { sweep: number; change: number; rate: number; errorEstimate: number }) => void | 'stop',
+): Promise<Float64Array> {
+  const phi = state.fields.phi;
+  const saved = Float64Array.from(phi);
+  const densityAt = async (m: number): Promise<Float64Array> => {
+    phi.set(saved);
+    shiftLowerBounds(state, Math.abs(m - mu) * 2);
+    await relaxAtFixedMu(state, executor, {
+      mu: m,
+      temperature,
+      tolerance: Math.min(request.tolerance, 1e-9),
+      maxSweeps: 5000,
+      accelerate: request.accelerate,
+      observer,
+    });
+    await executor.measure(m, temperature);
+    return Float64Array.from(state.measure.density);
+  };
+  const up = await densityAt(mu + step);
+  const down = await densityAt(mu - step);
+  const out = new Float64Array(phi.length);
+  for (let i = 0; i < out.length; i++) out[i] = (up[i] - down[i]) / (2 * step);
+  phi.set(saved);
+  shiftLowerBounds(state, 4 * step);
+  await executor.measure(mu, temperature);
+  return out;
+}

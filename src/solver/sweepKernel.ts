@@ -1,0 +1,209 @@
+// The red-black sweep kernel of the site-resolved Gutzwiller self-consistency
+// (DESIGN.md section 1). On a bipartite lattice with nearest-neighbour hopping, sites of
+// one colour ((x + y + z) even or odd) only touch sites of the other, so updating all sites
+// of one colour from the current values of the other is an exact block Gauss-Seidel step:
+// it never raises the mean-field energy (T = 0) or grand potential (T > 0), and its result
+// does not depend on how the rows are split among threads.
+//
+// The kernel works on plain Float64Arrays (views on SharedArrayBuffers when workers run
+// it) and a per-thread site workspace; it allocates nothing. It runs on contiguous ranges
+// of rows of the internal [n0, n1, n2] layout (see latticeGeometry.ts).
+
+import {
+  couplingNormBound,
+  createSiteObservables,
+  solveSiteGround,
+  solveSiteThermal,
+  type SiteObservables,
+  type SiteWorkspace,
+} from './siteProblem.js';
+
+/** The arrays and constants the kernel reads and writes. */
+export interface KernelFields {
+  inner: readonly [number, number, number];
+  innerPeriodic: readonly [boolean, boolean, boolean];
+  nmax: number;
+  /** site potential eps_i */
+  eps: Float64Array;
+  /** per-site U, or null for the uniform value `interactionU` */
+  interactionArray: Float64Array | null;
+  interactionU: number;
+  /** per-bond hopping along each internal axis (bond i -> i + e_axis stored at i), or null */
+  hopArrays: readonly [Float64Array | null, Float64Array | null, Float64Array | null];
+  /** uniform hopping along each internal axis (used where hopArrays[axis] is null) */
+  hopUniform: readonly [number, number, number];
+  /** order parameter phi_i = <b_i> (real, >= 0) */
+  phi: Float64Array;
+  /** last change of phi_i (signed), used by the extrapolation step */
+  delta: Float64Array;
+  /** last ground energy of each site problem, or a lower bound to it (T = 0 warm start); NaN if none */
+  lowerEnergy: Float64Array;
+  /** psi_i at which lowerEnergy was computed */
+  psiPrev: Float64Array;
+}
+
+/** Per-site observables written by the measuring pass. */
+export interface MeasureFields {
+  density: Float64Array;
+  densitySq: Float64Array;
+  parityOdd: Float64Array;
+  topWeight: Float64Array;
+  entropy: Float64Array;
+  /** mean field psi_i = sum_j J_ij phi_j */
+  psi: Float64Array;
+  /** site contribution to the grand potential: Omega_i + psi_i phi_i */
+  grandPotential: Float64Array;
+}
+
+/** Mean field psi_i = sum over neighbours j of J_ij phi_j at flat index i, coordinates (a, b, c). */
+function meanField(f: KernelFields, i: number, a: number, b: number, c: number): number {
+  const n0 = f.inner[0];
+  const n1 = f.inner[1];
+  const n2 = f.inner[2];
+  const phi = f.phi;
+  let psi = 0;
+  if (n2 > 1) {
+    const h = f.hopArrays[2];
+    const j = f.hopUniform[2];
+    if (c + 1 < n2) psi += (h === null ? j : h[i]) * phi[i + 1];
+    else if (f.innerPeriodic[2]) psi += (h === null ? j : h[i]) * phi[i - n2 + 1];
+    if (c > 0) psi += (h === null ? j : h[i - 1]) * phi[i - 1];
+    else if (f.innerPeriodic[2]) psi += (h === null ? j : h[i + n2 - 1]) * phi[i + n2 - 1];
+  }
+  if (n1 > 1) {
+    const h = f.hopArrays[1];
+    const j = f.hopUniform[1];
+    const s = n2;
+    const wrap = (n1 - 1) * s;
+    if (b + 1 < n1) psi += (h === null ? j : h[i]) * phi[i + s];
+    else if (f.innerPeriodic[1]) psi += (h === null ? j : h[i]) * phi[i - wrap];
+    if (b > 0) psi += (h === null ? j : h[i - s]) * phi[i - s];
+    else if (f.innerPeriodic[1]) psi += (h === null ? j : h[i + wrap]) * phi[i + wrap];
+  }
+  if (n0 > 1) {
+    const h = f.hopArrays[0];
+    const j = f.hopUniform[0];
+    const s = n1 * n2;
+    const wrap = (n0 - 1) * s;
+    if (a + 1 < n0) psi += (h === null ? j : h[i]) * phi[i + s];
+    else if (f.innerPeriodic[0]) psi += (h === null ? j : h[i]) * phi[i - wrap];
+    if (a > 0) psi += (h === null ? j : h[i - s]) * phi[i - s];
+    else if (f.innerPeriodic[0]) psi += (h === null ? j : h[i + wrap]) * phi[i + wrap];
+  }
+  return psi;
+}
+
+/**
+ * Update every site of one colour in rows [rowStart, rowEnd). Returns max |delta phi|.
+ * temperature <= 0: ground state with warm-started eigenvalue search; > 0: thermal state.
+ */
+export function sweepColour(
+  f: KernelFields,
+  ws: SiteWorkspace,
+  colour: number,
+  rowStart: number,
+  rowEnd: number,
+  mu: number,
+  temperature: number,
+): number {
+  const n1 = f.inner[1];
+  const n2 = f.inner[2];
+  const eps = f.eps;
+  const uArr = f.interactionArray;
+  const uUni = f.interactionU;
+  const phi = f.phi;
+  const delta = f.delta;
+  const lower = f.lowerEnergy;
+  const psiPrev = f.psiPrev;
+  const coupling = couplingNormBound(f.nmax);
+  const thermal = temperature > 0;
+  let maxChange = 0;
+  for (let row = rowStart; row < rowEnd; row++) {
+    const a = (row / n1) | 0;
+    const b = row - a * n1;
+    const base = row * n2;
+    for (let c = (a + b + colour) & 1; c < n2; c += 2) {
+      const i = base + c;
+      const psi = meanField(f, i, a, b, c);
+      const u = uArr === null ? uUni : uArr[i];
+      let phiNew: number;
+      if (thermal) {
+        phiNew = solveSiteThermal(ws, u, mu - eps[i], psi, temperature, null);
+      } else {
+        // Weyl: lambda(psi) >= lambda(psiPrev) - |psi - psiPrev| ||b + b^+||.
+        const prev = lower[i];
+        const bound =
+          prev === prev ? prev - Math.abs(psi - psiPrev[i]) * coupling - 1e-12 * (Math.abs(prev) + u) : NaN;
+        phiNew = solveSiteGround(ws, u, mu - eps[i], psi, bound);
+        lower[i] = ws.eigenvalues[0];
+        psiPrev[i] = psi;
+      }
+      const change = phiNew - phi[i];
+      delta[i] = change;
+      phi[i] = phiNew;
+      const absChange = change < 0 ? -change : change;
+      if (absChange > maxChange) maxChange = absChange;
+    }
+  }
+  return maxChange;
+}
+
+const measureScratch: SiteObservables = createSiteObservables();
+
+/**
+ * Observables of every site in rows [rowStart, rowEnd) for the current phi, without
+ * changing phi. The site state is the one selected by the current mean field psi_i.
+ */
+export function measureRows(
+  f: KernelFields,
+  m: MeasureFields,
+  ws: SiteWorkspace,
+  rowStart: number,
+  rowEnd: number,
+  mu: number,
+  temperature: number,
+): void {
+  const n1 = f.inner[1];
+  const n2 = f.inner[2];
+  const out = measureScratch;
+  for (let row = rowStart; row < rowEnd; row++) {
+    const a = (row / n1) | 0;
+    const b = row - a * n1;
+    const base = row * n2;
+    for (let c = 0; c < n2; c++) {
+      const i = base + c;
+      const psi = meanField(f, i, a, b, c);
+      const u = f.interactionArray === null ? f.interactionU : f.interactionArray[i];
+      if (temperature > 0) {
+        solveSiteThermal(ws, u, mu - f.eps[i], psi, temperature, out);
+      } else {
+        const phiSite = solveSiteGround(ws, u, mu - f.eps[i], psi, NaN);
+        out.phi = phiSite;
+        let density = 0;
+        let densitySq = 0;
+        let odd = 0;
+        const amp = ws.amplitudes;
+        for (let n = 0; n < ws.states; n++) {
+          const p = amp[n] * amp[n];
+          density += n * p;
+          densitySq += n * n * p;
+          if (n & 1) odd += p;
+        }
+        out.energy = ws.eigenvalues[0];
+        out.density = density;
+        out.densitySq = densitySq;
+        out.parityOdd = odd;
+        out.topWeight = amp[ws.states - 1] * amp[ws.states - 1];
+        out.entropy = 0;
+      }
+      m.density[i] = out.density;
+      m.densitySq[i] = out.densitySq;
+      m.parityOdd[i] = out.parityOdd;
+      m.topWeight[i] = out.topWeight;
+      m.entropy[i] = out.entropy;
+      m.psi[i] = psi;
+      // Omega = sum_i (Omega_i + psi_i phi_i), with phi_i the current field (see siteProblem.ts).
+      m.grandPotential[i] = out.energy + psi * f.phi[i];
+    }
+  }
+}
