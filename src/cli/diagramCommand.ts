@@ -39,7 +39,7 @@ export function registerDiagram(program: Command, context: CommandContext): void
     .option('--mu <from:to>', 'range of mu/U', '-0.2:3')
     .option('--grid <cols>x<rows>', 'grid points along zJ/U and mu/U', '400x400')
     .option('--kt <x>', 'temperature k_B T/U (0: ground state)', '0')
-    .option('--nmax <n>', 'highest occupation kept per site', '8')
+    .option('--nmax <n>', 'highest occupation kept per site', '10')
     .option('--shade <field>', "colour by 'phi' (order parameter) or 'density'", 'phi')
     .option('-o, --out <dir>', 'output folder', 'out/phase-map')
     .action((options: DiagramOptions) => {
@@ -132,11 +132,13 @@ export function runDiagram(options: DiagramOptions): number {
     ],
     header,
   );
+  // Filling 0 (the empty lattice) has an edge but no tip.
+  const lobes = result.boundaries.filter((b) => b.filling > 0);
   const tipsCsv = toCsv(
     [
-      { name: 'filling', values: result.boundaries.map((b) => b.filling) },
-      { name: 'tip_mu_over_U', values: result.boundaries.map((b) => b.tipMu) },
-      { name: 'tip_zJ_over_U', values: result.boundaries.map((b) => b.tipZJ) },
+      { name: 'filling', values: lobes.map((b) => b.filling) },
+      { name: 'tip_mu_over_U', values: lobes.map((b) => b.tipMu) },
+      { name: 'tip_zJ_over_U', values: lobes.map((b) => b.tipZJ) },
     ],
     [...header, 'largest zJ/U of each computed boundary curve (the lobe tip at T = 0)'],
   );
@@ -163,7 +165,7 @@ export function runDiagram(options: DiagramOptions): number {
               {
                 kind: 'table',
                 columns: [{ header: 'filling n' }, { header: 'mu/U at tip' }, { header: 'zJ/U at tip' }],
-                rows: result.boundaries.map((b) => [b.filling, b.tipMu, b.tipZJ]),
+                rows: lobes.map((b) => [b.filling, b.tipMu, b.tipZJ]),
               },
             ],
           },
@@ -177,7 +179,7 @@ export function runDiagram(options: DiagramOptions): number {
     folder.discard();
     throw err;
   }
-  const tips = result.boundaries.map((b) => `n=${b.filling}: zJ/U=${b.tipZJ.toFixed(5)} at mu/U=${b.tipMu.toFixed(4)}`).join('; ');
+  const tips = lobes.map((b) => `n=${b.filling}: zJ/U=${b.tipZJ.toFixed(5)} at mu/U=${b.tipMu.toFixed(4)}`).join('; ');
   process.stdout.write(`phase map ${columns}x${rows} in ${seconds.toFixed(2)} s; lobe tips ${tips}\nresults in ${outDir}\n`);
   return ExitCode.done;
 }

@@ -70,9 +70,10 @@ export function phaseMap(req: PhaseMapRequest, onRow?: (fraction: number) => voi
     onRow?.((c + 1) / columns);
   }
   const boundaries: LobeBoundary[] = [];
-  const firstFilling = Math.max(1, Math.floor(muMin) + 1);
+  // Filling 0 is the empty lattice (mu < 0), whose edge is zJ = -mu.
+  const firstFilling = Math.max(0, Math.floor(muMin) + 1);
   for (let n = firstFilling; n - 1 < muMax && n < nmax; n++) {
-    const lo = Math.max(n - 1, muMin);
+    const lo = n === 0 ? muMin : Math.max(n - 1, muMin);
     const hi = Math.min(n, muMax);
     if (!(hi > lo)) continue;
     const count = req.boundaryPoints;
