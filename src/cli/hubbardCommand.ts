@@ -142,7 +142,7 @@ export function formatHubbardTable(rows: readonly HubbardTableRow[]): string {
   const notes = new Set<string>();
   for (const row of rows) for (const w of row.warnings) notes.add(`${sig(row.depthEr)} E_r: ${w}`);
   if (rows.some((r) => !r.nnnResolved)) {
-    out.push('J2/J ~0: next-nearest hopping below the numerical round-off of the band energies (~1e-13 E_r).');
+    out.push('J2/J ~0: next-nearest hopping below the numerical round-off of the band energies (~1e-15 E_r).');
   }
   if (notes.size > 0) out.push('warnings:', ...[...notes].map((n) => `  ${n}`));
   return `${out.join('\n')}\n`;
