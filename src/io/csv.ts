@@ -1,11 +1,14 @@
 // Comma-separated values for profiles and tables (RFC 4180 quoting), readable by
-// numpy.loadtxt/genfromtxt (comments='#'), pandas.read_csv(comment='#') and spreadsheets.
+// pandas.read_csv(comment='#') and spreadsheets. numpy counts comment lines as lines:
+// numpy.loadtxt(f, delimiter=',', skiprows=<number of '#' lines + 1>), and
+// numpy.genfromtxt(f, delimiter=',', names=True, skip_header=<number of '#' lines>)
+// (with names=True it would otherwise take the first comment for the column names).
 //
 // Layout: optional comment lines starting with '# ', one header row of column names,
 // then one row per index. Numbers are written with String(x), the shortest decimal that
 // reads back as exactly the same double (ECMAScript Number::toString; '-0' keeps the sign),
-// so nothing is lost;
-// NaN and infinities are written as 'nan', 'inf' and '-inf', which numpy and pandas parse.
+// so nothing is lost. NaN and infinities are written as 'nan', 'inf' and '-inf', which
+// numpy parses (checked in the tests) and so does pandas by default.
 // A field is quoted when it holds a comma, a double quote, a line break or edge spaces,
 // with inner quotes doubled (RFC 4180, section 2). Lines end with '\n'. A '#' inside a
 // name or text value is refused: numpy and pandas with comment='#' would cut the line there.

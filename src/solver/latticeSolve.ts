@@ -53,7 +53,7 @@ export interface LatticeSolveResult {
   /** the final relaxation */
   relax: RelaxResult;
   totals: LatticeTotals;
-  muSearch: { evaluations: number; converged: boolean; totalSweeps: number; atomHistory: Array<{ mu: number; atoms: number }> };
+  muSearch: { evaluations: number; converged: boolean; totalSweeps: number; atomHistory: Array<{ mu: number; atoms: number; sweeps: number }> };
   /** max |delta phi| of every sweep of every evaluation, in order */
   residualHistory: number[];
 }
@@ -127,7 +127,7 @@ export async function solveLattice(
 ): Promise<LatticeSolveResult> {
   const { temperature, tolerance, maxSweeps, accelerate } = options;
   const history: number[] = [];
-  const atomHistory: Array<{ mu: number; atoms: number }> = [];
+  const atomHistory: Array<{ mu: number; atoms: number; sweeps: number }> = [];
   let totalSweeps = 0;
   let evaluations = 0;
   let lastMu = NaN;
@@ -135,14 +135,48 @@ export async function solveLattice(
   let lastRelax: RelaxResult | null = null;
   let stopped = false;
 
+  // While mu is still far from the answer, a relaxation need only be accurate enough to
+  // rank N(mu) against the target: the tolerance tightens with the best atom-number error
+  // so far and reaches the requested one for the final steps.
+  let bestRelativeError = Infinity;
+  let lastTolerance = tolerance;
+  const toleranceNow = (): number =>
+    options.mode.kind === 'atoms' ? Math.max(tolerance, Math.min(1e-5, 0.01 * bestRelativeError)) : tolerance;
+
+  // Predictor for a new mu: extrapolate the field linearly from the last two solutions,
+  // phi(mu) ~ phi(mu1) + (mu - mu1) (phi(mu1) - phi(mu0))/(mu1 - mu0).
+  const phi = state.fields.phi;
+  let previousPhi: Float64Array | null = null;
+  let previousMu = NaN;
+  const predict = (mu: number): void => {
+    if (previousPhi !== null && lastMu === lastMu && previousMu !== lastMu) {
+      const t = (mu - lastMu) / (lastMu - previousMu);
+      if (Math.abs(t) <= 4) {
+        for (let i = 0; i < phi.length; i++) {
+          const next = phi[i] + t * (phi[i] - previousPhi[i]);
+          const floor = 0.01 * phi[i];
+          previousPhi[i] = phi[i];
+          phi[i] = next > floor ? next : floor;
+        }
+        previousMu = lastMu;
+        return;
+      }
+    }
+    previousPhi ??= new Float64Array(phi.length);
+    previousPhi.set(phi);
+    previousMu = lastMu;
+  };
+
   const evaluate = async (mu: number): Promise<number> => {
     if (stopped) return NaN;
     if (lastMu === lastMu) shiftLowerBounds(state, mu - lastMu);
+    if (options.mode.kind === 'atoms' && lastMu === lastMu && mu !== lastMu) predict(mu);
     evaluations++;
+    lastTolerance = toleranceNow();
     const relax = await relaxAtFixedMu(state, executor, {
       mu,
       temperature,
-      tolerance,
+      tolerance: lastTolerance,
       maxSweeps: Math.max(1, maxSweeps - totalSweeps),
       accelerate,
       observer: (p) =>
@@ -156,7 +190,10 @@ export async function solveLattice(
     await executor.measure(mu, temperature);
     const totals = latticeTotals(state, mu);
     lastAtoms = totals.atoms;
-    atomHistory.push({ mu, atoms: totals.atoms });
+    atomHistory.push({ mu, atoms: totals.atoms, sweeps: relax.sweeps });
+    if (options.mode.kind === 'atoms') {
+      bestRelativeError = Math.min(bestRelativeError, Math.abs(totals.atoms - options.mode.atoms) / options.mode.atoms);
+    }
     return totals.atoms;
   };
 
@@ -180,8 +217,13 @@ export async function solveLattice(
       else hi = mid;
     }
     let guess = 0.5 * (lo + hi) - 0.5 * zJ;
-    const step0 = Math.max(0.25 * uMax, zJ, 1e-3);
     let nGuess = (await evaluate(guess)) - target;
+    // First step from a smoothed atomic-limit slope dN/dmu, a little long so that one step
+    // usually brackets the root.
+    const h = 0.1 * uMax;
+    const slope = (atomicLimitAtoms(model, guess + h) - atomicLimitAtoms(model, guess - h)) / (2 * h);
+    const newton = slope > 0 ? (1.3 * Math.abs(nGuess)) / slope : 0.25 * uMax;
+    const step0 = Math.min(Math.max(newton, 1e-3 * uMax), 0.5 * uMax + zJ);
     let other = guess;
     let nOther = nGuess;
     let step = nGuess > 0 ? -step0 : step0;
@@ -210,7 +252,7 @@ export async function solveLattice(
       );
       searchConverged = result.converged;
       mu = result.root;
-      if (lastMu !== mu) await evaluate(mu);
+      if (lastMu !== mu || lastTolerance > tolerance) await evaluate(mu);
     }
   }
   const finalRelax = lastRelax as unknown as RelaxResult;
