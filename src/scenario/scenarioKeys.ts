@@ -38,15 +38,39 @@ function propertiesOf(node: JsonSchemaNode | undefined): Record<string, JsonSche
   return out;
 }
 
-/** Valid keys of the object at `path` (numeric segments step into arrays). */
-export function validKeysAt(path: ReadonlyArray<PropertyKey>): string[] {
+/** The schema node at `path` (numeric segments step into arrays, anyOf alternatives are searched). */
+export function schemaNodeAt(path: ReadonlyArray<PropertyKey>): JsonSchemaNode | undefined {
   let node: JsonSchemaNode | undefined = scenarioJsonSchema();
   for (const seg of path) {
-    if (!node) return [];
+    if (!node) return undefined;
     if (typeof seg === 'number') node = node.items ?? node.anyOf?.find((a) => a.items)?.items;
-    else node = propertiesOf(node)[String(seg)];
+    else node = Object.hasOwn(propertiesOf(node), String(seg)) ? propertiesOf(node)[String(seg)] : undefined;
   }
-  return Object.keys(propertiesOf(node));
+  return node;
+}
+
+/** Valid keys of the object at `path` (numeric segments step into arrays). */
+export function validKeysAt(path: ReadonlyArray<PropertyKey>): string[] {
+  return Object.keys(propertiesOf(schemaNodeAt(path)));
+}
+
+/**
+ * Where else in the scenario a key of this name (case-insensitive) is valid, as dotted
+ * paths: "atoms" written at the top level belongs in "particles.atoms".
+ */
+export function pathsOfKey(key: string): string[] {
+  const wanted = key.toLowerCase();
+  const found: string[] = [];
+  const visit = (node: JsonSchemaNode | undefined, prefix: string, depth: number): void => {
+    if (!node || depth > 6) return;
+    for (const [name, child] of Object.entries(propertiesOf(node))) {
+      const here = prefix ? `${prefix}.${name}` : name;
+      if (name.toLowerCase() === wanted) found.push(here);
+      visit(child, here, depth + 1);
+    }
+  };
+  visit(scenarioJsonSchema(), '', 0);
+  return found;
 }
 
 /** Levenshtein distance (Wagner & Fischer, JACM 21, 168 (1974)), case-insensitive. */
@@ -66,6 +90,19 @@ export function editDistance(a: string, b: string): number {
 
 /** The closest valid key, if it is close enough to be a plausible typo. */
 export function nearestKey(key: string, candidates: readonly string[]): string | undefined {
+  // A key far longer than any candidate cannot be a typo of one (and would cost a large
+  // distance table): no suggestion.
+  const longest = candidates.reduce((m, c) => Math.max(m, c.length), 0);
+  if (key.length === 0 || key.length > 2 * longest + 8) return undefined;
+  // A truncated or extended key ("temp", "latticeShape") is a prefix match and wins over
+  // edit distance ("temp" is as close to "trap" as a typo); one or two letters are too
+  // little to go on ("t" would match "trap" and "temperature").
+  const k = key.toLowerCase();
+  const prefixHits = candidates.filter((c) => {
+    const b = c.toLowerCase();
+    return Math.min(k.length, b.length) >= 3 && (b.startsWith(k) || k.startsWith(b));
+  });
+  if (prefixHits.length === 1) return prefixHits[0];
   let best: string | undefined;
   let bestDistance = Infinity;
   for (const c of candidates) {
@@ -76,7 +113,5 @@ export function nearestKey(key: string, candidates: readonly string[]): string |
     }
   }
   if (best === undefined) return undefined;
-  const allowed = Math.max(2, Math.floor(best.length / 3));
-  const prefix = best.toLowerCase().startsWith(key.toLowerCase()) || key.toLowerCase().startsWith(best.toLowerCase());
-  return bestDistance <= allowed || prefix ? best : undefined;
+  return bestDistance <= Math.max(2, Math.floor(best.length / 3)) ? best : undefined;
 }

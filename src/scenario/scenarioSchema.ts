@@ -55,6 +55,9 @@ export const LaboratorySchema = z
       })
       .optional()
       .describe('for 1D and 2D lattices: what holds the atoms along the missing axes'),
+    beamWaistUm: perAxis(positive())
+      .optional()
+      .describe('1/e^2 waist of each red-detuned lattice beam, µm: adds the harmonic confinement of the beam envelope to the trap'),
   })
   .describe('laboratory description: tiercake computes J and U from Wannier functions (use this or hubbard)');
 

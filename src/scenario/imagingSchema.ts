@@ -1,0 +1,104 @@
+// Scenario sections for the pictures a camera would record (DESIGN.md section 4):
+// `camera` (in-situ and parity-projected images through the imaging optics) and
+// `timeOfFlight` (the far-field picture after free expansion). Both are optional in a
+// scenario; when absent, cameraOutputs.ts uses the defaults documented below.
+//
+// Lengths: in laboratory mode every `...Um` length is in micrometres. In dimensionless
+// mode (no lattice spacing known) the same keys are read in lattice spacings
+// ("1 site = 1 length unit"), and the pictures say so in their axis labels.
+//
+// PSF width from the optics: sigma = 0.21 lambda / NA, the Gaussian approximation of the
+// Airy core (Zhang, Zerubia, Olivo-Marin, Appl. Opt. 46, 1819 (2007)).
+
+import * as z from 'zod';
+
+const positive = (): z.ZodNumber => z.number().positive();
+
+export const PointSpreadFromOpticsSchema = z
+  .strictObject({
+    wavelengthNm: positive().max(100_000).describe('imaging light wavelength in nm (laboratory mode only)'),
+    numericalAperture: positive().max(1.6).describe('numerical aperture of the objective (above 1 only for immersion optics)'),
+  })
+  .describe('Gaussian PSF with sigma = 0.21 wavelength / NA in the object plane');
+
+export const PointSpreadSigmaUmSchema = z
+  .strictObject({
+    sigmaUm: z.number().min(0).describe('Gaussian PSF standard deviation in the object plane, µm (lattice spacings in dimensionless mode); 0 for none'),
+  })
+  .describe('Gaussian PSF of a given width in micrometres');
+
+export const PointSpreadSigmaSitesSchema = z
+  .strictObject({
+    sigmaSites: z.number().min(0).describe('Gaussian PSF standard deviation in the object plane, in lattice spacings; 0 for none'),
+  })
+  .describe('Gaussian PSF of a given width in lattice spacings');
+
+export const PointSpreadSchema = z.union([PointSpreadFromOpticsSchema, PointSpreadSigmaUmSchema, PointSpreadSigmaSitesSchema]);
+
+export const CameraNoiseSchema = z
+  .strictObject({
+    kind: z
+      .enum(['none', 'atom', 'photon'])
+      .default('none')
+      .describe("'none': expected image only; 'atom': Poisson atom number per pixel; 'photon': Poisson detected counts per pixel"),
+    countsPerAtom: positive()
+      .max(1e6)
+      .optional()
+      .describe("detected counts (photons) per atom for kind 'photon' (default 10); kind 'atom' always uses 1"),
+    seed: z.string().min(1).max(200).default('camera-noise').describe('name of the random stream; the same seed gives the same noisy picture'),
+  })
+  .describe('shot noise of a single simulated exposure');
+
+export const CameraSchema = z
+  .strictObject({
+    imagingAxis: z
+      .enum(['x', 'y', 'z'])
+      .default('z')
+      .describe("lattice axis along which the camera looks (3D: the column is summed along it); 'z' images a 2D layer face on"),
+    magnification: positive().max(10_000).default(1).describe('magnification of the imaging system (image size / object size)'),
+    cameraPixelUm: positive()
+      .max(10_000)
+      .optional()
+      .describe('camera pixel size on the sensor, µm; default: magnification x half a lattice spacing (object-plane pixel a/2)'),
+    psf: PointSpreadSchema.optional().describe(
+      'point-spread function: {wavelengthNm, numericalAperture}, {sigmaUm} or {sigmaSites}; default sigma = 0.5 lattice spacing',
+    ),
+    noise: CameraNoiseSchema.prefault({}),
+    framePixels: z
+      .array(z.int().min(1).max(8192))
+      .length(2)
+      .optional()
+      .describe('size of the picture in camera pixels [along image x, along image y], centred on the trap centre; default: the whole cloud plus a margin'),
+  })
+  .describe('in-situ camera: imaging axis, magnification, pixel size, point-spread function and shot noise');
+
+export const TimeOfFlightSchema = z
+  .strictObject({
+    flightTimeMs: positive().max(10_000).default(20).describe('free expansion time after the lattice and trap are switched off, ms'),
+    cameraPixelUm: positive()
+      .max(10_000)
+      .optional()
+      .describe('camera pixel size on the sensor, µm; default: the momentum grid itself (about 64 pixels per Brillouin zone)'),
+    magnification: positive().max(10_000).default(1).describe('magnification of the time-of-flight imaging system'),
+    brillouinZones: z.int().min(1).max(15).default(3).describe('Brillouin zones shown per axis (odd); 3 shows the first-order peaks'),
+    visibilityDiskRadiusInTwoHbarKl: positive()
+      .max(0.35)
+      .default(0.15)
+      .describe('radius of the disks counted for the visibility, in units of 2 hbar k_L (the first-order peak distance)'),
+  })
+  .superRefine((t, ctx) => {
+    if (t.brillouinZones % 2 !== 1) {
+      ctx.addIssue({ code: 'custom', path: ['brillouinZones'], message: `expected an odd number so that k = 0 sits in the middle, got ${t.brillouinZones}` });
+    }
+  })
+  .describe('time-of-flight picture: expansion time, camera pixel and magnification, and the visibility measurement');
+
+export type CameraSettings = z.output<typeof CameraSchema>;
+export type CameraSettingsInput = z.input<typeof CameraSchema>;
+export type TimeOfFlightSettings = z.output<typeof TimeOfFlightSchema>;
+export type TimeOfFlightSettingsInput = z.input<typeof TimeOfFlightSchema>;
+
+/** Defaults used when a scenario has no `camera` section (see the key descriptions). */
+export const defaultCameraSettings = (): CameraSettings => CameraSchema.parse({});
+/** Defaults used when a scenario has no `timeOfFlight` section. */
+export const defaultTimeOfFlightSettings = (): TimeOfFlightSettings => TimeOfFlightSchema.parse({});
