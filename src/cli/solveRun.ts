@@ -140,7 +140,7 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
   const fields = siteFieldsOf(outcome.state, outcome.compressibility);
   const geometry = model.geometry;
   const u = resolved.units.interaction;
-  const disordered = false;
+  const disordered = resolved.disorder !== null;
   const classification = classifySites({
     shape: geometry.shape,
     periodic: geometry.periodic,

@@ -11,6 +11,8 @@ import type { ThermalMode } from '../solver/runLattice.js';
 import { InputError } from '../cli/inputError.js';
 import type { Scenario } from './scenarioSchema.js';
 import { resolveLaboratory, type LaboratoryParameters } from './resolveLaboratory.js';
+import { boxDisorder } from '../lattice/boxDisorder.js';
+import { grainSitesFromAperture, longitudinalGrainSitesFromAperture, speckleField } from '../lattice/speckle.js';
 
 export interface EnergyUnits {
   /** label of the internal energy unit the solver works in (J, U or Hz) */
@@ -40,6 +42,8 @@ export interface ResolvedScenario {
   /** lattice spacing in micrometres (laboratory mode) */
   latticeSpacingUm: number | null;
   laboratory: LaboratoryParameters | null;
+  /** the disorder part of eps (internal energy unit), or null */
+  disorder: Float64Array | null;
 }
 
 function perAxisValues(v: number | number[] | undefined, dims: number, fallback: number): number[] {
@@ -108,6 +112,8 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
   if (trapCoefficient.some((k) => k > 0)) addHarmonicTrap(geometry, { coefficient: trapCoefficient, centre: trapCentre }, eps);
 
   const toInternal = energyParser(scenario, units);
+  const disorder = scenario.disorder ? disorderField(scenario, geometry, toInternal, latticeSpacingUm, laboratory) : null;
+  if (disorder) for (let i = 0; i < eps.length; i++) eps[i] += disorder[i];
   const chemical: ChemicalPotentialMode =
     scenario.particles.atoms !== undefined
       ? { kind: 'atoms', atoms: scenario.particles.atoms, relativeTolerance: scenario.solver.atomTolerance }
@@ -142,7 +148,49 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
     trapCoefficient,
     latticeSpacingUm,
     laboratory,
+    disorder,
   };
+}
+
+/** The disorder potential of the scenario in the internal energy unit (pure: seeded). */
+function disorderField(
+  scenario: Scenario,
+  geometry: LatticeGeometry,
+  toInternal: (value: number, field: string) => number,
+  spacingUm: number | null,
+  laboratory: LaboratoryParameters | null,
+): Float64Array {
+  const d = scenario.disorder!;
+  try {
+    if (d.kind === 'box') {
+      return boxDisorder(geometry.siteCount, toInternal(d.width, 'disorder.width'), d.seed);
+    }
+    let grainSites: number;
+    let longitudinal: number | undefined = d.longitudinalGrainSites;
+    if (d.grainSites !== undefined) grainSites = d.grainSites;
+    else if (d.grainUm !== undefined) grainSites = d.grainUm / (spacingUm as number);
+    else {
+      const spacingNm = (spacingUm as number) * 1000;
+      grainSites = grainSitesFromAperture(d.wavelengthNm as number, d.numericalAperture as number, spacingNm);
+      longitudinal ??= longitudinalGrainSitesFromAperture(d.wavelengthNm as number, d.numericalAperture as number, spacingNm);
+    }
+    // Without an aperture, grains are elongated by z0/r0 = 3.3/NA with NA = 0.61 lambda/r0;
+    // absent any optics, take an aspect ratio typical of speckle set-ups (common practice: ~6).
+    if (geometry.dims === 3) longitudinal ??= 6 * grainSites;
+    const wannierWidthSites = d.wannierAverage && laboratory ? laboratory.wannierWidthSites : 0;
+    return speckleField({
+      shape: geometry.shape,
+      grainSites,
+      ...(geometry.dims === 3 ? { beamAxis: 'xyz'.indexOf(d.beamAxis), longitudinalGrainSites: longitudinal } : {}),
+      wannierWidthSites,
+      meanStrength: toInternal(d.meanStrength, 'disorder.meanStrength'),
+      sign: d.sign,
+      seed: d.seed,
+    });
+  } catch (err) {
+    if (err instanceof InputError) throw err;
+    throw new InputError(`disorder: ${(err as Error).message}`);
+  }
 }
 
 /** Converts an energy written in the scenario's unit into the internal unit. */

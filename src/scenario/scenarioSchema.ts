@@ -61,6 +61,34 @@ export const LaboratorySchema = z
   })
   .describe('laboratory description: tiercake computes J and U from Wannier functions (use this or hubbard)');
 
+const seedText = z.string().min(1).max(200);
+
+export const BoxDisorderSchema = z
+  .strictObject({
+    kind: z.literal('box').describe("'box': eps_i uniform in [-width/2, width/2]"),
+    width: z.number().min(0).describe('full width W of the box distribution, in the energy unit'),
+    seed: seedText.default('disorder').describe('named seed of the realisation; the same seed gives the same field everywhere'),
+  })
+  .describe('box disorder');
+
+export const SpeckleDisorderSchema = z
+  .strictObject({
+    kind: z.literal('speckle').describe("'speckle': optical speckle of a beam through a diffuser and a lens"),
+    meanStrength: z.number().min(0).describe('ensemble mean |eps| of the speckle potential, in the energy unit'),
+    sign: z.enum(['repulsive', 'attractive']).default('repulsive').describe('repulsive (blue detuned, eps >= 0) or attractive (red detuned)'),
+    grainSites: positive().optional().describe('grain size: first zero of the intensity autocorrelation, in lattice sites'),
+    grainUm: positive().optional().describe('or: grain size in µm (laboratory mode)'),
+    numericalAperture: positive().max(1).optional().describe('or: numerical aperture of the speckle optics (with wavelengthNm; laboratory mode)'),
+    wavelengthNm: positive().optional().describe('speckle light wavelength in nm (with numericalAperture)'),
+    beamAxis: z.enum(['x', 'y', 'z']).default('z').describe('3D: axis along which the speckle beam travels (grains are elongated along it)'),
+    longitudinalGrainSites: positive().optional().describe('3D: grain length along the beam in sites (default from the aperture, or 3.3/NA x grain)'),
+    wannierAverage: z.boolean().default(false).describe('average the intensity over the Wannier density instead of sampling at site centres'),
+    seed: seedText.default('disorder').describe('named seed of the realisation'),
+  })
+  .describe('speckle disorder');
+
+export const DisorderSchema = z.discriminatedUnion('kind', [BoxDisorderSchema, SpeckleDisorderSchema]);
+
 export const TrapSchema = z
   .strictObject({
     coefficient: perAxis(z.number().min(0))
@@ -107,9 +135,9 @@ export const SolverSchema = z
 export const PhasesSchema = z
   .strictObject({
     condensateMin: positive().default(1e-4).describe('|phi|^2 above this: superfluid'),
-    integerTolerance: positive().max(0.5).default(0.02).describe('|n - round(n)| below this (and incompressible): Mott insulator'),
-    compressibilityMin: positive().default(1e-3).describe('dn/dmu (per energy unit times U) above this: compressible'),
-    emptyDensityMax: positive().max(0.5).default(0.02).describe('density below this: empty'),
+    integerTolerance: positive().max(0.5).default(0.05).describe('|n - round(n)| below this (and incompressible): Mott insulator'),
+    compressibilityMin: positive().default(0.05).describe('U dn/dmu above this: compressible'),
+    emptyDensityMax: positive().max(0.5).default(0.01).describe('density below this: empty'),
   })
   .describe('thresholds for the site-by-site phase labels');
 
@@ -134,6 +162,7 @@ export const ScenarioSchema = z
     hubbard: HubbardSchema.optional(),
     laboratory: LaboratorySchema.optional(),
     trap: TrapSchema.optional(),
+    disorder: DisorderSchema.optional().describe('random site potential added to the trap (box or speckle)'),
     particles: ParticlesSchema,
     temperature: TemperatureSchema.prefault({}),
     truncation: TruncationSchema.prefault({}),
@@ -196,6 +225,20 @@ export const ScenarioSchema = z
         }
       }
     }
+    if (s.disorder?.kind === 'speckle') {
+      const d = s.disorder;
+      const ways = [d.grainSites !== undefined, d.grainUm !== undefined, d.numericalAperture !== undefined].filter(Boolean).length;
+      if (ways !== 1) issue(['disorder'], 'give exactly one of grainSites, grainUm and numericalAperture (with wavelengthNm)');
+      if ((d.grainUm !== undefined || d.numericalAperture !== undefined) && !s.laboratory) {
+        issue(['disorder', d.grainUm !== undefined ? 'grainUm' : 'numericalAperture'], 'needs laboratory mode (the lattice spacing); in hubbard mode give grainSites');
+      }
+      if (d.numericalAperture !== undefined && d.wavelengthNm === undefined) {
+        issue(['disorder', 'wavelengthNm'], 'required with numericalAperture');
+      }
+      if (d.wannierAverage && !s.laboratory) issue(['disorder', 'wannierAverage'], 'needs laboratory mode (the Wannier width comes from the lattice depth)');
+      if (d.beamAxis !== 'z' && dims < 3) issue(['disorder', 'beamAxis'], 'only 3D lattices can contain the beam axis; 1D and 2D lattices lie across the beam');
+    }
+    if (s.laboratory?.beamWaistUm !== undefined) perAxisLength(s.laboratory.beamWaistUm, ['laboratory', 'beamWaistUm']);
     perAxisLength(s.trap?.coefficient, ['trap', 'coefficient']);
     perAxisLength(s.trap?.frequencyHz, ['trap', 'frequencyHz']);
     if (s.trap?.centreSites && s.trap.centreSites.length !== dims) {
