@@ -8,6 +8,7 @@ import { registerSolve } from './solveCommand.js';
 import { registerCheck } from './checkCommand.js';
 import { registerDiagram } from './diagramCommand.js';
 import { registerHubbard } from './hubbardCli.js';
+import { registerKeys } from './keysCommand.js';
 import { toolVersion } from './version.js';
 
 /** Commands set this when they finish with a non-zero status without throwing. */
@@ -27,6 +28,7 @@ export function buildProgram(context: CommandContext): Command {
   registerCheck(program, context);
   registerDiagram(program, context);
   registerHubbard(program, context);
+  registerKeys(program, context);
   return program;
 }
 
