@@ -8,6 +8,7 @@ import {
   diagonalizeSite,
   solveSite,
   solveSiteGround,
+  solveSiteThermal,
   weylLowerBound,
 } from '../src/solver/siteProblem.js';
 import { seededRandom } from '../src/lattice/seededRandom.js';
@@ -115,6 +116,24 @@ describe('site problem: atomic limit (psi = 0) in closed form', () => {
       expect(out.entropy).toBeCloseTo(Math.log(Z) + e / T, 11);
       expect(out.energy).toBeCloseTo(-T * Math.log(Z), 11);
       expect(out.phi).toBe(0);
+    }
+  });
+});
+
+describe('site problem: thermal order parameter by Hellmann-Feynman', () => {
+  // The fast path (eigenvalues only, <j|b|j> = -(1/2) d lambda_j/d psi) against the full
+  // eigendecomposition Tr(rho b) (tql2 with eigenvectors).
+  it('agrees with the eigenvector sum to 1e-11 over random parameters', () => {
+    const rng = seededRandom('thermal-hf');
+    const ws = createSiteWorkspace(7);
+    const full = createSiteObservables();
+    for (let k = 0; k < 300; k++) {
+      const mu = -0.5 + 4 * rng.uniform();
+      const psi = k % 10 === 0 ? 1e-6 * rng.uniform() : rng.uniform();
+      const T = 0.02 + 2 * rng.uniform();
+      const fast = solveSiteThermal(ws, 1, mu, psi, T, null);
+      solveSite(ws, 1, mu, psi, T, full);
+      expect(Math.abs(fast - full.phi)).toBeLessThan(1e-11 * (1 + Math.abs(full.phi)));
     }
   });
 });

@@ -493,7 +493,7 @@ export function diagonalizeSite(ws: SiteWorkspace, interactionU: number, muLocal
         if (iter > 60) break;
         let g = d[l];
         let p = (d[l + 1] - g) / (2 * e[l]);
-        let r = Math.hypot(p, 1);
+        let r = Math.sqrt(p * p + 1);
         if (p < 0) r = -r;
         d[l] = e[l] / (p + r);
         d[l + 1] = e[l] * (p + r);
@@ -514,7 +514,7 @@ export function diagonalizeSite(ws: SiteWorkspace, interactionU: number, muLocal
           s2 = s;
           g = c * e[i];
           h = c * p;
-          r = Math.hypot(p, e[i]);
+          r = Math.sqrt(p * p + e[i] * e[i]);
           e[i + 1] = s * r;
           s = e[i] / r;
           c = p / r;
@@ -586,6 +586,10 @@ export function solveSiteThermal(
   temperature: number,
   out: SiteObservables | null,
 ): number {
+  if (out === null && psi !== 0 && ws.states <= POLYNOMIAL_PATH_MAX_STATES) {
+    const phi = thermalPhiByEigenvalues(ws, interactionU, muLocal, psi, temperature);
+    if (phi === phi) return phi;
+  }
   diagonalizeSite(ws, interactionU, muLocal, psi);
   const n = ws.states;
   const d = ws.eigenvalues;
@@ -632,6 +636,123 @@ export function solveSiteThermal(
     out.entropy = Math.log(partition) + meanExcess * invZ;
   }
   return phi;
+}
+
+/**
+ * Thermal order parameter without eigenvectors, for the sweeps (T > 0). Eigenvalues by
+ * implicit QL without accumulated rotations (O(n^2)); then, by Hellmann-Feynman,
+ * <j|b|j> = -(1/2) d lambda_j / d psi, and on the characteristic polynomial p(lambda, psi)
+ * d lambda_j/d psi = -(dp/dpsi)/(dp/dlambda) at lambda_j; both derivatives follow from the
+ * three-term recurrence. States whose Boltzmann weight is below 1e-17 are skipped. Returns
+ * NaN (caller falls back to the full eigendecomposition) when two eigenvalues are so close
+ * that dp/dlambda loses its accuracy.
+ */
+function thermalPhiByEigenvalues(ws: SiteWorkspace, interactionU: number, muLocal: number, psi: number, temperature: number): number {
+  const n = ws.states;
+  const diag = ws.diag;
+  const offSq = ws.offSq;
+  const d = ws.eigenvalues;
+  const e = ws.qlOff;
+  const psiSq = psi * psi;
+  let a = 0;
+  let scale = Math.abs(interactionU) + Math.abs(muLocal) + psi;
+  for (let k = 0; k < n; k++) {
+    diag[k] = a;
+    d[k] = a;
+    offSq[k] = psiSq * (k + 1);
+    e[k] = k < n - 1 ? -psi * ws.sqrtUp[k] : 0;
+    a += interactionU * k - muLocal;
+    if (Math.abs(diag[k]) > scale) scale = Math.abs(diag[k]);
+  }
+  // Implicit QL with Wilkinson shifts, eigenvalues only (the tql1 procedure of Bowdler,
+  // Martin, Reinsch & Wilkinson, Numer. Math. 11, 293 (1968)).
+  const eps = 2.220446049250313e-16;
+  let f = 0;
+  let tst1 = 0;
+  for (let l = 0; l < n; l++) {
+    const t = Math.abs(d[l]) + Math.abs(e[l]);
+    if (t > tst1) tst1 = t;
+    let m = l;
+    while (m < n - 1 && Math.abs(e[m]) > eps * tst1) m++;
+    if (m > l) {
+      let iter = 0;
+      do {
+        if (++iter > 60) return NaN;
+        let g = d[l];
+        let p = (d[l + 1] - g) / (2 * e[l]);
+        let r = Math.sqrt(p * p + 1);
+        if (p < 0) r = -r;
+        d[l] = e[l] / (p + r);
+        d[l + 1] = e[l] * (p + r);
+        const dl1 = d[l + 1];
+        let h = g - d[l];
+        for (let i = l + 2; i < n; i++) d[i] -= h;
+        f += h;
+        p = d[m];
+        let c = 1;
+        let c2 = c;
+        let c3 = c;
+        const el1 = e[l + 1];
+        let sn = 0;
+        let s2 = 0;
+        for (let i = m - 1; i >= l; i--) {
+          c3 = c2;
+          c2 = c;
+          s2 = sn;
+          g = c * e[i];
+          h = c * p;
+          r = Math.sqrt(p * p + e[i] * e[i]);
+          e[i + 1] = sn * r;
+          sn = e[i] / r;
+          c = p / r;
+          p = c * d[i] - sn * g;
+          d[i + 1] = h + sn * (c * g + sn * d[i]);
+        }
+        p = (-sn * s2 * c3 * el1 * e[l]) / dl1;
+        e[l] = sn * p;
+        d[l] = c * p;
+      } while (Math.abs(e[l]) > eps * tst1);
+    }
+    d[l] += f;
+    e[l] = 0;
+  }
+  let e0 = Infinity;
+  for (let k = 0; k < n; k++) if (d[k] < e0) e0 = d[k];
+  const beta = 1 / temperature;
+  let partition = 0;
+  let phi = 0;
+  for (let j = 0; j < n; j++) {
+    const lambda = d[j];
+    const x = (lambda - e0) * beta;
+    if (x > 39) continue; // weight below 1e-17
+    // Guard: a close neighbour makes dp/dlambda tiny and the ratio inaccurate.
+    for (let k = 0; k < n; k++) if (k !== j && Math.abs(d[k] - lambda) < 1e-7 * scale) return NaN;
+    // p, dp/dlambda and dp/dpsi by the recurrence p_k = (a_k - l) p_{k-1} - psi^2 k p_{k-2}.
+    let pPrev = 1;
+    let lPrev = 0;
+    let sPrev = 0;
+    let pc = diag[0] - lambda;
+    let lc = -1;
+    let sc = 0;
+    for (let k = 1; k < n; k++) {
+      const shifted = diag[k] - lambda;
+      const e2 = offSq[k - 1];
+      const pNew = shifted * pc - e2 * pPrev;
+      const lNew = shifted * lc - pc - e2 * lPrev;
+      const sNew = shifted * sc - 2 * psi * k * pPrev - e2 * sPrev;
+      pPrev = pc;
+      lPrev = lc;
+      sPrev = sc;
+      pc = pNew;
+      lc = lNew;
+      sc = sNew;
+    }
+    const w = Math.exp(-x);
+    partition += w;
+    // <j|b|j> = -(1/2) dlambda/dpsi = (1/2) (dp/dpsi)/(dp/dlambda)
+    phi += (w * 0.5 * sc) / lc;
+  }
+  return phi / partition;
 }
 
 /**
