@@ -8,7 +8,8 @@ import { renderReportHtml } from '../report/renderReport.js';
 import { ExitCode } from './inputError.js';
 import type { CommandContext } from './main.js';
 import { createProgressReporter } from './progressReporter.js';
-import { parseThreads, solveScenario } from './solveRun.js';
+import { parseThreads, prepareScenario, solveScenario } from './solveRun.js';
+import { checkpointPath, readCheckpoint, removeCheckpoint, scenarioFingerprint, writeCheckpoint } from './checkpoint.js';
 import { writeSolveFiles } from './solveOutputs.js';
 import { buildSolveReport } from './solveReport.js';
 
@@ -18,6 +19,7 @@ export interface SolveCommandOptions {
   threads?: string;
   quiet?: boolean;
   jsonProgress?: boolean;
+  resume?: string | boolean;
 }
 
 export const collectRepeated = (value: string, previous: string[]): string[] => [...previous, value];
@@ -32,6 +34,7 @@ export function registerSolve(program: Command, context: CommandContext): void {
     .option('-t, --threads <n>', 'compute threads, the main thread included (default: all cores)')
     .option('-q, --quiet', 'no progress output')
     .option('--json-progress', 'progress as one JSON object per line on stderr')
+    .option('--resume [checkpoint]', 'continue an interrupted run from its checkpoint (default: <out>.checkpoint)')
     .action(async (scenarioPath: string, options: SolveCommandOptions) => {
       context.exitCode = await runSolveCommand(scenarioPath, options);
     });
@@ -39,6 +42,10 @@ export function registerSolve(program: Command, context: CommandContext): void {
 
 export async function runSolveCommand(scenarioPath: string, options: SolveCommandOptions): Promise<number> {
   const threads = parseThreads(options.threads);
+  const prepared = prepareScenario(scenarioPath, options.set);
+  const outDir = resolve(options.out ?? `out/${prepared.scenario.name}`);
+  const checkpointDir = typeof options.resume === 'string' ? resolve(options.resume) : checkpointPath(outDir);
+  const resumeFrom = options.resume ? readCheckpoint(checkpointDir, prepared.scenario) : null;
   const progress = createProgressReporter(options.quiet ? 'quiet' : options.jsonProgress ? 'json' : 'auto');
   let interrupted = false;
   const onSignal = (): void => {
@@ -52,6 +59,8 @@ export async function runSolveCommand(scenarioPath: string, options: SolveComman
       scenarioPath,
       overrides: options.set,
       threads,
+      prepared,
+      ...(resumeFrom ? { resume: { phi: resumeFrom.phi, mu: resumeFrom.mu, nmax: resumeFrom.nmax } } : {}),
       observer: (p) => {
         progress.update({
           stage: p.stage === 'solve' ? 'solving' : p.stage === 'temperature' ? 'finding T' : 'dn/dmu',
@@ -69,7 +78,22 @@ export async function runSolveCommand(scenarioPath: string, options: SolveComman
     process.off('SIGINT', onSignal);
     process.off('SIGTERM', onSignal);
   }
-  const outDir = resolve(options.out ?? `out/${artifacts.scenario.name}`);
+  const o = artifacts.outcome;
+  if (o.stopped) {
+    // Interrupted: keep the work, write nothing else.
+    writeCheckpoint(checkpointDir, {
+      scenarioFingerprint: scenarioFingerprint(artifacts.scenario),
+      mu: o.solve.mu,
+      temperature: o.temperature,
+      nmax: o.model.nmax,
+      sweepsDone: o.totalSweeps + (resumeFrom?.sweepsDone ?? 0),
+      phi: Float64Array.from(o.state.fields.phi),
+      shape: [...artifacts.resolved.geometry.shape],
+    });
+    progress.done();
+    process.stderr.write(`tiercake: interrupted after ${o.totalSweeps} sweeps; checkpoint written to ${checkpointDir}\n  continue with: tiercake solve ${scenarioPath} --resume${typeof options.resume === 'string' ? ` ${checkpointDir}` : ''}${options.out ? ` --out ${options.out}` : ''}\n`);
+    return ExitCode.interrupted;
+  }
   const folder = new OutputFolder(outDir);
   try {
     const createdIso = new Date().toISOString();
@@ -79,7 +103,7 @@ export async function runSolveCommand(scenarioPath: string, options: SolveComman
     folder.discard();
     throw err;
   }
-  const o = artifacts.outcome;
+  if (resumeFrom) removeCheckpoint(checkpointDir);
   progress.done();
   const t = o.solve.totals;
   const lines = [
@@ -89,6 +113,5 @@ export async function runSolveCommand(scenarioPath: string, options: SolveComman
     `  results in ${outDir}`,
   ];
   process.stdout.write(`${lines.join('\n')}\n`);
-  if (interrupted) return ExitCode.interrupted;
   return o.converged ? ExitCode.done : ExitCode.notConverged;
 }

@@ -26,6 +26,10 @@ export interface SolveRunOptions {
   initialPhi?: Float64Array;
   /** worker module override (tests) */
   pool?: { filename: string; execArgv: string[] };
+  /** an already prepared scenario (skips loading it again) */
+  prepared?: { scenario: Scenario; raw: Record<string, unknown>; resolved: ResolvedScenario };
+  /** continue from an interrupted run */
+  resume?: { phi: Float64Array; mu: number; nmax: number };
 }
 
 export interface SolveArtifacts {
@@ -103,9 +107,11 @@ function trapAxisScale(coefficients: readonly number[]): number[] {
 
 export async function solveScenario(options: SolveRunOptions): Promise<SolveArtifacts> {
   const t0 = performance.now();
-  const { scenario, raw, resolved } = prepareScenario(options.scenarioPath, options.overrides);
+  const { scenario, raw, resolved } = options.prepared ?? prepareScenario(options.scenarioPath, options.overrides);
   const t1 = performance.now();
-  const model = resolved.model;
+  const model = options.resume ? { ...resolved.model, nmax: options.resume.nmax } : resolved.model;
+  const chemical =
+    options.resume && resolved.chemical.kind === 'atoms' ? { ...resolved.chemical, muGuess: options.resume.mu } : resolved.chemical;
   const threads = model.geometry.siteCount >= PARALLEL_MIN_SITES ? options.threads : 1;
   let pool: SweepPool | null = null;
   if (threads > 1) {
@@ -117,7 +123,7 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
     outcome = await runLattice(
       {
         model,
-        chemical: resolved.chemical,
+        chemical,
         thermal: resolved.thermal,
         tolerance: scenario.solver.tolerance,
         maxSweeps: scenario.solver.maxSweeps,
@@ -129,6 +135,7 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
         },
         compressibility: scenario.solver.compressibility,
         ...(options.initialPhi ? { initialPhi: options.initialPhi } : {}),
+        ...(options.resume ? { initialPhi: options.resume.phi } : {}),
         ...(options.observer ? { observer: options.observer } : {}),
       },
       (state) => createSweepExecutor(state, pool, threads),

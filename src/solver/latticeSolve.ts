@@ -11,7 +11,10 @@ import { relaxAtFixedMu, shiftLowerBounds, type RelaxResult, type SweepProgress 
 import type { SweepExecutor } from './sweepExecutor.js';
 import type { SolverState } from './solverState.js';
 
-export type ChemicalPotentialMode = { kind: 'mu'; mu: number } | { kind: 'atoms'; atoms: number; relativeTolerance: number };
+export type ChemicalPotentialMode =
+  | { kind: 'mu'; mu: number }
+  /** muGuess: a starting point for the search (e.g. from a checkpoint) */
+  | { kind: 'atoms'; atoms: number; relativeTolerance: number; muGuess?: number };
 
 export interface LatticeSolveOptions {
   mode: ChemicalPotentialMode;
@@ -216,7 +219,7 @@ export async function solveLattice(
       if (atomicLimitAtoms(model, mid) < target) lo = mid;
       else hi = mid;
     }
-    let guess = 0.5 * (lo + hi) - 0.5 * zJ;
+    let guess = options.mode.muGuess ?? 0.5 * (lo + hi) - 0.5 * zJ;
     let nGuess = (await evaluate(guess)) - target;
     // First step from a smoothed atomic-limit slope dN/dmu, a little long so that one step
     // usually brackets the root.
