@@ -137,3 +137,24 @@ describe('site problem: thermal order parameter by Hellmann-Feynman', () => {
     }
   });
 });
+
+describe('site problem: start from an estimate instead of a bound', () => {
+  // Any estimate must give the ground state of the reference diagonalisation: close ones
+  // through one Laguerre step, bad ones (near an excited state) through the sign check of
+  // the eigenvector (Perron-Frobenius) and the fall-back to the lower bound.
+  it('returns the ground state for estimates near every eigenvalue', () => {
+    const ws = createSiteWorkspace(6);
+    for (const [mu, psi] of [[1.4, 0.3], [0.5, 0.05], [2.7, 0.6], [0.2, 1e-7]]) {
+      const ref = new EigenvalueDecomposition(referenceMatrix(6, 1, mu, psi), { assumeSymmetric: true });
+      const values = [...ref.realEigenvalues].sort((a, b) => a - b);
+      const phiRef = solveSiteGround(ws, 1, mu, psi, NaN);
+      for (const v of values) {
+        for (const offset of [0, 1e-9, -1e-3, 2e-2]) {
+          const phi = solveSiteGround(ws, 1, mu, psi, NaN, v + offset);
+          expect(Math.abs(ws.eigenvalues[0] - values[0])).toBeLessThan(1e-12 * (1 + Math.abs(values[0])));
+          expect(Math.abs(phi - phiRef)).toBeLessThan(1e-12);
+        }
+      }
+    }
+  });
+});

@@ -143,11 +143,12 @@ export function solveSiteGround(
   muLocal: number,
   psi: number,
   lowerBound: number,
+  estimate = NaN,
 ): number {
   if (psi < 0) {
     // phi(-psi) = -phi(psi): the unitary (-1)^n maps one problem onto the other. The
     // amplitudes left in the workspace are those for |psi|.
-    return -solveSiteGround(ws, interactionU, muLocal, -psi, lowerBound);
+    return -solveSiteGround(ws, interactionU, muLocal, -psi, lowerBound, estimate);
   }
   const states = ws.states;
   const diag = ws.diag;
@@ -187,7 +188,16 @@ export function solveSiteGround(
     lambda = gersh - 1e-12 * (Math.abs(gersh) + 1);
   }
 
-  if (states <= POLYNOMIAL_PATH_MAX_STATES) return groundByPolynomials(ws, interactionU, psi, lambda, minDiag);
+  if (states <= POLYNOMIAL_PATH_MAX_STATES) {
+    if (estimate === estimate) {
+      // A close estimate (not a bound) usually needs a single Laguerre step. The result is
+      // the ground state only if its eigenvector has no sign change (Perron-Frobenius:
+      // all off-diagonals are negative); otherwise start again from the bound.
+      const phi = groundByPolynomials(ws, interactionU, psi, estimate, minDiag, false);
+      if (phi === phi) return phi;
+    }
+    return groundByPolynomials(ws, interactionU, psi, lambda, minDiag, true);
+  }
 
   // Laguerre iteration on p(lambda) = det(H - lambda) through the pivots:
   //   d_k = a_k - lambda - e_{k-1}^2 / d_{k-1}
@@ -330,7 +340,14 @@ const POLYNOMIAL_PATH_MAX_STATES = 17;
  * The column r of the largest diagonal entry gives the eigenvector from determinants of
  * blocks that exclude the dominant occupation, which are well conditioned.
  */
-function groundByPolynomials(ws: SiteWorkspace, interactionU: number, psi: number, start: number, minDiag: number): number {
+function groundByPolynomials(
+  ws: SiteWorkspace,
+  interactionU: number,
+  psi: number,
+  start: number,
+  minDiag: number,
+  startIsLowerBound: boolean,
+): number {
   const states = ws.states;
   const diag = ws.diag;
   const offSq = ws.offSq;
@@ -358,15 +375,18 @@ function groundByPolynomials(ws: SiteWorkspace, interactionU: number, psi: numbe
       d = dNew;
       dd = ddNew;
     }
-    if (!(p > 0)) break; // at or above the smallest eigenvalue: converged to rounding
+    // From a lower bound, p <= 0 means the smallest eigenvalue is reached to rounding.
+    if (startIsLowerBound ? !(p > 0) : p === 0) break;
     const invP = 1 / p;
     const g = d * invP;
     const h = g * g - dd * invP;
     const disc = (degree - 1) * (degree * h - g * g);
-    const step = degree / (Math.sqrt(disc > 0 ? disc : 0) - g);
+    const root = Math.sqrt(disc > 0 ? disc : 0);
+    // Laguerre: lambda_new = lambda - n / (G +- sqrt(...)), the sign that maximises |denominator|.
+    const step = -degree / (g < 0 ? g - root : g + root);
     lambda += step;
     // Cubic convergence: after a step below 1e-6 of the scale the error is ~1e-18.
-    if (!(step > small)) break;
+    if (!(Math.abs(step) > small)) break;
   }
   ws.eigenvalues[0] = lambda;
 
@@ -421,6 +441,10 @@ function groundByPolynomials(ws: SiteWorkspace, interactionU: number, psi: numbe
     const x = trail[k] * invTrail * prod;
     amp[k] = x;
     norm += x * x;
+  }
+  if (!startIsLowerBound) {
+    // The ground state has no negative component; anything else is an excited state.
+    for (let k = 0; k < states; k++) if (!(amp[k] >= 0)) return NaN;
   }
   const scaleAmp = 1 / Math.sqrt(norm);
   let phi = 0;

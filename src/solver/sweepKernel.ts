@@ -130,11 +130,13 @@ export function sweepColour(
       if (thermal) {
         phiNew = solveSiteThermal(ws, u, mu - eps[i], psi, temperature, null);
       } else {
-        // Weyl: lambda(psi) >= lambda(psiPrev) - |psi - psiPrev| ||b + b^+||.
+        // Weyl: lambda(psi) >= lambda(psiPrev) - |psi - psiPrev| ||b + b^+|| is a safe start;
+        // Hellmann-Feynman, d lambda/d psi = -2 phi, gives a much closer estimate.
         const prev = lower[i];
-        const bound =
-          prev === prev ? prev - Math.abs(psi - psiPrev[i]) * coupling - 1e-12 * (Math.abs(prev) + u) : NaN;
-        phiNew = solveSiteGround(ws, u, mu - eps[i], psi, bound);
+        const dPsi = psi - psiPrev[i];
+        const bound = prev === prev ? prev - Math.abs(dPsi) * coupling - 1e-12 * (Math.abs(prev) + u) : NaN;
+        const estimate = prev === prev ? prev - 2 * phi[i] * dPsi : NaN;
+        phiNew = solveSiteGround(ws, u, mu - eps[i], psi, bound, estimate);
         lower[i] = ws.eigenvalues[0];
         psiPrev[i] = psi;
       }
