@@ -48,6 +48,8 @@ export interface SiteWorkspace {
   readonly qlOff: Float64Array;
   /** thermal case: populations p_n = <n|rho|n> */
   readonly populations: Float64Array;
+  /** result slot: [phi] of the last in-place solve (avoids boxing a returned double) */
+  readonly result: Float64Array;
 }
 
 export function createSiteWorkspace(nmax: number): SiteWorkspace {
@@ -68,6 +70,7 @@ export function createSiteWorkspace(nmax: number): SiteWorkspace {
     eigenvectors: new Float64Array(states * states),
     qlOff: new Float64Array(states),
     populations: new Float64Array(states),
+    result: new Float64Array(2),
   };
 }
 
@@ -145,10 +148,28 @@ export function solveSiteGround(
   lowerBound: number,
   estimate = NaN,
 ): number {
+  groundStateInPlace(ws, interactionU, muLocal, psi, lowerBound, estimate);
+  return ws.result[0];
+}
+
+/**
+ * The same as solveSiteGround, with phi left in ws.result[0] instead of returned: the
+ * sweep kernel's hot path (a returned double is boxed when the call is not inlined).
+ */
+export function groundStateInPlace(
+  ws: SiteWorkspace,
+  interactionU: number,
+  muLocal: number,
+  psi: number,
+  lowerBound: number,
+  estimate: number,
+): void {
   if (psi < 0) {
     // phi(-psi) = -phi(psi): the unitary (-1)^n maps one problem onto the other. The
     // amplitudes left in the workspace are those for |psi|.
-    return -solveSiteGround(ws, interactionU, muLocal, -psi, lowerBound, estimate);
+    groundStateInPlace(ws, interactionU, muLocal, -psi, lowerBound, estimate);
+    ws.result[0] = -ws.result[0];
+    return;
   }
   const states = ws.states;
   const diag = ws.diag;
@@ -173,7 +194,8 @@ export function solveSiteGround(
     amp.fill(0);
     amp[best] = 1;
     ws.eigenvalues[0] = diag[best];
-    return 0;
+    ws.result[0] = 0;
+    return;
   }
 
   // Starting point below the spectrum.
@@ -193,10 +215,10 @@ export function solveSiteGround(
       // A close estimate (not a bound) usually needs a single Laguerre step. The result is
       // the ground state only if its eigenvector has no sign change (Perron-Frobenius:
       // all off-diagonals are negative); otherwise start again from the bound.
-      const phi = groundByPolynomials(ws, interactionU, psi, estimate, minDiag, false);
-      if (phi === phi) return phi;
+      if (groundByPolynomials(ws, interactionU, psi, estimate, minDiag, false)) return;
     }
-    return groundByPolynomials(ws, interactionU, psi, lambda, minDiag, true);
+    groundByPolynomials(ws, interactionU, psi, lambda, minDiag, true);
+    return;
   }
 
   // Laguerre iteration on p(lambda) = det(H - lambda) through the pivots:
@@ -247,7 +269,7 @@ export function solveSiteGround(
   }
 
   ws.eigenvalues[0] = lambda;
-  return twistedGroundVector(ws, lambda, psi);
+  twistedGroundVector(ws, lambda, psi);
 }
 
 /**
@@ -255,7 +277,7 @@ export function solveSiteGround(
  * for the eigenvalue lambda, by a twisted factorisation; written to ws.amplitudes,
  * normalised, all components >= 0. Returns phi = sum sqrt(n+1) c_n c_{n+1}.
  */
-function twistedGroundVector(ws: SiteWorkspace, lambda: number, psi: number): number {
+function twistedGroundVector(ws: SiteWorkspace, lambda: number, psi: number): void {
   const states = ws.states;
   const diag = ws.diag;
   const offSq = ws.offSq;
@@ -317,7 +339,7 @@ function twistedGroundVector(ws: SiteWorkspace, lambda: number, psi: number): nu
     amp[k] *= scaleAmp;
     phi += sqrtUp[k - 1] * amp[k - 1] * amp[k];
   }
-  return phi;
+  ws.result[0] = phi;
 }
 
 /**
@@ -347,7 +369,7 @@ function groundByPolynomials(
   start: number,
   minDiag: number,
   startIsLowerBound: boolean,
-): number {
+): boolean {
   const states = ws.states;
   const diag = ws.diag;
   const offSq = ws.offSq;
@@ -444,7 +466,7 @@ function groundByPolynomials(
   }
   if (!startIsLowerBound) {
     // The ground state has no negative component; anything else is an excited state.
-    for (let k = 0; k < states; k++) if (!(amp[k] >= 0)) return NaN;
+    for (let k = 0; k < states; k++) if (!(amp[k] >= 0)) return false;
   }
   const scaleAmp = 1 / Math.sqrt(norm);
   let phi = 0;
@@ -453,7 +475,8 @@ function groundByPolynomials(
     amp[k] *= scaleAmp;
     phi += sqrtUp[k - 1] * amp[k - 1] * amp[k];
   }
-  return phi;
+  ws.result[0] = phi;
+  return true;
 }
 
 /** Fill `out` from the ground-state amplitudes left by solveSiteGround. */

@@ -12,6 +12,7 @@
 import {
   couplingNormBound,
   createSiteObservables,
+  groundStateInPlace,
   solveSiteGround,
   solveSiteThermal,
   type SiteObservables,
@@ -106,8 +107,10 @@ export function sweepColour(
   mu: number,
   temperature: number,
 ): number {
+  const n0 = f.inner[0];
   const n1 = f.inner[1];
   const n2 = f.inner[2];
+  const s0 = n1 * n2;
   const eps = f.eps;
   const uArr = f.interactionArray;
   const uUni = f.interactionU;
@@ -115,16 +118,57 @@ export function sweepColour(
   const delta = f.delta;
   const lower = f.lowerEnergy;
   const psiPrev = f.psiPrev;
+  const result = ws.result;
   const coupling = couplingNormBound(f.nmax);
   const thermal = temperature > 0;
+  const h0 = f.hopArrays[0];
+  const h1 = f.hopArrays[1];
+  const h2 = f.hopArrays[2];
+  const uniformHopping = h0 === null && h1 === null && h2 === null;
+  const j0 = f.hopUniform[0];
+  const j1 = f.hopUniform[1];
+  const j2 = f.hopUniform[2];
+  const p0 = f.innerPeriodic[0];
+  const p1 = f.innerPeriodic[1];
+  const p2 = f.innerPeriodic[2];
   let maxChange = 0;
   for (let row = rowStart; row < rowEnd; row++) {
     const a = (row / n1) | 0;
     const b = row - a * n1;
     const base = row * n2;
+    // Neighbour offsets of this row along the two outer axes; a missing neighbour (open
+    // edge, or an axis of length 1) gets offset 0 and weight 0.
+    const up0 = a + 1 < n0 ? s0 : p0 && n0 > 1 ? -(n0 - 1) * s0 : 0;
+    const dn0 = a > 0 ? -s0 : p0 && n0 > 1 ? (n0 - 1) * s0 : 0;
+    const wu0 = a + 1 < n0 || (p0 && n0 > 1) ? 1 : 0;
+    const wd0 = a > 0 || (p0 && n0 > 1) ? 1 : 0;
+    const up1 = b + 1 < n1 ? n2 : p1 && n1 > 1 ? -(n1 - 1) * n2 : 0;
+    const dn1 = b > 0 ? -n2 : p1 && n1 > 1 ? (n1 - 1) * n2 : 0;
+    const wu1 = b + 1 < n1 || (p1 && n1 > 1) ? 1 : 0;
+    const wd1 = b > 0 || (p1 && n1 > 1) ? 1 : 0;
     for (let c = (a + b + colour) & 1; c < n2; c += 2) {
       const i = base + c;
-      const psi = meanField(f, i, a, b, c);
+      // Along the row (innermost axis).
+      const up2 = c + 1 < n2 ? 1 : p2 && n2 > 1 ? -(n2 - 1) : 0;
+      const dn2 = c > 0 ? -1 : p2 && n2 > 1 ? n2 - 1 : 0;
+      const wu2 = up2 === 0 ? 0 : 1;
+      const wd2 = dn2 === 0 ? 0 : 1;
+      let psi: number;
+      if (uniformHopping) {
+        psi =
+          j0 * (wu0 * phi[i + up0] + wd0 * phi[i + dn0]) +
+          j1 * (wu1 * phi[i + up1] + wd1 * phi[i + dn1]) +
+          j2 * (wu2 * phi[i + up2] + wd2 * phi[i + dn2]);
+      } else {
+        // Bond from i to i + e is stored at i; the bond to i - e at the neighbour's index.
+        psi =
+          wu0 * (h0 === null ? j0 : h0[i]) * phi[i + up0] +
+          wd0 * (h0 === null ? j0 : h0[i + dn0]) * phi[i + dn0] +
+          wu1 * (h1 === null ? j1 : h1[i]) * phi[i + up1] +
+          wd1 * (h1 === null ? j1 : h1[i + dn1]) * phi[i + dn1] +
+          wu2 * (h2 === null ? j2 : h2[i]) * phi[i + up2] +
+          wd2 * (h2 === null ? j2 : h2[i + dn2]) * phi[i + dn2];
+      }
       const u = uArr === null ? uUni : uArr[i];
       let phiNew: number;
       if (thermal) {
@@ -136,7 +180,8 @@ export function sweepColour(
         const dPsi = psi - psiPrev[i];
         const bound = prev === prev ? prev - Math.abs(dPsi) * coupling - 1e-12 * (Math.abs(prev) + u) : NaN;
         const estimate = prev === prev ? prev - 2 * phi[i] * dPsi : NaN;
-        phiNew = solveSiteGround(ws, u, mu - eps[i], psi, bound, estimate);
+        groundStateInPlace(ws, u, mu - eps[i], psi, bound, estimate);
+        phiNew = result[0];
         lower[i] = ws.eigenvalues[0];
         psiPrev[i] = psi;
       }
