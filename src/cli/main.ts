@@ -4,10 +4,12 @@
 
 import { Command, CommanderError } from 'commander';
 import { ExitCode, InputError } from './inputError.js';
+import { printable } from '../scenario/formatScenarioError.js';
 import { registerSolve } from './solveCommand.js';
 import { registerCheck } from './checkCommand.js';
 import { registerDiagram } from './diagramCommand.js';
 import { registerHubbard } from './hubbardCli.js';
+import { registerCompare } from './compareCommand.js';
 import { registerKeys } from './keysCommand.js';
 import { toolVersion } from './version.js';
 
@@ -28,6 +30,7 @@ export function buildProgram(context: CommandContext): Command {
   registerCheck(program, context);
   registerDiagram(program, context);
   registerHubbard(program, context);
+  registerCompare(program, context);
   registerKeys(program, context);
   return program;
 }
@@ -44,7 +47,13 @@ export async function runCli(argv: string[]): Promise<number> {
       return ExitCode.badInput; // commander already printed the message
     }
     if (err instanceof InputError) {
-      process.stderr.write(`tiercake: ${err.message}\n`);
+      // Control characters are escaped (a message must not rewrite the terminal) and each
+      // line is capped, whatever a scenario or a file name contained.
+      const lines = err.message.split('\n').map((line) => {
+        const safe = printable(line);
+        return safe.length > 400 ? `${safe.slice(0, 397)}...` : safe;
+      });
+      process.stderr.write(`tiercake: ${lines.join('\n')}\n`);
       return ExitCode.badInput;
     }
     const message = err instanceof Error ? err.message : String(err);

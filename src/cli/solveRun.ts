@@ -17,6 +17,9 @@ import { radialProfile, type RadialProfile } from '../observables/radialProfile.
 /** Below this many sites the worker round trips cost more than they save. */
 export const PARALLEL_MIN_SITES = 8192;
 
+/** Highest nmax the automatic truncation guard raises to (unless the scenario starts higher). */
+export const NMAX_CEILING = 40;
+
 export interface SolveRunOptions {
   scenarioPath: string;
   overrides: string[];
@@ -51,7 +54,7 @@ export interface SolveArtifacts {
 export function parseThreads(text: string | undefined): number {
   if (text === undefined) return Math.max(1, Math.min(availableParallelism(), 64));
   const n = Number(text);
-  if (!Number.isInteger(n) || n < 1 || n > 256) throw new InputError(`--threads: expected a whole number from 1 to 256, got ${text}`);
+  if (!Number.isInteger(n) || n < 1 || n > 256) throw new InputError(`--threads: expected a whole number from 1 to 256, got ${JSON.stringify(text)}`);
   return n;
 }
 
@@ -89,6 +92,19 @@ function checkPhysicalConsistency(resolved: ResolvedScenario): void {
     let minEps = Infinity;
     for (let i = 0; i < model.eps.length; i++) if (model.eps[i] < minEps) minEps = model.eps[i];
     const expectedFilling = Math.ceil((chemical.mu - minEps) / u);
+    const ceiling = Math.max(nmax, NMAX_CEILING);
+    if (expectedFilling >= 60) {
+      throw new InputError(
+        `particles.chemicalPotential: gives about ${expectedFilling} atoms per site at the trap centre, beyond what a Gutzwiller ` +
+          `truncation can hold (nmax <= 60); lower particles.chemicalPotential`,
+      );
+    }
+    if (expectedFilling >= ceiling && scenario.truncation.automatic) {
+      throw new InputError(
+        `truncation.nmax: the chemical potential gives about ${expectedFilling} atoms per site at the trap centre, above the ` +
+          `automatic limit nmax = ${ceiling}; set truncation.nmax to at least ${expectedFilling + 3}`,
+      );
+    }
     if (expectedFilling >= nmax && !scenario.truncation.automatic) {
       throw new InputError(
         `truncation.nmax: the chemical potential gives about ${expectedFilling} atoms per site at the trap centre, ` +
@@ -131,7 +147,7 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
         truncation: {
           automatic: scenario.truncation.automatic,
           topWeightMax: scenario.truncation.topWeightMax,
-          nmaxLimit: Math.max(nmaxStart, 40),
+          nmaxLimit: Math.max(nmaxStart, NMAX_CEILING),
         },
         compressibility: scenario.solver.compressibility,
         ...(options.initialPhi ? { initialPhi: options.initialPhi } : {}),

@@ -23,10 +23,18 @@ function shorten(text: string, max: number): string {
   return text.length > max ? `${text.slice(0, max - 3)}...` : text;
 }
 
+/**
+ * Text safe to print on a terminal: C0 and C1 control characters (which include the
+ * escape sequences that recolour or rewrite a terminal) and line separators become \uXXXX.
+ */
+export function printable(text: string): string {
+  return text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
+}
+
 /** A key as it can be shown: plain identifiers as they are, anything else JSON-quoted. */
 function showKey(key: string): string {
   if (/^[A-Za-z_$][A-Za-z0-9_$]*$/.test(key)) return shorten(key, MAX_KEY_CHARS);
-  return `[${shorten(JSON.stringify(key), MAX_KEY_CHARS)}]`;
+  return `[${shorten(printable(JSON.stringify(key)), MAX_KEY_CHARS)}]`;
 }
 
 export function formatPath(path: ReadonlyArray<PropertyKey>): string {
@@ -66,7 +74,7 @@ export function describeValue(v: unknown): string {
   }
   if (text === undefined) return typeof v;
   const kind = Array.isArray(v) ? 'the list ' : typeof v === 'string' ? 'the text ' : '';
-  return kind + shorten(text, MAX_VALUE_CHARS);
+  return kind + shorten(printable(text), MAX_VALUE_CHARS);
 }
 
 function article(word: string): string {
@@ -97,7 +105,7 @@ function typeWord(type: string | undefined): string {
 function isIntegerNode(node: JsonSchemaNode | undefined): boolean {
   if (!node) return false;
   if (node.type === 'integer') return true;
-  return (node.anyOf ?? []).some((a) => a.type === 'integer');
+  return [...(node.anyOf ?? []), ...(node.oneOf ?? [])].some((a) => a.type === 'integer');
 }
 
 function bound(issue: z.core.$ZodIssueTooSmall | z.core.$ZodIssueTooBig, path: ReadonlyArray<PropertyKey>): string {
@@ -168,7 +176,11 @@ function issueLines(issues: ReadonlyArray<z.core.$ZodIssue>, input: unknown): Is
       case 'invalid_type':
         if (value === undefined) text = withHint(`${where}: missing; expected ${typeWord(issue.expected)}`, fieldHint(issue.path));
         else if (typeof value === 'number' && !Number.isFinite(value)) text = `${where}: expected a finite number, got ${given}`;
-        else text = withHint(`${where}: expected ${typeWord(issue.expected)}, got ${given}`, fieldHint(issue.path));
+        else {
+          // zod reports "number" for a non-number given to an integer field; the schema knows better
+          const expected = issue.expected === 'number' && isIntegerNode(schemaNodeAt(issue.path)) ? 'int' : issue.expected;
+          text = withHint(`${where}: expected ${typeWord(expected)}, got ${given}`, fieldHint(issue.path));
+        }
         break;
       case 'too_small':
       case 'too_big':
@@ -178,6 +190,12 @@ function issueLines(issues: ReadonlyArray<z.core.$ZodIssue>, input: unknown): Is
         text = `${where}: expected one of ${issue.values.map((v) => JSON.stringify(v)).join(', ')}, got ${given}`;
         break;
       case 'invalid_union':
+        if (issue.errors.length === 0 && Array.isArray((issue as { options?: unknown[] }).options)) {
+          // a discriminated union whose tag ("kind") matched no alternative
+          const options = ((issue as { options?: unknown[] }).options ?? []).map((v) => JSON.stringify(v)).join(', ');
+          text = value === undefined ? `${where}: missing; expected one of ${options}` : `${where}: expected one of ${options}, got ${given}`;
+          break;
+        }
         text = withHint(`${where}: expected ${unionHint(issue)}, got ${given}`, fieldHint(issue.path));
         break;
       case 'custom':

@@ -11,15 +11,15 @@
 
 import { readFileSync, statSync } from 'node:fs';
 import { InputError } from '../cli/inputError.js';
-import { formatPath, summarizeScenarioIssues } from './formatScenarioError.js';
-import { nearestKey, validKeysAt } from './scenarioKeys.js';
+import { formatPath, printable, summarizeScenarioIssues } from './formatScenarioError.js';
+import { nearestKey, schemaDepth, validKeysAt } from './scenarioKeys.js';
 import { ScenarioSchema, type Scenario } from './scenarioSchema.js';
 
 const MAX_SCENARIO_BYTES = 1 << 20;
 /**
- * Deepest nesting of lists and groups a scenario may have. The schema needs 3
- * (laboratory.transverse.depthEr, lattice.shape); anything far deeper is junk, and
- * copying or printing it could exhaust the call stack.
+ * Deepest nesting of lists and groups a scenario may have. The schema needs 3 (the file,
+ * lattice, lattice.shape; see schemaDepth); anything far deeper is junk, and copying or
+ * printing it could exhaust the call stack.
  */
 export const MAX_SCENARIO_DEPTH = 12;
 /** Longest file path or --set item quoted in a message. */
@@ -33,8 +33,7 @@ function shorten(text: string, max = MAX_QUOTED_CHARS): string {
 
 /** Text from the user shown in a message: control characters escaped, length bounded. */
 function quoted(text: string): string {
-  const escaped = JSON.stringify(text).slice(1, -1);
-  return shorten(escaped);
+  return shorten(printable(text));
 }
 
 /** Line and column (both from 1) of a character offset. */
@@ -63,7 +62,7 @@ const WORD = /[A-Za-z_$][A-Za-z0-9_$.+-]*/y;
 function wordAt(text: string, offset: number): string {
   WORD.lastIndex = offset;
   const m = WORD.exec(text);
-  return m ? m[0] : text[offset];
+  return m ? m[0] : (text[offset] ?? '');
 }
 
 /**
@@ -170,6 +169,9 @@ export function locateJsonProblem(text: string): JsonProblem | null {
           want = 'next';
           break;
         }
+        if (/^[A-Za-z_$]/.test(word) && stack.length === 0) {
+          return problem(i, 'the file does not start with "{"; a scenario is a JSON object (not YAML or INI), see configs/ for examples');
+        }
         if (/^[A-Za-z_$]/.test(word)) return problem(i, `unquoted text "${shorten(word, 30)}"; texts need double quotes, true/false/null are lower case`);
         return problem(i, `unexpected character ${JSON.stringify(c)} where a value was expected`);
       }
@@ -239,7 +241,7 @@ function refuseDeepNesting(value: unknown, source: string): void {
   if (path) {
     throw new InputError(
       `${source}: lists and groups nested more than ${MAX_SCENARIO_DEPTH} levels deep at ${formatPath(path)}; ` +
-        'a scenario needs at most 3 levels (see configs/ for examples)',
+        `a valid scenario has at most ${schemaDepth()} (see configs/ for examples)`,
     );
   }
 }
@@ -405,9 +407,10 @@ export function applyOverrides(raw: Record<string, unknown>, overrides: readonly
       let key: string | number;
       if (Array.isArray(node)) {
         if (!/^\d+$/.test(seg) || Number(seg) > node.length) {
+          const entries = `${node.length} ${node.length === 1 ? 'entry' : 'entries'}`;
           throw new InputError(
-            `--set ${shown}: ${parent} is a list of ${node.length}; after it give an index from 0 to ${node.length} ` +
-              `(${node.length} appends), or set the whole list, e.g. ${quoted(path.slice(0, k).join('.'))}=[...]`,
+            `--set ${shown}: ${parent} is a list with ${entries}; after it give an index from 0 to ${node.length} ` +
+              `(${node.length} adds an entry), or set the whole list, e.g. --set ${quoted(path.slice(0, k).join('.'))}=[...]`,
           );
         }
         key = Number(seg);
@@ -417,7 +420,7 @@ export function applyOverrides(raw: Record<string, unknown>, overrides: readonly
           const near = nearestKey(seg, valid);
           throw new InputError(
             `--set ${shown}: "${here}" is not a scenario key` +
-              (near ? `; did you mean "${near}"?` : valid.length > 0 ? `; valid keys in ${parent}: ${valid.join(', ')}` : ''),
+              (near ? `; did you mean "${quoted([...path.slice(0, k), near].join('.'))}"?` : valid.length > 0 ? `; valid keys in ${parent}: ${valid.join(', ')}` : ''),
           );
         }
         key = seg;
@@ -437,7 +440,7 @@ export function applyOverrides(raw: Record<string, unknown>, overrides: readonly
         node = next as Record<string, unknown> | unknown[];
       } else {
         throw new InputError(
-          `--set ${shown}: "${here}" holds ${kindOf(next)} (${quoted(String(JSON.stringify(next)))}), not keys or a list; ` +
+          `--set ${shown}: "${here}" holds ${kindOf(next)} (${shorten(printable(String(JSON.stringify(next))), 40)}), not keys or a list; ` +
             `set it directly, e.g. --set ${here}=VALUE`,
         );
       }

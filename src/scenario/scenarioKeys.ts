@@ -12,6 +12,9 @@ export interface JsonSchemaNode {
   properties?: Record<string, JsonSchemaNode>;
   items?: JsonSchemaNode;
   anyOf?: JsonSchemaNode[];
+  /** zod emits oneOf for discriminated unions (disorder: box or speckle) */
+  oneOf?: JsonSchemaNode[];
+  allOf?: JsonSchemaNode[];
   enum?: unknown[];
   minimum?: number;
   maximum?: number;
@@ -30,11 +33,16 @@ export function scenarioJsonSchema(): JsonSchemaNode {
   return cached;
 }
 
-/** Object properties reachable at a node (through anyOf alternatives). */
+/** The alternatives of a union node (anyOf, oneOf) and the parts of an intersection (allOf). */
+function alternativesOf(node: JsonSchemaNode): JsonSchemaNode[] {
+  return [...(node.anyOf ?? []), ...(node.oneOf ?? []), ...(node.allOf ?? [])];
+}
+
+/** Object properties reachable at a node (through union alternatives). */
 function propertiesOf(node: JsonSchemaNode | undefined): Record<string, JsonSchemaNode> {
   if (!node) return {};
   const out: Record<string, JsonSchemaNode> = { ...(node.properties ?? {}) };
-  for (const alt of node.anyOf ?? []) Object.assign(out, propertiesOf(alt));
+  for (const alt of alternativesOf(node)) Object.assign(out, propertiesOf(alt));
   return out;
 }
 
@@ -43,8 +51,11 @@ export function schemaNodeAt(path: ReadonlyArray<PropertyKey>): JsonSchemaNode |
   let node: JsonSchemaNode | undefined = scenarioJsonSchema();
   for (const seg of path) {
     if (!node) return undefined;
-    if (typeof seg === 'number') node = node.items ?? node.anyOf?.find((a) => a.items)?.items;
-    else node = Object.hasOwn(propertiesOf(node), String(seg)) ? propertiesOf(node)[String(seg)] : undefined;
+    if (typeof seg === 'number') node = node.items ?? alternativesOf(node).find((a) => a.items)?.items;
+    else {
+      const props = propertiesOf(node);
+      node = Object.hasOwn(props, String(seg)) ? props[String(seg)] : undefined;
+    }
   }
   return node;
 }
@@ -52,6 +63,19 @@ export function schemaNodeAt(path: ReadonlyArray<PropertyKey>): JsonSchemaNode |
 /** Valid keys of the object at `path` (numeric segments step into arrays). */
 export function validKeysAt(path: ReadonlyArray<PropertyKey>): string[] {
   return Object.keys(propertiesOf(schemaNodeAt(path)));
+}
+
+/** Deepest nesting of groups and lists a valid scenario can have (the file's top level is 1). */
+export function schemaDepth(node: JsonSchemaNode | undefined = scenarioJsonSchema(), depth = 0): number {
+  if (!node || depth > 32) return depth;
+  let deepest = depth;
+  const container = node.type === 'object' || node.type === 'array' || node.properties !== undefined || node.items !== undefined;
+  const below = container ? depth + 1 : depth;
+  if (container) deepest = below;
+  for (const child of Object.values(node.properties ?? {})) deepest = Math.max(deepest, schemaDepth(child, below));
+  if (node.items) deepest = Math.max(deepest, schemaDepth(node.items, below));
+  for (const alt of alternativesOf(node)) deepest = Math.max(deepest, schemaDepth(alt, depth));
+  return deepest;
 }
 
 /**

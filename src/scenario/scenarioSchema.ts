@@ -4,6 +4,7 @@
 // (see formatScenarioError.ts).
 
 import * as z from 'zod';
+import { CameraSchema, TimeOfFlightSchema } from './imagingSchema.js';
 
 const finite = (): z.ZodNumber => z.number();
 const positive = (): z.ZodNumber => z.number().positive();
@@ -35,7 +36,7 @@ export const HubbardSchema = z
   .describe('dimensionless model: Bose-Hubbard parameters directly (use this or laboratory)');
 
 export const SpeciesSchema = z.union([
-  z.string().min(1).describe('isotope name from the built-in table, e.g. "87Rb"'),
+  z.string().min(1).max(40).regex(/^[A-Za-z0-9 _-]+$/, 'an isotope name such as 87Rb').describe('isotope name from the built-in table, e.g. "87Rb"'),
   z.strictObject({
     massU: positive().describe('atomic mass in unified atomic mass units'),
     scatteringLengthBohr: positive().optional().describe('s-wave scattering length in Bohr radii'),
@@ -169,6 +170,8 @@ export const ScenarioSchema = z
     solver: SolverSchema.prefault({}),
     phases: PhasesSchema.prefault({}),
     profiles: ProfilesSchema.prefault({}),
+    camera: CameraSchema.optional(),
+    timeOfFlight: TimeOfFlightSchema.optional(),
   })
   .superRefine((s, ctx) => {
     const issue = (path: PropertyKey[], message: string): void => ctx.addIssue({ code: 'custom', path, message });
@@ -178,6 +181,16 @@ export const ScenarioSchema = z
         issue(path, `expected one value or ${dims} (one per lattice axis), got ${v.length}`);
       }
     };
+    const periodicAxes = Array.isArray(s.lattice.boundary)
+      ? s.lattice.boundary.length === 1
+        ? Array(dims).fill(s.lattice.boundary[0])
+        : s.lattice.boundary
+      : Array(dims).fill(s.lattice.boundary);
+    s.lattice.shape.forEach((n, d) => {
+      if (periodicAxes[d] === 'periodic' && n % 2 !== 0) {
+        issue(['lattice', 'shape', d], `a periodic axis needs an even length for the red-black update, got ${n}; make it even or make that boundary open`);
+      }
+    });
     if (Array.isArray(s.lattice.boundary) && s.lattice.boundary.length !== dims) {
       issue(['lattice', 'boundary'], `expected one value or ${dims} (one per lattice axis), got ${s.lattice.boundary.length}`);
     }
