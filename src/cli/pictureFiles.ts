@@ -18,6 +18,7 @@ import { encodeNpy } from '../io/npy.js';
 import { encodeGray16, encodeRgba8 } from '../imaging/pngCodec.js';
 import { renderFieldFigure } from '../imaging/fieldFigure.js';
 import type { PlanarField } from '../imaging/planarField.js';
+import type { RgbaImage } from '../imaging/raster.js';
 import type { WrittenImage } from './solveOutputs.js';
 
 /** A picture on a regular pixel grid with its coordinates. */
@@ -118,16 +119,25 @@ function formatLength(x: number): string {
   return Number(x.toPrecision(3)).toString();
 }
 
-/** Colour figure of a picture: axes in the length unit, colour bar, scale bar, title. */
-export function colourPicturePng(
-  picture: PixelPicture,
-  options: { title: string; quantity: string; axisNames: readonly [string, string]; axisNote?: string; lengthUnit: LengthUnit; colorMap?: string; symmetricRange?: boolean },
-): Uint8Array {
+export interface ColourPictureOptions {
+  title: string;
+  quantity: string;
+  axisNames: readonly [string, string];
+  axisNote?: string;
+  lengthUnit: LengthUnit;
+  colorMap?: string;
+  symmetricRange?: boolean;
+  /** Fixed colour scale, e.g. shared by two pictures shown side by side. */
+  valueRange?: { min: number; max: number };
+}
+
+/** Colour figure of a picture (RGBA): axes in the length unit, colour bar, scale bar, title. */
+export function colourPictureFigure(picture: PixelPicture, options: ColourPictureOptions): RgbaImage {
   const unit = options.lengthUnit.short;
   const note = options.axisNote ?? '';
   const extent = picture.nx * picture.pixelUm;
   const bar = scaleBarLength(extent);
-  const figure = renderFieldFigure(picture.values, picture.nx, picture.ny, {
+  return renderFieldFigure(picture.values, picture.nx, picture.ny, {
     title: options.title,
     xAxis: { label: `${options.axisNames[0]}${note} (${unit})`, origin: picture.xCentresUm[0], step: picture.pixelUm },
     yAxis: { label: `${options.axisNames[1]}${note} (${unit})`, origin: picture.yCentresUm[0], step: picture.pixelUm },
@@ -135,8 +145,29 @@ export function colourPicturePng(
     scaleBar: { length: bar, label: `${formatLength(bar)} ${unit}` },
     ...(options.colorMap !== undefined ? { colorMap: options.colorMap } : {}),
     ...(options.symmetricRange !== undefined ? { symmetricRange: options.symmetricRange } : {}),
+    ...(options.valueRange !== undefined ? { valueRange: options.valueRange } : {}),
   });
+}
+
+/** The colour figure encoded as an 8-bit RGBA PNG. */
+export function colourPicturePng(picture: PixelPicture, options: ColourPictureOptions): Uint8Array {
+  const figure = colourPictureFigure(picture, options);
   return encodeRgba8(figure.width, figure.height, figure.data);
+}
+
+/** Figures placed left to right on a white page, top-aligned, with a gap between them. */
+export function sideBySide(figures: readonly RgbaImage[], gapPx = 16): RgbaImage {
+  const width = figures.reduce((w, f) => w + f.width, 0) + gapPx * Math.max(0, figures.length - 1);
+  const height = figures.reduce((h, f) => Math.max(h, f.height), 0);
+  const data = new Uint8Array(width * height * 4).fill(255);
+  let left = 0;
+  for (const f of figures) {
+    for (let row = 0; row < f.height; row++) {
+      data.set(f.data.subarray(row * f.width * 4, (row + 1) * f.width * 4), (row * width + left) * 4);
+    }
+    left += f.width + gapPx;
+  }
+  return { width, height, data };
 }
 
 /** The .npy, 16-bit PNG, sidecar and colour PNG of one picture (paths under images/). */

@@ -13,6 +13,7 @@ import { inAllUnits } from '../scenario/resolveScenario.js';
 import { phaseNames } from '../observables/phaseCodes.js';
 import type { SolveArtifacts } from './solveRun.js';
 import { toolVersion } from './version.js';
+import { cameraPictures, cloudForImaging } from './cameraOutputs.js';
 
 export interface WrittenImage {
   file: string;
@@ -47,7 +48,7 @@ function energyBlock(value: number, a: SolveArtifacts): Record<string, number> {
 }
 
 /** The machine-readable summary (inputs echoed, results, convergence, timings). */
-export function buildSummary(a: SolveArtifacts, files: string[]): Record<string, unknown> {
+export function buildSummary(a: SolveArtifacts, files: string[], imaging?: Record<string, unknown>): Record<string, unknown> {
   const { outcome, resolved, classification, shells } = a;
   const totals = outcome.solve.totals;
   const relax = outcome.solve.relax;
@@ -120,6 +121,7 @@ export function buildSummary(a: SolveArtifacts, files: string[]): Record<string,
       innerRadiusUm: spacing !== null ? s.innerRadius * spacing : null,
       outerRadiusUm: spacing !== null ? s.outerRadius * spacing : null,
     })),
+    ...(imaging !== undefined ? { imaging } : {}),
     threads: a.threadsUsed,
     timings: a.timings,
     files,
@@ -281,8 +283,23 @@ export function writeSolveFiles(a: SolveArtifacts, folder: OutputFolder, reportH
     folder.write(img.file, img.png);
     files.push(img.file);
   }
+  // Camera pictures (in situ, parity, time of flight): .npy + 16-bit PNG + sidecar + colour PNG.
+  const camera = cameraPictures(cloudForImaging(a), a.scenario.camera, a.scenario.timeOfFlight);
+  for (const f of camera.arrays) {
+    folder.write(f.file, f.bytes);
+    files.push(f.file);
+  }
+  for (const t of camera.texts) {
+    folder.write(t.file, t.text);
+    files.push(t.file);
+  }
+  for (const img of camera.images) {
+    folder.write(img.file, img.png);
+    files.push(img.file);
+  }
+  images.push(...camera.images);
   files.push('summary.json', 'report.html');
-  folder.write('summary.json', `${JSON.stringify(buildSummary(a, files), jsonReplacer, 2)}\n`);
+  folder.write('summary.json', `${JSON.stringify(buildSummary(a, files, camera.summary), jsonReplacer, 2)}\n`);
   folder.write('report.html', reportHtml(images));
   return files;
 }
