@@ -97,7 +97,7 @@ export async function runSolveCommand(scenarioPath: string, options: SolveComman
   const folder = new OutputFolder(outDir);
   try {
     const createdIso = new Date().toISOString();
-    writeSolveFiles(artifacts, folder, (images) => renderReportHtml(buildSolveReport(artifacts, images, createdIso)));
+    writeSolveFiles(artifacts, folder, (images, imaging) => renderReportHtml(buildSolveReport(artifacts, images, createdIso, imaging)));
     folder.commit();
   } catch (err) {
     folder.discard();

@@ -270,7 +270,11 @@ function scaleBarFor(extentUm: number): { length: number; label: string } {
 }
 
 /** Stage every file of a solve run in `folder` (the caller commits it). */
-export function writeSolveFiles(a: SolveArtifacts, folder: OutputFolder, reportHtml: (images: WrittenImage[]) => string): string[] {
+export function writeSolveFiles(
+  a: SolveArtifacts,
+  folder: OutputFolder,
+  reportHtml: (images: WrittenImage[], imaging: Record<string, unknown>) => string,
+): string[] {
   const files: string[] = [];
   for (const f of fieldFiles(a)) {
     folder.write(f.file, f.bytes);
@@ -300,7 +304,7 @@ export function writeSolveFiles(a: SolveArtifacts, folder: OutputFolder, reportH
   images.push(...camera.images);
   files.push('summary.json', 'report.html');
   folder.write('summary.json', `${JSON.stringify(buildSummary(a, files, camera.summary), jsonReplacer, 2)}\n`);
-  folder.write('report.html', reportHtml(images));
+  folder.write('report.html', reportHtml(images, camera.summary));
   return files;
 }
 

@@ -30,7 +30,12 @@ function energyRow(label: string, value: number, a: SolveArtifacts, note?: strin
   };
 }
 
-export function buildSolveReport(a: SolveArtifacts, images: WrittenImage[], createdIso: string): ReportDocument {
+export function buildSolveReport(
+  a: SolveArtifacts,
+  images: WrittenImage[],
+  createdIso: string,
+  imaging: Record<string, unknown> = {},
+): ReportDocument {
   const { outcome, resolved, scenario, classification, shells, profile } = a;
   const totals = outcome.solve.totals;
   const relax = outcome.solve.relax;
@@ -78,6 +83,10 @@ export function buildSolveReport(a: SolveArtifacts, images: WrittenImage[], crea
     { label: 'entropy per atom', value: totals.atoms > 0 ? totals.entropy / totals.atoms : 0, unit: 'k_B' },
     { label: 'superfluid spans the cloud', value: classification.superfluidSpans ? 'yes' : 'no' },
   ];
+  const visibility = imaging.visibility as { value?: number; definition?: string } | undefined;
+  if (visibility?.value !== undefined) {
+    resultRows.push({ label: 'time-of-flight visibility V', value: visibility.value, note: 'Gerbier et al., PRL 95, 050404 (2005); definition in summary.json' });
+  }
   const convergenceRows: KeyValueRow[] = [
     { label: 'converged', value: outcome.converged ? 'yes' : 'NO' },
     { label: 'sweeps (all stages)', value: outcome.totalSweeps },
