@@ -48,6 +48,8 @@ export async function runSolveCommand(scenarioPath: string, options: SolveComman
   const resumeFrom = options.resume ? readCheckpoint(checkpointDir, prepared.scenario) : null;
   const progress = createProgressReporter(options.quiet ? 'quiet' : options.jsonProgress ? 'json' : 'auto');
   let interrupted = false;
+  let lastTick = Date.now();
+  let lastSweeps = 0;
   const onSignal = (): void => {
     interrupted = true;
   };
@@ -62,6 +64,18 @@ export async function runSolveCommand(scenarioPath: string, options: SolveComman
       prepared,
       ...(resumeFrom ? { resume: { phi: resumeFrom.phi, mu: resumeFrom.mu, nmax: resumeFrom.nmax } } : {}),
       observer: (p) => {
+        // Remaining time of this relaxation from the contraction rate: the error shrinks by r
+        // per sweep, so about ln(tol/err)/ln(r) sweeps remain.
+        const now = Date.now();
+        const sweepSeconds = (now - lastTick) / 1000 / Math.max(1, p.totalSweeps - lastSweeps);
+        lastTick = now;
+        lastSweeps = p.totalSweeps;
+        const tol = prepared.scenario.solver.tolerance;
+        let eta = '';
+        if (p.rate > 0 && p.rate < 1 && p.errorEstimate > tol && Number.isFinite(p.errorEstimate)) {
+          const remaining = Math.log(tol / p.errorEstimate) / Math.log(p.rate);
+          eta = `, ~${Math.ceil(remaining * sweepSeconds)} s to converge at this mu`;
+        }
         progress.update({
           stage: p.stage === 'solve' ? 'solving' : p.stage === 'temperature' ? 'finding T' : 'dn/dmu',
           sweep: p.totalSweeps,
@@ -69,7 +83,7 @@ export async function runSolveCommand(scenarioPath: string, options: SolveComman
           errorEstimate: p.errorEstimate,
           atoms: p.atoms,
           mu: p.mu,
-          detail: `nmax ${p.nmax}`,
+          detail: `nmax ${p.nmax}${eta}`,
         });
         return interrupted ? 'stop' : undefined;
       },
