@@ -50,6 +50,12 @@ export interface SiteWorkspace {
   readonly populations: Float64Array;
   /** result slot: [phi] of the last in-place solve (avoids boxing a returned double) */
   readonly result: Float64Array;
+  /**
+   * argument slots of groundFromArgs: [U, muLocal, psi, lowerBound, estimate, start,
+   * minDiag]. Doubles passed to a function V8 does not inline are boxed on the heap; the
+   * sweep kernel passes them through this array instead.
+   */
+  readonly args: Float64Array;
 }
 
 export function createSiteWorkspace(nmax: number): SiteWorkspace {
@@ -71,6 +77,7 @@ export function createSiteWorkspace(nmax: number): SiteWorkspace {
     qlOff: new Float64Array(states),
     populations: new Float64Array(states),
     result: new Float64Array(2),
+    args: new Float64Array(8),
   };
 }
 
@@ -164,10 +171,36 @@ export function groundStateInPlace(
   lowerBound: number,
   estimate: number,
 ): void {
+  const args = ws.args;
+  args[ARG_U] = interactionU;
+  args[ARG_MU] = muLocal;
+  args[ARG_PSI] = psi;
+  args[ARG_BOUND] = lowerBound;
+  args[ARG_ESTIMATE] = estimate;
+  groundFromArgs(ws);
+}
+
+export const ARG_U = 0;
+export const ARG_MU = 1;
+export const ARG_PSI = 2;
+export const ARG_BOUND = 3;
+export const ARG_ESTIMATE = 4;
+const ARG_START = 5;
+const ARG_MIN_DIAG = 6;
+
+/** Ground state with its arguments in ws.args (see SiteWorkspace.args); phi in ws.result[0]. */
+export function groundFromArgs(ws: SiteWorkspace): void {
+  const args = ws.args;
+  const interactionU = args[ARG_U];
+  const muLocal = args[ARG_MU];
+  const psi = args[ARG_PSI];
+  const lowerBound = args[ARG_BOUND];
+  const estimate = args[ARG_ESTIMATE];
   if (psi < 0) {
     // phi(-psi) = -phi(psi): the unitary (-1)^n maps one problem onto the other. The
     // amplitudes left in the workspace are those for |psi|.
-    groundStateInPlace(ws, interactionU, muLocal, -psi, lowerBound, estimate);
+    args[ARG_PSI] = -psi;
+    groundFromArgs(ws);
     ws.result[0] = -ws.result[0];
     return;
   }
@@ -211,13 +244,16 @@ export function groundStateInPlace(
   }
 
   if (states <= POLYNOMIAL_PATH_MAX_STATES) {
+    args[ARG_MIN_DIAG] = minDiag;
     if (estimate === estimate) {
       // A close estimate (not a bound) usually needs a single Laguerre step. The result is
       // the ground state only if its eigenvector has no sign change (Perron-Frobenius:
       // all off-diagonals are negative); otherwise start again from the bound.
-      if (groundByPolynomials(ws, interactionU, psi, estimate, minDiag, false)) return;
+      args[ARG_START] = estimate;
+      if (groundByPolynomials(ws, false)) return;
     }
-    groundByPolynomials(ws, interactionU, psi, lambda, minDiag, true);
+    args[ARG_START] = lambda;
+    groundByPolynomials(ws, true);
     return;
   }
 
@@ -362,21 +398,24 @@ const POLYNOMIAL_PATH_MAX_STATES = 17;
  * The column r of the largest diagonal entry gives the eigenvector from determinants of
  * blocks that exclude the dominant occupation, which are well conditioned.
  */
-function groundByPolynomials(
-  ws: SiteWorkspace,
-  interactionU: number,
-  psi: number,
-  start: number,
-  minDiag: number,
-  startIsLowerBound: boolean,
-): boolean {
+function groundByPolynomials(ws: SiteWorkspace, startIsLowerBound: boolean): boolean {
+  const args = ws.args;
+  const interactionU = args[ARG_U];
+  const psi = args[ARG_PSI];
+  const start = args[ARG_START];
+  const minDiag = args[ARG_MIN_DIAG];
   const states = ws.states;
   const diag = ws.diag;
   const offSq = ws.offSq;
   const degree = states;
   const scale = Math.abs(minDiag) + Math.abs(interactionU) + psi;
   const small = 1e-6 * scale;
+  const lead = ws.pivotsTop;
   let lambda = start;
+  // lead[] holds the leading determinants at leadAt; once the iteration has converged to
+  // 1e-13 of the scale they are reused for the eigenvector (error ~1e-13/gap).
+  let leadAt = NaN;
+  lead[0] = 1;
   for (let iter = 0; iter < 100; iter++) {
     let pPrev = 1;
     let dPrev = 0;
@@ -384,7 +423,9 @@ function groundByPolynomials(
     let p = diag[0] - lambda;
     let d = -1;
     let dd = 0;
+    leadAt = lambda;
     for (let k = 1; k < states; k++) {
+      lead[k] = p;
       const shifted = diag[k] - lambda;
       const e2 = offSq[k - 1];
       const pNew = shifted * p - e2 * pPrev;
@@ -414,16 +455,16 @@ function groundByPolynomials(
 
   // Leading determinants p_{k-1} stored at lead[k] (lead[0] = 1), trailing q_{k+1} at
   // trail[k] (trail[states-1] = 1).
-  const lead = ws.pivotsTop;
   const trail = ws.pivotsBottom;
-  lead[0] = 1;
-  let pPrev = 1;
-  let p = diag[0] - lambda;
-  for (let k = 1; k < states; k++) {
-    lead[k] = p;
-    const pNew = (diag[k] - lambda) * p - offSq[k - 1] * pPrev;
-    pPrev = p;
-    p = pNew;
+  if (!(Math.abs(lambda - leadAt) <= 1e-13 * scale)) {
+    let pPrev = 1;
+    let p = diag[0] - lambda;
+    for (let k = 1; k < states; k++) {
+      lead[k] = p;
+      const pNew = (diag[k] - lambda) * p - offSq[k - 1] * pPrev;
+      pPrev = p;
+      p = pNew;
+    }
   }
   const last = states - 1;
   trail[last] = 1;

@@ -11,8 +11,13 @@
 
 import {
   couplingNormBound,
+  ARG_BOUND,
+  ARG_ESTIMATE,
+  ARG_MU,
+  ARG_PSI,
+  ARG_U,
   createSiteObservables,
-  groundStateInPlace,
+  groundFromArgs,
   solveSiteGround,
   solveSiteThermal,
   type SiteObservables,
@@ -119,6 +124,7 @@ export function sweepColour(
   const lower = f.lowerEnergy;
   const psiPrev = f.psiPrev;
   const result = ws.result;
+  const args = ws.args;
   const coupling = couplingNormBound(f.nmax);
   const thermal = temperature > 0;
   const h0 = f.hopArrays[0];
@@ -180,7 +186,12 @@ export function sweepColour(
         const dPsi = psi - psiPrev[i];
         const bound = prev === prev ? prev - Math.abs(dPsi) * coupling - 1e-12 * (Math.abs(prev) + u) : NaN;
         const estimate = prev === prev ? prev - 2 * phi[i] * dPsi : NaN;
-        groundStateInPlace(ws, u, mu - eps[i], psi, bound, estimate);
+        args[ARG_U] = u;
+        args[ARG_MU] = mu - eps[i];
+        args[ARG_PSI] = psi;
+        args[ARG_BOUND] = bound;
+        args[ARG_ESTIMATE] = estimate;
+        groundFromArgs(ws);
         phiNew = result[0];
         lower[i] = ws.eigenvalues[0];
         psiPrev[i] = psi;
