@@ -9,7 +9,9 @@ import { hubbardFromLab, type HubbardParameters } from '../physics/hubbardParame
 import { ParameterError } from '../physics/parameterError.js';
 import { nanokelvinToHz } from '../physics/energyUnits.js';
 import { trapCurvatureHzPerSite2 } from '../physics/harmonicTrap.js';
-import { envelopeTrapFrequencyHz } from '../physics/beamEnvelope.js';
+import { envelopeTrapFrequencyHz, localDepthEr } from '../physics/beamEnvelope.js';
+import { latticeAxisInterpolator } from '../physics/depthInterpolation.js';
+import { minAxisDepthEr } from '../physics/latticeAxis.js';
 import type { Scenario } from './scenarioSchema.js';
 
 export interface LaboratoryParameters {
@@ -30,6 +32,10 @@ export interface LaboratoryParameters {
   wannierWidthSites: number;
   hubbard: HubbardParameters;
   warnings: string[];
+  /** per-bond J (Hz) along each lattice axis when envelopeVariesHubbard is set, else null */
+  hoppingArraysHz: Float64Array[] | null;
+  /** per-site U (Hz) when envelopeVariesHubbard is set, else null */
+  interactionArrayHz: Float64Array | null;
 }
 
 function perAxis(v: number | number[] | undefined, n: number, fallback: number): number[] {
@@ -91,7 +97,20 @@ export function resolveLaboratory(scenario: Scenario): LaboratoryParameters {
   // Harmonic potentials add: omega^2 = omega_trap^2 + omega_envelope^2 per axis.
   const totalHz = trapHz.map((f, d) => Math.sqrt(f * f + envelopeHz[d] * envelopeHz[d]));
   const trapCoefficientHz = Array.from(trapCurvatureHzPerSite2(massKg, totalHz, Array(dims).fill(spacing)));
+  let hoppingArraysHz: Float64Array[] | null = null;
+  let interactionArrayHz: Float64Array | null = null;
+  if (lab.envelopeVariesHubbard && lab.beamWaistUm !== undefined) {
+    const waists = perAxis(lab.beamWaistUm, dims, NaN);
+    const centre = scenario.trap?.centreSites ?? scenario.lattice.shape.map((n) => (n - 1) / 2);
+    try {
+      ({ hoppingArraysHz, interactionArrayHz } = envelopeHubbardArrays(scenario.lattice.shape, centre, spacing, depths, waists, axes.map((a) => a.recoilHz), hubbard.interactionHz));
+    } catch (err) {
+      asInputError(err, 'laboratory.envelopeVariesHubbard');
+    }
+  }
   return {
+    hoppingArraysHz,
+    interactionArrayHz,
     hoppingHz,
     interactionHz: hubbard.interactionHz,
     latticeSpacingUm: spacing,
@@ -104,4 +123,68 @@ export function resolveLaboratory(scenario: Scenario): LaboratoryParameters {
     hubbard,
     warnings: hubbard.warnings,
   };
+}
+
+/**
+ * J and U site by site under the Gaussian envelopes of the lattice beams: beam d (along
+ * lattice axis d) has the local depth s_d exp(-2 r_perp^2 / w_d^2), r_perp the distance from
+ * its axis (the other coordinates; beams centred on the trap centre, a layer at z = 0).
+ * Both ends of a bond along d have the same r_perp, so J_d of a bond is J(s_d(r)) at either
+ * end; U scales with prod_d int|w_d|^4 at the local depths (the factor from the axes
+ * without lattice is unchanged). The site energy keeps the harmonic envelope term added to
+ * the trap. J(s) and int|w|^4(s) come from Chebyshev interpolation of the exact 1D band
+ * calculation (depthInterpolation.ts).
+ */
+function envelopeHubbardArrays(
+  shape: readonly number[],
+  centre: readonly number[],
+  spacingUm: number,
+  depthEr: readonly number[],
+  waistUm: readonly number[],
+  recoilHz: readonly number[],
+  interactionCentreHz: number,
+): { hoppingArraysHz: Float64Array[]; interactionArrayHz: Float64Array } {
+  const dims = shape.length;
+  const n = shape.reduce((a, b) => a * b, 1);
+  const position = new Float64Array(3);
+  const local = new Float64Array(dims);
+  const depths = new Float64Array(n * dims);
+  const minDepth = Array(dims).fill(Infinity);
+  const coords = [0, 0, 0];
+  for (let i = 0; i < n; i++) {
+    let r = i;
+    for (let d = dims - 1; d >= 0; d--) {
+      coords[d] = r % shape[d];
+      r = (r - coords[d]) / shape[d];
+    }
+    for (let d = 0; d < 3; d++) position[d] = d < dims ? (coords[d] - centre[d]) * spacingUm : 0;
+    localDepthEr(depthEr, waistUm, position, local);
+    for (let d = 0; d < dims; d++) {
+      depths[i * dims + d] = local[d];
+      if (local[d] < minDepth[d]) minDepth[d] = local[d];
+    }
+  }
+  const hoppingArraysHz: Float64Array[] = [];
+  const w4Ratio = new Float64Array(n).fill(1);
+  for (let d = 0; d < dims; d++) {
+    if (minDepth[d] < minAxisDepthEr) {
+      throw new InputError(
+        `laboratory.envelopeVariesHubbard: at the lattice edge the depth along axis ${d} falls to ${minDepth[d].toFixed(3)} E_r, ` +
+          `below ${minAxisDepthEr} E_r where the single-band model fails; use wider beams or a smaller lattice`,
+      );
+    }
+    const top = depthEr[d];
+    const interp = latticeAxisInterpolator(Math.min(minDepth[d], top * (1 - 1e-9)), top);
+    const w4Centre = interp.integralW4PerSite(top);
+    const hop = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      const s = depths[i * dims + d];
+      hop[i] = interp.tunnellingEr(s) * recoilHz[d];
+      w4Ratio[i] *= interp.integralW4PerSite(s) / w4Centre;
+    }
+    hoppingArraysHz.push(hop);
+  }
+  const interactionArrayHz = new Float64Array(n);
+  for (let i = 0; i < n; i++) interactionArrayHz[i] = interactionCentreHz * w4Ratio[i];
+  return { hoppingArraysHz, interactionArrayHz };
 }

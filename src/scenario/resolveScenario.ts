@@ -73,7 +73,7 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
   }
 
   let units: EnergyUnits;
-  let hopping: number[];
+  let hopping: Array<number | Float64Array>;
   let interactionU: number | Float64Array;
   let trapCoefficient: number[];
   let latticeSpacingUm: number | null = null;
@@ -88,15 +88,16 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
       interactionU = scenario.hubbard.interaction as number;
       units = { internal: 'J', hopping: rel[0], interaction: interactionU, hertz: null, nanokelvin: null };
     } else {
-      hopping = perAxisValues(scenario.hubbard.hopping, dims, NaN);
+      const perAxisHopping = perAxisValues(scenario.hubbard.hopping, dims, NaN);
+      hopping = perAxisHopping;
       interactionU = 1;
-      units = { internal: 'U', hopping: hopping[0], interaction: 1, hertz: null, nanokelvin: null };
+      units = { internal: 'U', hopping: perAxisHopping[0], interaction: 1, hertz: null, nanokelvin: null };
     }
     trapCoefficient = perAxisValues(scenario.trap?.coefficient, dims, 0);
   } else {
     laboratory = resolveLaboratory(scenario);
-    hopping = laboratory.hoppingHz;
-    interactionU = laboratory.interactionHz;
+    hopping = laboratory.hoppingArraysHz ?? laboratory.hoppingHz;
+    interactionU = laboratory.interactionArrayHz ?? laboratory.interactionHz;
     latticeSpacingUm = laboratory.latticeSpacingUm;
     units = {
       internal: 'Hz',

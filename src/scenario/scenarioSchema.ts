@@ -59,6 +59,10 @@ export const LaboratorySchema = z
     beamWaistUm: perAxis(positive())
       .optional()
       .describe('1/e^2 waist of each red-detuned lattice beam, µm: adds the harmonic confinement of the beam envelope to the trap'),
+    envelopeVariesHubbard: z
+      .boolean()
+      .default(false)
+      .describe('with beamWaistUm: let J and U follow the local lattice depth across the cloud (site by site) instead of their values at the centre'),
   })
   .describe('laboratory description: tiercake computes J and U from Wannier functions (use this or hubbard)');
 
@@ -252,6 +256,9 @@ export const ScenarioSchema = z
       if (d.beamAxis !== 'z' && dims < 3) issue(['disorder', 'beamAxis'], 'only 3D lattices can contain the beam axis; 1D and 2D lattices lie across the beam');
     }
     if (s.laboratory?.beamWaistUm !== undefined) perAxisLength(s.laboratory.beamWaistUm, ['laboratory', 'beamWaistUm']);
+    if (s.laboratory?.envelopeVariesHubbard && s.laboratory.beamWaistUm === undefined) {
+      issue(['laboratory', 'envelopeVariesHubbard'], 'needs laboratory.beamWaistUm (the waists set how the depth falls off)');
+    }
     perAxisLength(s.trap?.coefficient, ['trap', 'coefficient']);
     perAxisLength(s.trap?.frequencyHz, ['trap', 'frequencyHz']);
     if (s.trap?.centreSites && s.trap.centreSites.length !== dims) {
