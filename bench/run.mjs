@@ -170,4 +170,12 @@ async function wholeSolve(model, atoms, thermal, threads) {
   log('diagram', '200 x 200 homogeneous phase map, kT = 0.05 U', (now() - t2) / 1000, 's');
 }
 
+// 6. Disorder ensemble ----------------------------------------------------------------
+{
+  const { runEnsembleBench } = await import('./ensembleBench.mjs');
+  const r = await runEnsembleBench({ realisations: 16 });
+  log('ensemble', '64x64 speckle layer, 1 thread', r.oneThread.realisationsPerMinute, 'real./min');
+  log('ensemble', '64x64 speckle layer, 2 threads (realisations side by side)', r.twoThreads.realisationsPerMinute, 'real./min', `x${r.speedUp.toFixed(2)}${r.identical ? '' : ' NOT IDENTICAL'}`);
+}
+
 await pool.destroy();

@@ -11,6 +11,8 @@ import { registerDiagram } from './diagramCommand.js';
 import { registerHubbard } from './hubbardCli.js';
 import { registerCompare } from './compareCommand.js';
 import { registerKeys } from './keysCommand.js';
+import { registerEnsemble } from './ensembleCommand.js';
+import { registerMerge } from './mergeCommand.js';
 import { toolVersion } from './version.js';
 
 /** Commands set this when they finish with a non-zero status without throwing. */
@@ -32,6 +34,8 @@ export function buildProgram(context: CommandContext): Command {
   registerHubbard(program, context);
   registerCompare(program, context);
   registerKeys(program, context);
+  registerEnsemble(program, context);
+  registerMerge(program, context);
   return program;
 }
 

@@ -1,0 +1,109 @@
+// Parsing of the `ensemble` options that need more than a number: which shard this
+// process is, and how threads are used. Pure (the environment is passed in), so it is
+// tested on plain strings.
+//
+// Shards count from 0. `--shard k/K` names the shard directly. `--shard-from-env [VAR]`
+// takes k from the environment variable VAR (default SLURM_ARRAY_TASK_ID, which a SLURM
+// job array started with `#SBATCH --array=0-(K-1)` sets in each task) and K from
+// `--shards K`, which is required with it.
+
+import { InputError } from './inputError.js';
+import type { ParallelMode } from '../ensemble/runEnsemble.js';
+
+export const DEFAULT_SHARD_VARIABLE = 'SLURM_ARRAY_TASK_ID';
+export const DEFAULT_BLOCK_SIZE = 4;
+
+export interface ShardChoice {
+  index: number;
+  count: number;
+  /** where the index came from, for messages */
+  source: string;
+}
+
+export function parseWholeNumber(text: string | undefined, option: string, min: number, max: number, fallback?: number): number {
+  if (text === undefined) {
+    if (fallback !== undefined) return fallback;
+    throw new InputError(`${option}: required; give a whole number from ${min} to ${max}`);
+  }
+  const trimmed = text.trim();
+  const n = /^\d+$/.test(trimmed) ? Number(trimmed) : NaN;
+  if (!Number.isSafeInteger(n) || n < min || n > max) throw new InputError(`${option}: expected a whole number from ${min} to ${max}, got ${JSON.stringify(text)}`);
+  return n;
+}
+
+export function parseShardOption(text: string): ShardChoice {
+  const m = /^\s*(\d+)\s*\/\s*(\d+)\s*$/.exec(text);
+  if (!m) throw new InputError(`--shard: expected k/K (shard k of K, k counted from 0), e.g. --shard 0/4; got ${JSON.stringify(text)}`);
+  const index = Number(m[1]);
+  const count = Number(m[2]);
+  if (count < 1 || !Number.isSafeInteger(count)) throw new InputError(`--shard: the shard count K must be at least 1, got ${m[2]}`);
+  if (index >= count) {
+    throw new InputError(`--shard ${text.trim()}: shards count from 0, so with K = ${count} give k from 0 to ${count - 1}`);
+  }
+  return { index, count, source: '--shard' };
+}
+
+/**
+ * The shard of this process, or null for a complete run.
+ * @param shard value of --shard
+ * @param fromEnv value of --shard-from-env: true when given without a name
+ * @param shards value of --shards
+ */
+export function resolveShard(
+  shard: string | undefined,
+  fromEnv: string | boolean | undefined,
+  shards: string | undefined,
+  env: Readonly<Record<string, string | undefined>>,
+): ShardChoice | null {
+  if (shard !== undefined && fromEnv !== undefined && fromEnv !== false) {
+    throw new InputError('--shard and --shard-from-env: give one of them (the shard index either on the command line or from the environment)');
+  }
+  if (shard !== undefined) {
+    if (shards !== undefined) throw new InputError('--shards: goes with --shard-from-env; with --shard write the count after the slash, e.g. --shard 2/8');
+    return parseShardOption(shard);
+  }
+  if (fromEnv === undefined || fromEnv === false) {
+    if (shards !== undefined) throw new InputError('--shards: goes with --shard-from-env; add --shard-from-env (or use --shard k/K)');
+    return null;
+  }
+  const variable = fromEnv === true ? DEFAULT_SHARD_VARIABLE : fromEnv;
+  if (!/^[A-Za-z_][A-Za-z0-9_]*$/.test(variable)) {
+    throw new InputError(
+      `--shard-from-env: ${JSON.stringify(variable)} is not an environment variable name; ` +
+        'put --shard-from-env after the scenario file, or give the name explicitly, e.g. --shard-from-env SLURM_ARRAY_TASK_ID',
+    );
+  }
+  if (shards === undefined) throw new InputError(`--shards: required with --shard-from-env; give the number of shards K (the array size, 0..K-1)`);
+  const count = parseWholeNumber(shards, '--shards', 1, 1_000_000);
+  const value = env[variable];
+  if (value === undefined || value.trim() === '') {
+    throw new InputError(
+      `--shard-from-env: the environment variable ${variable} is not set; run inside a job array ` +
+        `(e.g. #SBATCH --array=0-${count - 1}) or use --shard k/${count}`,
+    );
+  }
+  const trimmed = value.trim();
+  const index = /^\d+$/.test(trimmed) ? Number(trimmed) : NaN;
+  if (!Number.isSafeInteger(index)) throw new InputError(`--shard-from-env: ${variable} = ${JSON.stringify(value)} is not a whole number`);
+  if (index >= count) {
+    throw new InputError(
+      `--shard-from-env: ${variable} = ${index}, but shards count from 0 to ${count - 1} with --shards ${count}; ` +
+        `number the array from 0 (#SBATCH --array=0-${count - 1})`,
+    );
+  }
+  return { index, count, source: variable };
+}
+
+export type ParallelChoice = 'auto' | ParallelMode;
+
+export function parseParallelOver(text: string | undefined): ParallelChoice {
+  const v = (text ?? 'auto').trim();
+  if (v === 'auto' || v === 'realisations' || v === 'lattice') return v;
+  throw new InputError(`--parallel-over: expected auto, realisations or lattice, got ${JSON.stringify(text)}`);
+}
+
+/** Folder name of shard k of K inside the collecting folder: shard-03-of-16. */
+export function shardFolderName(shard: { index: number; count: number }): string {
+  const width = String(shard.count - 1).length;
+  return `shard-${String(shard.index).padStart(width, '0')}-of-${shard.count}`;
+}
