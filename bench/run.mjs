@@ -73,7 +73,7 @@ function trapped(shape, J, coefficient, nmax = 6) {
 }
 const pool = createSweepPool({ workers: Math.max(1, Math.min(availableParallelism(), 2) - 1) });
 async function sweepRate(model, mu, temperature, threads, sweeps) {
-  const state = createSolverState(model, initialOrderParameter(model, mu));
+  const state = createSolverState(model, initialOrderParameter(model, mu), { thermal: temperature > 0 });
   const ex = createSweepExecutor(state, threads > 1 ? pool : null, threads);
   for (let k = 0; k < 6; k++) { await ex.sweep(0, mu, temperature); await ex.sweep(1, mu, temperature); }
   const t = now();

@@ -73,7 +73,8 @@ export async function runLattice(request: RunRequest, makeExecutor: ExecutorFact
   let sweepsUsed = 0;
   for (;;) {
     tried.push(model.nmax);
-    const state = createSolverState(model, phiStart);
+    const thermal = request.thermal.kind === 'entropy' || request.thermal.kT > 0;
+    const state = createSolverState(model, phiStart, { thermal });
     const executor = makeExecutor(state);
     const stageObserver = (stage: RunProgress['stage'], temperature: number) => (p: SolveProgress) =>
       request.observer?.({ ...p, stage, nmax: model.nmax, temperature, totalSweeps: sweepsUsed + p.totalSweeps });

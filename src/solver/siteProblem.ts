@@ -56,6 +56,8 @@ export interface SiteWorkspace {
    * sweep kernel passes them through this array instead.
    */
   readonly args: Float64Array;
+  /** thermal path: <j|b|j> for each eigenvalue j (same order as eigenvalues) */
+  readonly couplings: Float64Array;
 }
 
 export function createSiteWorkspace(nmax: number): SiteWorkspace {
@@ -78,6 +80,7 @@ export function createSiteWorkspace(nmax: number): SiteWorkspace {
     populations: new Float64Array(states),
     result: new Float64Array(2),
     args: new Float64Array(8),
+    couplings: new Float64Array(states),
   };
 }
 
@@ -804,8 +807,19 @@ function thermalPhiByEigenvalues(ws: SiteWorkspace, interactionU: number, muLoca
     d[l] += f;
     e[l] = 0;
   }
-  let e0 = Infinity;
-  for (let k = 0; k < n; k++) if (d[k] < e0) e0 = d[k];
+  // Ascending order (insertion sort; n is small) so that callers can keep the spectrum.
+  for (let j = 1; j < n; j++) {
+    const v = d[j];
+    let k = j - 1;
+    while (k >= 0 && d[k] > v) {
+      d[k + 1] = d[k];
+      k--;
+    }
+    d[k + 1] = v;
+  }
+  const couplings = ws.couplings;
+  couplings.fill(0);
+  const e0 = d[0];
   const beta = 1 / temperature;
   let partition = 0;
   let phi = 0;
@@ -838,9 +852,171 @@ function thermalPhiByEigenvalues(ws: SiteWorkspace, interactionU: number, muLoca
     const w = Math.exp(-x);
     partition += w;
     // <j|b|j> = -(1/2) dlambda/dpsi = (1/2) (dp/dpsi)/(dp/dlambda)
-    phi += (w * 0.5 * sc) / lc;
+    const bj = (0.5 * sc) / lc;
+    couplings[j] = bj;
+    phi += w * bj;
   }
   return phi / partition;
+}
+
+export const ARG_DPSI = 3;
+export const ARG_TEMPERATURE = 4;
+
+/**
+ * Thermal order parameter from a stored spectrum of the same site (the sweeps' warm path).
+ * Arguments in ws.args: [U, muLocal, psi, psi - psiPrev, kT]; spectrum[offset + j] and
+ * couplings[offset + j] hold lambda_j and <j|b|j> at psiPrev. Each eigenvalue is predicted
+ * to first order (Hellmann-Feynman, d lambda_j/d psi = -2 <j|b|j>) and refined by
+ * Laguerre's method on the characteristic polynomial; states more than 45 kT above the
+ * ground state are not refined (weight < 3e-20). The refined spectrum must stay ordered
+ * and each eigenvalue close to its own prediction, otherwise false is returned and the
+ * caller uses the full QL path. On success phi is in ws.result[0] and the stored spectrum
+ * is updated.
+ */
+export function thermalFromSpectrum(ws: SiteWorkspace, spectrum: Float64Array, couplings: Float64Array, offset: number): boolean {
+  const args = ws.args;
+  const interactionU = args[ARG_U];
+  const muLocal = args[ARG_MU];
+  const psi = args[ARG_PSI];
+  const dPsi = args[ARG_DPSI];
+  const temperature = args[ARG_TEMPERATURE];
+  const n = ws.states;
+  if (!(spectrum[offset] === spectrum[offset]) || n > POLYNOMIAL_PATH_MAX_STATES) return false;
+  const diag = ws.diag;
+  const offSq = ws.offSq;
+  const lambdas = ws.eigenvalues;
+  const bs = ws.couplings;
+  const predicted = ws.populations; // scratch
+  const psiSq = psi * psi;
+  let a = 0;
+  let scale = Math.abs(interactionU) + Math.abs(muLocal) + Math.abs(psi);
+  for (let k = 0; k < n; k++) {
+    diag[k] = a;
+    offSq[k] = psiSq * (k + 1);
+    a += interactionU * k - muLocal;
+    if (Math.abs(diag[k]) > scale) scale = Math.abs(diag[k]);
+  }
+  for (let j = 0; j < n; j++) predicted[j] = spectrum[offset + j] - 2 * couplings[offset + j] * dPsi;
+  const beta = 1 / temperature;
+  const small = 1e-6 * scale;
+  const e0Predicted = predicted[0];
+  let partition = 0;
+  let phi = 0;
+  let e0 = 0;
+  for (let j = 0; j < n; j++) {
+    if ((predicted[j] - e0Predicted) * beta > 45) {
+      lambdas[j] = predicted[j];
+      bs[j] = couplings[offset + j];
+      continue;
+    }
+    let lambda = predicted[j];
+    let converged = false;
+    for (let iter = 0; iter < 8; iter++) {
+      let pPrev = 1;
+      let dPrev = 0;
+      let ddPrev = 0;
+      let p = diag[0] - lambda;
+      let d = -1;
+      let dd = 0;
+      for (let k = 1; k < n; k++) {
+        const shifted = diag[k] - lambda;
+        const e2 = offSq[k - 1];
+        const pNew = shifted * p - e2 * pPrev;
+        const dNew = shifted * d - p - e2 * dPrev;
+        const ddNew = shifted * dd - 2 * d - e2 * ddPrev;
+        pPrev = p;
+        dPrev = d;
+        ddPrev = dd;
+        p = pNew;
+        d = dNew;
+        dd = ddNew;
+      }
+      if (p === 0) {
+        converged = true;
+        break;
+      }
+      const invP = 1 / p;
+      const g = d * invP;
+      const h = g * g - dd * invP;
+      const disc = (n - 1) * (n * h - g * g);
+      const root = Math.sqrt(disc > 0 ? disc : 0);
+      const step = -n / (g < 0 ? g - root : g + root);
+      lambda += step;
+      if (Math.abs(step) <= small) {
+        converged = true;
+        break;
+      }
+    }
+    if (!converged) return false;
+    // Each eigenvalue must stay nearest to its own prediction (no two converged to one root).
+    const below = j > 0 ? predicted[j] - predicted[j - 1] : Infinity;
+    const above = j < n - 1 ? predicted[j + 1] - predicted[j] : Infinity;
+    const reach = 0.3 * Math.min(below, above);
+    if (!(Math.abs(lambda - predicted[j]) < reach) || !(Math.min(below, above) > 1e-7 * scale)) return false;
+    // <j|b|j> by Hellmann-Feynman on the polynomial (see thermalPhiByEigenvalues).
+    let pPrev = 1;
+    let lPrev = 0;
+    let sPrev = 0;
+    let pc = diag[0] - lambda;
+    let lc = -1;
+    let sc = 0;
+    for (let k = 1; k < n; k++) {
+      const shifted = diag[k] - lambda;
+      const e2 = offSq[k - 1];
+      const pNew = shifted * pc - e2 * pPrev;
+      const lNew = shifted * lc - pc - e2 * lPrev;
+      const sNew = shifted * sc - 2 * psi * k * pPrev - e2 * sPrev;
+      pPrev = pc;
+      lPrev = lc;
+      sPrev = sc;
+      pc = pNew;
+      lc = lNew;
+      sc = sNew;
+    }
+    const bj = (0.5 * sc) / lc;
+    lambdas[j] = lambda;
+    bs[j] = bj;
+    if (j === 0) e0 = lambda;
+    const w = Math.exp(-(lambda - e0) * beta);
+    partition += w;
+    phi += w * bj;
+  }
+  for (let j = 0; j < n; j++) {
+    spectrum[offset + j] = lambdas[j];
+    couplings[offset + j] = bs[j];
+  }
+  ws.result[0] = phi / partition;
+  return true;
+}
+
+/**
+ * Thermal phi for a sweep with a per-site spectrum store: the warm path when possible,
+ * otherwise the full QL path, whose spectrum is then stored. Arguments as for
+ * thermalFromSpectrum; phi in ws.result[0].
+ */
+export function thermalSweepUpdate(ws: SiteWorkspace, spectrum: Float64Array, couplings: Float64Array, offset: number): void {
+  if (thermalFromSpectrum(ws, spectrum, couplings, offset)) return;
+  const args = ws.args;
+  const n = ws.states;
+  const psi = args[ARG_PSI];
+  let phi: number;
+  if (psi !== 0 && n <= POLYNOMIAL_PATH_MAX_STATES) {
+    phi = thermalPhiByEigenvalues(ws, args[ARG_U], args[ARG_MU], psi, args[ARG_TEMPERATURE]);
+  } else {
+    phi = NaN;
+  }
+  if (!(phi === phi)) {
+    // Degenerate or large Fock space: full eigendecomposition; couplings from eigenvectors.
+    phi = solveSiteThermal(ws, args[ARG_U], args[ARG_MU], psi, args[ARG_TEMPERATURE], null);
+    spectrum[offset] = NaN; // no reliable warm start next time
+    ws.result[0] = phi;
+    return;
+  }
+  for (let j = 0; j < n; j++) {
+    spectrum[offset + j] = ws.eigenvalues[j];
+    couplings[offset + j] = ws.couplings[j];
+  }
+  ws.result[0] = phi;
 }
 
 /**

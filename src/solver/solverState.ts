@@ -27,6 +27,9 @@ export interface SolverLayout {
     entropy: SharedArrayBuffer;
     psi: SharedArrayBuffer;
     grandPotential: SharedArrayBuffer;
+    /** T > 0 only: per-site spectrum (nmax + 1 eigenvalues) and <j|b|j>, for warm starts */
+    spectrum: SharedArrayBuffer | null;
+    couplings: SharedArrayBuffer | null;
   };
 }
 
@@ -50,8 +53,11 @@ export function solverBytesPerSite(model: Pick<LatticeModel, 'interactionU' | 'h
   return arrays * 8;
 }
 
-/** Allocate the shared state for a model; phi starts at `initialPhi` (never all zero). */
-export function createSolverState(model: LatticeModel, initialPhi: Float64Array): SolverState {
+/**
+ * Allocate the shared state for a model; phi starts at `initialPhi` (never all zero).
+ * `thermal` adds the per-site spectrum store used by the T > 0 sweeps.
+ */
+export function createSolverState(model: LatticeModel, initialPhi: Float64Array, options: { thermal?: boolean } = {}): SolverState {
   const g = model.geometry;
   const n = g.siteCount;
   const pad = 3 - g.dims;
@@ -85,6 +91,8 @@ export function createSolverState(model: LatticeModel, initialPhi: Float64Array)
       entropy: new SharedArrayBuffer(n * 8),
       psi: new SharedArrayBuffer(n * 8),
       grandPotential: new SharedArrayBuffer(n * 8),
+      spectrum: options.thermal ? sharedCopy(new Float64Array(n * (model.nmax + 1)).fill(NaN)) : null,
+      couplings: options.thermal ? new SharedArrayBuffer(n * (model.nmax + 1) * 8) : null,
     },
   };
   return viewsOf(layout);
@@ -107,6 +115,8 @@ export function viewsOf(layout: SolverLayout): SolverState {
     delta: f64(b.delta),
     lowerEnergy: f64(b.lowerEnergy),
     psiPrev: f64(b.psiPrev),
+    spectrum: b.spectrum ? f64(b.spectrum) : null,
+    couplings: b.couplings ? f64(b.couplings) : null,
   };
   const measure: MeasureFields = {
     density: f64(b.density),

@@ -12,7 +12,9 @@
 import {
   couplingNormBound,
   ARG_BOUND,
+  ARG_DPSI,
   ARG_ESTIMATE,
+  ARG_TEMPERATURE,
   ARG_MU,
   ARG_PSI,
   ARG_U,
@@ -20,6 +22,7 @@ import {
   groundFromArgs,
   solveSiteGround,
   solveSiteThermal,
+  thermalSweepUpdate,
   type SiteObservables,
   type SiteWorkspace,
 } from './siteProblem.js';
@@ -44,8 +47,12 @@ export interface KernelFields {
   delta: Float64Array;
   /** last ground energy of each site problem, or a lower bound to it (T = 0 warm start); NaN if none */
   lowerEnergy: Float64Array;
-  /** psi_i at which lowerEnergy was computed */
+  /** psi_i at which lowerEnergy (T = 0) or the stored spectrum (T > 0) was computed */
   psiPrev: Float64Array;
+  /** T > 0: per-site eigenvalues (nmax + 1 per site) at psiPrev, or null */
+  spectrum: Float64Array | null;
+  /** T > 0: per-site <j|b|j> matching spectrum, or null */
+  couplings: Float64Array | null;
 }
 
 /** Per-site observables written by the measuring pass. */
@@ -125,6 +132,9 @@ export function sweepColour(
   const psiPrev = f.psiPrev;
   const result = ws.result;
   const args = ws.args;
+  const spectrum = f.spectrum;
+  const couplings = f.couplings;
+  const states = f.nmax + 1;
   const coupling = couplingNormBound(f.nmax);
   const thermal = temperature > 0;
   const h0 = f.hopArrays[0];
@@ -178,7 +188,18 @@ export function sweepColour(
       const u = uArr === null ? uUni : uArr[i];
       let phiNew: number;
       if (thermal) {
-        phiNew = solveSiteThermal(ws, u, mu - eps[i], psi, temperature, null);
+        if (spectrum !== null && couplings !== null) {
+          args[ARG_U] = u;
+          args[ARG_MU] = mu - eps[i];
+          args[ARG_PSI] = psi;
+          args[ARG_DPSI] = psi - psiPrev[i];
+          args[ARG_TEMPERATURE] = temperature;
+          thermalSweepUpdate(ws, spectrum, couplings, i * states);
+          phiNew = result[0];
+          psiPrev[i] = psi;
+        } else {
+          phiNew = solveSiteThermal(ws, u, mu - eps[i], psi, temperature, null);
+        }
       } else {
         // Weyl: lambda(psi) >= lambda(psiPrev) - |psi - psiPrev| ||b + b^+|| is a safe start;
         // Hellmann-Feynman, d lambda/d psi = -2 phi, gives a much closer estimate.
