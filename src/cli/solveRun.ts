@@ -62,7 +62,9 @@ export function parseThreads(text: string | undefined): number {
 export function prepareScenario(path: string, overrides: readonly string[]): { scenario: Scenario; raw: Record<string, unknown>; resolved: ResolvedScenario } {
   const { scenario, raw } = loadScenario(path, overrides);
   const sites = scenario.lattice.shape.reduce((a, b) => a * b, 1);
-  const bytes = estimateMemoryBytes(sites, true);
+  const t = scenario.temperature;
+  const thermal = (t.kT ?? 0) > 0 || (t.nanokelvin ?? 0) > 0 || (t.entropyPerAtom ?? 0) > 0;
+  const bytes = estimateMemoryBytes(sites, true, thermal, scenario.truncation.nmax);
   const limit = 0.6 * totalmem();
   if (bytes > limit) {
     throw new InputError(

@@ -53,10 +53,11 @@ function perAxisValues(v: number | number[] | undefined, dims: number, fallback:
 }
 
 /** Bytes the solver and the outputs need for this many sites (estimate before allocating). */
-export function estimateMemoryBytes(siteCount: number, uniform: boolean): number {
+export function estimateMemoryBytes(siteCount: number, uniform: boolean, thermal = false, nmax = 6): number {
   const solverArrays = uniform ? 12 : 16;
   const outputCopies = 14; // derived fields, compressibility solves, images, npy encoding
-  return siteCount * 8 * (solverArrays + outputCopies);
+  const spectrumStore = thermal ? 2 * (nmax + 1) : 0; // per-site eigenvalues and <j|b|j> at T > 0
+  return siteCount * 8 * (solverArrays + outputCopies + spectrumStore);
 }
 
 export function resolveScenario(scenario: Scenario): ResolvedScenario {
