@@ -10,15 +10,14 @@ import type { Scenario } from '../scenario/scenarioSchema.js';
 import { runLattice, type RunOutcome, type RunProgress } from '../solver/runLattice.js';
 import { createSweepExecutor, createSweepPool, type SweepPool } from '../solver/sweepExecutor.js';
 import { siteFieldsOf, type SiteFields } from '../observables/siteFields.js';
-import { classifySites, type SiteClassification } from '../observables/siteClassification.js';
+import type { SiteClassification } from '../observables/siteClassification.js';
+import { classifyOutcome, NMAX_CEILING, runRequestOf } from '../scenario/runRequest.js';
 import { scaledRadii, shellSummary, type ShellSummary } from '../observables/shellSummary.js';
 import { radialProfile, type RadialProfile } from '../observables/radialProfile.js';
 
 /** Below this many sites the worker round trips cost more than they save. */
 export const PARALLEL_MIN_SITES = 8192;
 
-/** Highest nmax the automatic truncation guard raises to (unless the scenario starts higher). */
-export const NMAX_CEILING = 40;
 
 export interface SolveRunOptions {
   scenarioPath: string;
@@ -137,24 +136,13 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
   }
   let outcome: RunOutcome;
   try {
-    const nmaxStart = scenario.truncation.nmax;
     outcome = await runLattice(
       {
+        ...runRequestOf(resolved, options.observer),
         model,
         chemical,
-        thermal: resolved.thermal,
-        tolerance: scenario.solver.tolerance,
-        maxSweeps: scenario.solver.maxSweeps,
-        accelerate: scenario.solver.accelerate,
-        truncation: {
-          automatic: scenario.truncation.automatic,
-          topWeightMax: scenario.truncation.topWeightMax,
-          nmaxLimit: Math.max(nmaxStart, NMAX_CEILING),
-        },
-        compressibility: scenario.solver.compressibility,
         ...(options.initialPhi ? { initialPhi: options.initialPhi } : {}),
         ...(options.resume ? { initialPhi: options.resume.phi } : {}),
-        ...(options.observer ? { observer: options.observer } : {}),
       },
       (state) => createSweepExecutor(state, pool, threads),
     );
@@ -164,20 +152,7 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
   const t2 = performance.now();
   const fields = siteFieldsOf(outcome.state, outcome.compressibility);
   const geometry = model.geometry;
-  const u = resolved.units.interaction;
-  const disordered = resolved.disorder !== null;
-  const classification = classifySites({
-    shape: geometry.shape,
-    periodic: geometry.periodic,
-    density: fields.density,
-    condensateDensity: fields.condensateDensity,
-    compressibility: fields.compressibility,
-    entropy: fields.entropy,
-    energyScale: u,
-    finiteTemperature: outcome.temperature > 0,
-    disordered,
-    thresholds: scenario.phases,
-  });
+  const classification = classifyOutcome(resolved, outcome, fields);
   const axisScale = trapAxisScale(resolved.trapCoefficient);
   const radius = scaledRadii(geometry.shape, resolved.trapCentre, axisScale);
   const shells = shellSummary(fields.density, fields.condensateDensity, classification.codes, classification.mottFilling, radius);

@@ -8,10 +8,11 @@
 import { validateScenario } from '../scenario/loadScenario.js';
 import { resolveScenario, type EnergyUnits, type ResolvedScenario } from '../scenario/resolveScenario.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
-import { runLattice, type ExecutorFactory, type RunProgress, type RunRequest } from '../solver/runLattice.js';
+import { runLattice, type ExecutorFactory, type RunProgress } from '../solver/runLattice.js';
+import { classifyOutcome, runRequestOf } from '../scenario/runRequest.js';
 import { createSweepExecutor } from '../solver/sweepExecutor.js';
 import { siteFieldsOf } from '../observables/siteFields.js';
-import { classifySites, defaultPhaseThresholds, type PhaseThresholds } from '../observables/siteClassification.js';
+import { defaultPhaseThresholds, type PhaseThresholds } from '../observables/siteClassification.js';
 import { phaseNames } from '../observables/phaseCodes.js';
 import { withRealisationSeed, realisationSeed } from './realisationSeed.js';
 
@@ -76,26 +77,6 @@ export function realisationScenario(raw: Readonly<Record<string, unknown>>, base
   return validateScenario(withRealisationSeed(raw, baseSeed, index), `realisation ${index} (seed ${JSON.stringify(realisationSeed(baseSeed, index))})`);
 }
 
-/** The lattice-run request of a resolved scenario, as `tiercake solve` builds it. */
-export function runRequestOf(resolved: ResolvedScenario, observer?: (p: RunProgress) => void | 'stop'): RunRequest {
-  const s = resolved.scenario;
-  return {
-    model: resolved.model,
-    chemical: resolved.chemical,
-    thermal: resolved.thermal,
-    tolerance: s.solver.tolerance,
-    maxSweeps: s.solver.maxSweeps,
-    accelerate: s.solver.accelerate,
-    truncation: {
-      automatic: s.truncation.automatic,
-      topWeightMax: s.truncation.topWeightMax,
-      nmaxLimit: Math.max(s.truncation.nmax, 40),
-    },
-    compressibility: s.solver.compressibility,
-    ...(observer ? { observer } : {}),
-  };
-}
-
 /** The serial executor: the whole lattice on the calling thread. */
 export const serialExecutor: ExecutorFactory = (state) => createSweepExecutor(state, null, 1);
 
@@ -115,17 +96,7 @@ export async function solveRealisation(
   const outcome = await runLattice(runRequestOf(resolved, observer), makeExecutor);
   const fields = siteFieldsOf(outcome.state, outcome.compressibility);
   const geometry = resolved.model.geometry;
-  const classification = classifySites({
-    shape: geometry.shape,
-    periodic: geometry.periodic,
-    density: fields.density,
-    condensateDensity: fields.condensateDensity,
-    compressibility: fields.compressibility,
-    energyScale: resolved.units.interaction,
-    finiteTemperature: outcome.temperature > 0,
-    disordered: resolved.disorder !== null,
-    thresholds: scenario.phases,
-  });
+  const classification = classifyOutcome(resolved, outcome, fields, false);
   const record: RealisationRecord = {
     index,
     converged: outcome.converged,

@@ -13,16 +13,11 @@
 // Every pair differs by CIE 1976 Delta E*ab > 13 (checked in the tests). Fillings above 6
 // share the darkest shade; the legend says so.
 
-/** Site phase codes written by the solver (one byte per site). */
-export const PhaseCode = {
-  empty: 0,
-  superfluid: 1,
-  mott: 2,
-  boseGlass: 3,
-  normalFluid: 4,
-} as const;
+import { PhaseCode as PhaseCodes, type PhaseCodeValue } from '../observables/phaseCodes.js';
 
-export type PhaseCode = (typeof PhaseCode)[keyof typeof PhaseCode];
+/** Site phase codes written by the solver (one byte per site); defined in observables/phaseCodes.ts. */
+export const PhaseCode = PhaseCodes;
+export type PhaseCode = PhaseCodeValue;
 
 import type { Rgb8 } from './raster.js';
 

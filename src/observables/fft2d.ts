@@ -4,17 +4,9 @@
 // Data are interleaved [re, im] in C order (x slowest): element (x, y) at 2 (x My + y).
 
 import FFT from 'fft.js';
+import { isPowerOfTwo, nextPowerOfTwo } from '../lattice/gridFft.js';
 
-export function isPowerOfTwo(n: number): boolean {
-  return Number.isInteger(n) && n >= 2 && (n & (n - 1)) === 0;
-}
-
-/** Smallest power of two >= n (and >= 2). */
-export function nextPowerOfTwo(n: number): number {
-  let m = 2;
-  while (m < n) m *= 2;
-  return m;
-}
+export { isPowerOfTwo, nextPowerOfTwo };
 
 /** Reusable plan for Mx x My transforms: allocates its scratch buffers once. */
 export class Fft2d {

@@ -545,6 +545,77 @@ export function groundObservables(ws: SiteWorkspace, phi: number, out: SiteObser
 }
 
 /**
+ * Implicit QL with Wilkinson shifts on a symmetric tridiagonal matrix: diagonal d[0..n-1],
+ * off-diagonal e[i] between i and i+1 (e[n-1] = 0). On return d holds the eigenvalues
+ * (unsorted). With z (n x n, identity on entry) the rotations are accumulated so that
+ * column j of z is eigenvector j (the tql2 procedure; without z, tql1): Bowdler, Martin,
+ * Reinsch & Wilkinson, Numer. Math. 11, 293 (1968). Returns false if an eigenvalue needed
+ * more than 60 iterations.
+ */
+function implicitQl(d: Float64Array, e: Float64Array, n: number, z: Float64Array | null): boolean {
+  const eps = 2.220446049250313e-16;
+  let f = 0;
+  let tst1 = 0;
+  for (let l = 0; l < n; l++) {
+    const t = Math.abs(d[l]) + Math.abs(e[l]);
+    if (t > tst1) tst1 = t;
+    let m = l;
+    while (m < n - 1 && Math.abs(e[m]) > eps * tst1) m++;
+    if (m > l) {
+      let iter = 0;
+      do {
+        if (++iter > 60) return false;
+        let g = d[l];
+        let p = (d[l + 1] - g) / (2 * e[l]);
+        let r = Math.sqrt(p * p + 1);
+        if (p < 0) r = -r;
+        d[l] = e[l] / (p + r);
+        d[l + 1] = e[l] * (p + r);
+        const dl1 = d[l + 1];
+        let h = g - d[l];
+        for (let i = l + 2; i < n; i++) d[i] -= h;
+        f += h;
+        p = d[m];
+        let c = 1;
+        let c2 = c;
+        let c3 = c;
+        const el1 = e[l + 1];
+        let sn = 0;
+        let s2 = 0;
+        for (let i = m - 1; i >= l; i--) {
+          c3 = c2;
+          c2 = c;
+          s2 = sn;
+          g = c * e[i];
+          h = c * p;
+          r = Math.sqrt(p * p + e[i] * e[i]);
+          e[i + 1] = sn * r;
+          sn = e[i] / r;
+          c = p / r;
+          p = c * d[i] - sn * g;
+          d[i + 1] = h + sn * (c * g + sn * d[i]);
+          if (z !== null) {
+            // accumulate the rotation on rows k, columns i and i+1
+            for (let k = 0; k < n; k++) {
+              const zk = k * n;
+              h = z[zk + i + 1];
+              z[zk + i + 1] = sn * z[zk + i] + c * h;
+              z[zk + i] = c * z[zk + i] - sn * h;
+            }
+          }
+        }
+        p = (-sn * s2 * c3 * el1 * e[l]) / dl1;
+        e[l] = sn * p;
+        d[l] = c * p;
+      } while (Math.abs(e[l]) > eps * tst1);
+    }
+    d[l] += f;
+    e[l] = 0;
+  }
+  return true;
+}
+
+/**
  * Full spectrum of the site Hamiltonian by implicit QL with Wilkinson shifts (tql2).
  * Eigenvalues ascending in ws.eigenvalues, eigenvector k in row k of ws.eigenvectors.
  */
@@ -565,68 +636,7 @@ export function diagonalizeSite(ws: SiteWorkspace, interactionU: number, muLocal
     return;
   }
 
-  let f = 0;
-  let tst1 = 0;
-  const eps = 2.220446049250313e-16;
-  for (let l = 0; l < n; l++) {
-    const t = Math.abs(d[l]) + Math.abs(e[l]);
-    if (t > tst1) tst1 = t;
-    let m = l;
-    while (m < n) {
-      if (Math.abs(e[m]) <= eps * tst1) break;
-      m++;
-    }
-    if (m === n) m = n - 1;
-    if (m > l) {
-      let iter = 0;
-      do {
-        iter++;
-        if (iter > 60) break;
-        let g = d[l];
-        let p = (d[l + 1] - g) / (2 * e[l]);
-        let r = Math.sqrt(p * p + 1);
-        if (p < 0) r = -r;
-        d[l] = e[l] / (p + r);
-        d[l + 1] = e[l] * (p + r);
-        const dl1 = d[l + 1];
-        let h = g - d[l];
-        for (let i = l + 2; i < n; i++) d[i] -= h;
-        f += h;
-        p = d[m];
-        let c = 1;
-        let c2 = c;
-        let c3 = c;
-        const el1 = e[l + 1];
-        let s = 0;
-        let s2 = 0;
-        for (let i = m - 1; i >= l; i--) {
-          c3 = c2;
-          c2 = c;
-          s2 = s;
-          g = c * e[i];
-          h = c * p;
-          r = Math.sqrt(p * p + e[i] * e[i]);
-          e[i + 1] = s * r;
-          s = e[i] / r;
-          c = p / r;
-          p = c * d[i] - s * g;
-          d[i + 1] = h + s * (c * g + s * d[i]);
-          // accumulate the rotation on eigenvector components i and i+1
-          for (let k = 0; k < n; k++) {
-            const zk = k * n;
-            h = z[zk + i + 1];
-            z[zk + i + 1] = s * z[zk + i] + c * h;
-            z[zk + i] = c * z[zk + i] - s * h;
-          }
-        }
-        p = (-s * s2 * c3 * el1 * e[l]) / dl1;
-        e[l] = s * p;
-        d[l] = c * p;
-      } while (Math.abs(e[l]) > eps * tst1);
-    }
-    d[l] = d[l] + f;
-    e[l] = 0;
-  }
+  implicitQl(d, e, n, z);
   // tql2 stores eigenvector j as column j (z[k*n + j] = component k). Transpose so that
   // row j holds eigenvector j, then sort.
   for (let a = 0; a < n; a++) {
@@ -755,58 +765,7 @@ function thermalPhiByEigenvalues(ws: SiteWorkspace, interactionU: number, muLoca
     a += interactionU * k - muLocal;
     if (Math.abs(diag[k]) > scale) scale = Math.abs(diag[k]);
   }
-  // Implicit QL with Wilkinson shifts, eigenvalues only (the tql1 procedure of Bowdler,
-  // Martin, Reinsch & Wilkinson, Numer. Math. 11, 293 (1968)).
-  const eps = 2.220446049250313e-16;
-  let f = 0;
-  let tst1 = 0;
-  for (let l = 0; l < n; l++) {
-    const t = Math.abs(d[l]) + Math.abs(e[l]);
-    if (t > tst1) tst1 = t;
-    let m = l;
-    while (m < n - 1 && Math.abs(e[m]) > eps * tst1) m++;
-    if (m > l) {
-      let iter = 0;
-      do {
-        if (++iter > 60) return NaN;
-        let g = d[l];
-        let p = (d[l + 1] - g) / (2 * e[l]);
-        let r = Math.sqrt(p * p + 1);
-        if (p < 0) r = -r;
-        d[l] = e[l] / (p + r);
-        d[l + 1] = e[l] * (p + r);
-        const dl1 = d[l + 1];
-        let h = g - d[l];
-        for (let i = l + 2; i < n; i++) d[i] -= h;
-        f += h;
-        p = d[m];
-        let c = 1;
-        let c2 = c;
-        let c3 = c;
-        const el1 = e[l + 1];
-        let sn = 0;
-        let s2 = 0;
-        for (let i = m - 1; i >= l; i--) {
-          c3 = c2;
-          c2 = c;
-          s2 = sn;
-          g = c * e[i];
-          h = c * p;
-          r = Math.sqrt(p * p + e[i] * e[i]);
-          e[i + 1] = sn * r;
-          sn = e[i] / r;
-          c = p / r;
-          p = c * d[i] - sn * g;
-          d[i + 1] = h + sn * (c * g + sn * d[i]);
-        }
-        p = (-sn * s2 * c3 * el1 * e[l]) / dl1;
-        e[l] = sn * p;
-        d[l] = c * p;
-      } while (Math.abs(e[l]) > eps * tst1);
-    }
-    d[l] += f;
-    e[l] = 0;
-  }
+  if (!implicitQl(d, e, n, null)) return NaN;
   // Ascending order (insertion sort; n is small) so that callers can keep the spectrum.
   for (let j = 1; j < n; j++) {
     const v = d[j];
@@ -829,34 +788,45 @@ function thermalPhiByEigenvalues(ws: SiteWorkspace, interactionU: number, muLoca
     if (x > 39) continue; // weight below 1e-17
     // Guard: a close neighbour makes dp/dlambda tiny and the ratio inaccurate.
     for (let k = 0; k < n; k++) if (k !== j && Math.abs(d[k] - lambda) < 1e-7 * scale) return NaN;
-    // p, dp/dlambda and dp/dpsi by the recurrence p_k = (a_k - l) p_{k-1} - psi^2 k p_{k-2}.
-    let pPrev = 1;
-    let lPrev = 0;
-    let sPrev = 0;
-    let pc = diag[0] - lambda;
-    let lc = -1;
-    let sc = 0;
-    for (let k = 1; k < n; k++) {
-      const shifted = diag[k] - lambda;
-      const e2 = offSq[k - 1];
-      const pNew = shifted * pc - e2 * pPrev;
-      const lNew = shifted * lc - pc - e2 * lPrev;
-      const sNew = shifted * sc - 2 * psi * k * pPrev - e2 * sPrev;
-      pPrev = pc;
-      lPrev = lc;
-      sPrev = sc;
-      pc = pNew;
-      lc = lNew;
-      sc = sNew;
-    }
     const w = Math.exp(-x);
     partition += w;
-    // <j|b|j> = -(1/2) dlambda/dpsi = (1/2) (dp/dpsi)/(dp/dlambda)
-    const bj = (0.5 * sc) / lc;
+    const bj = couplingAt(ws, lambda, psi);
     couplings[j] = bj;
     phi += w * bj;
   }
   return phi / partition;
+}
+
+/**
+ * <j|b|j> of the eigenstate with eigenvalue lambda, by Hellmann-Feynman on the
+ * characteristic polynomial p(lambda, psi) of ws.diag / ws.offSq:
+ * <j|b|j> = -(1/2) d lambda/d psi = (1/2) (dp/dpsi)/(dp/dlambda), both derivatives by the
+ * recurrence p_k = (a_k - lambda) p_{k-1} - psi^2 k p_{k-2}.
+ */
+function couplingAt(ws: SiteWorkspace, lambda: number, psi: number): number {
+  const n = ws.states;
+  const diag = ws.diag;
+  const offSq = ws.offSq;
+  let pPrev = 1;
+  let lPrev = 0;
+  let sPrev = 0;
+  let pc = diag[0] - lambda;
+  let lc = -1;
+  let sc = 0;
+  for (let k = 1; k < n; k++) {
+    const shifted = diag[k] - lambda;
+    const e2 = offSq[k - 1];
+    const pNew = shifted * pc - e2 * pPrev;
+    const lNew = shifted * lc - pc - e2 * lPrev;
+    const sNew = shifted * sc - 2 * psi * k * pPrev - e2 * sPrev;
+    pPrev = pc;
+    lPrev = lc;
+    sPrev = sc;
+    pc = pNew;
+    lc = lNew;
+    sc = sNew;
+  }
+  return (0.5 * sc) / lc;
 }
 
 export const ARG_DPSI = 3;
@@ -953,27 +923,7 @@ export function thermalFromSpectrum(ws: SiteWorkspace, spectrum: Float64Array, c
     const above = j < n - 1 ? predicted[j + 1] - predicted[j] : Infinity;
     const reach = 0.3 * Math.min(below, above);
     if (!(Math.abs(lambda - predicted[j]) < reach) || !(Math.min(below, above) > 1e-7 * scale)) return false;
-    // <j|b|j> by Hellmann-Feynman on the polynomial (see thermalPhiByEigenvalues).
-    let pPrev = 1;
-    let lPrev = 0;
-    let sPrev = 0;
-    let pc = diag[0] - lambda;
-    let lc = -1;
-    let sc = 0;
-    for (let k = 1; k < n; k++) {
-      const shifted = diag[k] - lambda;
-      const e2 = offSq[k - 1];
-      const pNew = shifted * pc - e2 * pPrev;
-      const lNew = shifted * lc - pc - e2 * lPrev;
-      const sNew = shifted * sc - 2 * psi * k * pPrev - e2 * sPrev;
-      pPrev = pc;
-      lPrev = lc;
-      sPrev = sc;
-      pc = pNew;
-      lc = lNew;
-      sc = sNew;
-    }
-    const bj = (0.5 * sc) / lc;
+    const bj = couplingAt(ws, lambda, psi);
     lambdas[j] = lambda;
     bs[j] = bj;
     if (j === 0) e0 = lambda;

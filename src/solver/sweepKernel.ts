@@ -20,6 +20,7 @@ import {
   ARG_U,
   createSiteObservables,
   groundFromArgs,
+  groundObservables,
   solveSiteGround,
   solveSiteThermal,
   thermalSweepUpdate,
@@ -256,24 +257,7 @@ export function measureRows(
       if (temperature > 0) {
         solveSiteThermal(ws, u, mu - f.eps[i], psi, temperature, out);
       } else {
-        const phiSite = solveSiteGround(ws, u, mu - f.eps[i], psi, NaN);
-        out.phi = phiSite;
-        let density = 0;
-        let densitySq = 0;
-        let odd = 0;
-        const amp = ws.amplitudes;
-        for (let n = 0; n < ws.states; n++) {
-          const p = amp[n] * amp[n];
-          density += n * p;
-          densitySq += n * n * p;
-          if (n & 1) odd += p;
-        }
-        out.energy = ws.eigenvalues[0];
-        out.density = density;
-        out.densitySq = densitySq;
-        out.parityOdd = odd;
-        out.topWeight = amp[ws.states - 1] * amp[ws.states - 1];
-        out.entropy = 0;
+        groundObservables(ws, solveSiteGround(ws, u, mu - f.eps[i], psi, NaN), out);
       }
       m.density[i] = out.density;
       m.densitySq[i] = out.densitySq;
