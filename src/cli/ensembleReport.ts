@@ -4,19 +4,12 @@
 
 import type { KeyValueRow, ReportBlock, ReportDocument, StatusLine } from '../report/reportModel.js';
 import { cautionsFor } from '../report/cautions.js';
-import { phaseNames } from '../observables/phaseCodes.js';
+import { phaseNames, phaseTitles } from '../observables/phaseCodes.js';
 import type { EnsembleOutcome } from './ensembleOutputs.js';
 import { histogramForDisplay } from './ensembleOutputs.js';
 import type { WrittenImage } from './solveOutputs.js';
 import { toolVersion } from './version.js';
 
-const phaseTitles: Record<string, string> = {
-  empty: 'empty',
-  superfluid: 'superfluid',
-  mott: 'Mott insulator',
-  boseGlass: 'Bose glass',
-  normalFluid: 'normal fluid',
-};
 
 /** Largest number of realisations listed row by row in the report (all are in realisations.csv). */
 const MAX_REPORT_ROWS = 200;

@@ -4,18 +4,11 @@
 import type { ReportBlock, ReportDocument, StatusLine, KeyValueRow } from '../report/reportModel.js';
 import { cautionsFor } from '../report/cautions.js';
 import { inAllUnits } from '../scenario/resolveScenario.js';
-import { phaseNames } from '../observables/phaseCodes.js';
+import { phaseNames, phaseTitles } from '../observables/phaseCodes.js';
 import type { SolveArtifacts } from './solveRun.js';
 import type { WrittenImage } from './solveOutputs.js';
 import { toolVersion } from './version.js';
 
-const phaseTitles: Record<string, string> = {
-  empty: 'empty',
-  superfluid: 'superfluid',
-  mott: 'Mott insulator',
-  boseGlass: 'Bose glass',
-  normalFluid: 'normal fluid',
-};
 
 function energyRow(label: string, value: number, a: SolveArtifacts, note?: string): KeyValueRow {
   const all = inAllUnits(value, a.resolved.units);

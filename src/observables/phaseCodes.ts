@@ -15,3 +15,12 @@ export type PhaseCodeValue = (typeof PhaseCode)[PhaseName];
 
 /** Phase names in code order (index = code). */
 export const phaseNames: readonly PhaseName[] = ['empty', 'superfluid', 'mott', 'boseGlass', 'normalFluid'];
+
+/** Names of the phases for tables and legends. */
+export const phaseTitles: Record<PhaseName, string> = {
+  empty: 'empty',
+  superfluid: 'superfluid',
+  mott: 'Mott insulator',
+  boseGlass: 'Bose glass',
+  normalFluid: 'normal fluid',
+};
