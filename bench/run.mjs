@@ -27,7 +27,7 @@ function formatValue(v) {
 }
 const now = () => performance.now();
 
-process.stdout.write(`tiercake benchmarks: node ${process.version}, ${availableParallelism()} cores\n\n`);
+process.stdout.write(`tiercake benchmarks: node ${process.version}, ${availableParallelism()} cores (sweep rates: best of three blocks)\n\n`);
 
 // 1. Site problem throughput, nmax = 6 --------------------------------------------------
 {
@@ -59,7 +59,7 @@ process.stdout.write(`tiercake benchmarks: node ${process.version}, ${availableP
   const thermalFull = NT / ((now() - t) / 1000);
   log('site', 'T = 0 ground state, cold start (Gershgorin bound)', cold / 1e6, 'M calls/s');
   log('site', 'T = 0 ground state, warm start (Weyl bound, as in sweeps)', warm / 1e6, 'M calls/s');
-  log('site', 'T > 0 thermal phi (full spectrum)', thermal / 1e6, 'M calls/s', `T>0/T=0 warm cost ${(warm / thermal).toFixed(2)}x`);
+  log('site', 'T > 0 thermal phi, cold (QL from scratch; sweeps warm-start)', thermal / 1e6, 'M calls/s', `T>0/T=0 warm cost ${(warm / thermal).toFixed(2)}x`);
   log('site', 'T > 0 thermal, all observables', thermalFull / 1e6, 'M calls/s');
   if (acc === 42) process.stdout.write('');
 }
@@ -76,10 +76,14 @@ async function sweepRate(model, mu, temperature, threads, sweeps) {
   const state = createSolverState(model, initialOrderParameter(model, mu), { thermal: temperature > 0 });
   const ex = createSweepExecutor(state, threads > 1 ? pool : null, threads);
   for (let k = 0; k < 6; k++) { await ex.sweep(0, mu, temperature); await ex.sweep(1, mu, temperature); }
-  const t = now();
-  for (let k = 0; k < sweeps; k++) { await ex.sweep(0, mu, temperature); await ex.sweep(1, mu, temperature); }
-  const seconds = (now() - t) / 1000;
-  return (sweeps * model.geometry.siteCount) / seconds;
+  // Best of three timed blocks: on a shared machine the minimum time is the stable figure.
+  let best = Infinity;
+  for (let rep = 0; rep < 3; rep++) {
+    const t = now();
+    for (let k = 0; k < sweeps; k++) { await ex.sweep(0, mu, temperature); await ex.sweep(1, mu, temperature); }
+    best = Math.min(best, (now() - t) / 1000);
+  }
+  return (sweeps * model.geometry.siteCount) / best;
 }
 {
   const cloud2d = trapped([256, 256], 0.01, 0.00004);
@@ -173,7 +177,7 @@ async function wholeSolve(model, atoms, thermal, threads) {
 // 6. Disorder ensemble ----------------------------------------------------------------
 {
   const { runEnsembleBench } = await import('./ensembleBench.mjs');
-  const r = await runEnsembleBench({ realisations: 16 });
+  const r = await runEnsembleBench({ realisations: 64 });
   log('ensemble', '64x64 speckle layer, 1 thread', r.oneThread.realisationsPerMinute, 'real./min');
   log('ensemble', '64x64 speckle layer, 2 threads (realisations side by side)', r.twoThreads.realisationsPerMinute, 'real./min', `x${r.speedUp.toFixed(2)}${r.identical ? '' : ' NOT IDENTICAL'}`);
 }
