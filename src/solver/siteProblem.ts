@@ -58,6 +58,9 @@ export interface SiteWorkspace {
   readonly args: Float64Array;
   /** thermal path: <j|b|j> for each eigenvalue j (same order as eigenvalues) */
   readonly couplings: Float64Array;
+  /** ground path: first and second lambda-derivatives of the leading determinants */
+  readonly leadSlope: Float64Array;
+  readonly leadCurvature: Float64Array;
 }
 
 export function createSiteWorkspace(nmax: number): SiteWorkspace {
@@ -81,6 +84,8 @@ export function createSiteWorkspace(nmax: number): SiteWorkspace {
     result: new Float64Array(2),
     args: new Float64Array(8),
     couplings: new Float64Array(states),
+    leadSlope: new Float64Array(states),
+    leadCurvature: new Float64Array(states),
   };
 }
 
@@ -414,9 +419,13 @@ function groundByPolynomials(ws: SiteWorkspace, startIsLowerBound: boolean): boo
   const scale = Math.abs(minDiag) + Math.abs(interactionU) + psi;
   const small = 1e-6 * scale;
   const lead = ws.pivotsTop;
+  const leadSlope = ws.leadSlope;
+  const leadCurvature = ws.leadCurvature;
   let lambda = start;
-  // lead[] holds the leading determinants at leadAt; once the iteration has converged to
-  // 1e-13 of the scale they are reused for the eigenvector (error ~1e-13/gap).
+  // lead[] holds the leading determinants at leadAt, with their first two derivatives. After
+  // the last (small) Laguerre step they are carried to the new lambda by a second-order
+  // Taylor step instead of a new recurrence: the error is O(step^3), below rounding when
+  // the step is below 1e-5 of the scale.
   let leadAt = NaN;
   lead[0] = 1;
   for (let iter = 0; iter < 100; iter++) {
@@ -429,6 +438,8 @@ function groundByPolynomials(ws: SiteWorkspace, startIsLowerBound: boolean): boo
     leadAt = lambda;
     for (let k = 1; k < states; k++) {
       lead[k] = p;
+      leadSlope[k] = d;
+      leadCurvature[k] = dd;
       const shifted = diag[k] - lambda;
       const e2 = offSq[k - 1];
       const pNew = shifted * p - e2 * pPrev;
@@ -459,7 +470,11 @@ function groundByPolynomials(ws: SiteWorkspace, startIsLowerBound: boolean): boo
   // Leading determinants p_{k-1} stored at lead[k] (lead[0] = 1), trailing q_{k+1} at
   // trail[k] (trail[states-1] = 1).
   const trail = ws.pivotsBottom;
-  if (!(Math.abs(lambda - leadAt) <= 1e-13 * scale)) {
+  const moved = lambda - leadAt;
+  if (Math.abs(moved) <= 1e-5 * scale) {
+    const half = 0.5 * moved * moved;
+    for (let k = 1; k < states; k++) lead[k] += moved * leadSlope[k] + half * leadCurvature[k];
+  } else {
     let pPrev = 1;
     let p = diag[0] - lambda;
     for (let k = 1; k < states; k++) {
