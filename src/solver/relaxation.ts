@@ -135,10 +135,16 @@ export async function relaxAtFixedMu(state: SolverState, executor: SweepExecutor
   };
 }
 
-/** Lower every stored eigenvalue bound by |delta mu| nmax after a change of mu (Weyl). */
+/**
+ * After a change of mu: lower every stored ground-energy bound by |delta mu| nmax (Weyl),
+ * and drop the stored thermal spectra (their prediction only follows psi), so the next
+ * thermal update of each site starts from the full QL path.
+ */
 export function shiftLowerBounds(state: SolverState, muChange: number): void {
   const lower = state.fields.lowerEnergy;
   const shift = Math.abs(muChange) * state.layout.nmax;
   if (shift === 0) return;
   for (let i = 0; i < lower.length; i++) lower[i] -= shift;
+  const spectrum = state.fields.spectrum;
+  if (spectrum !== null) spectrum.fill(NaN);
 }
