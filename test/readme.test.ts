@@ -20,3 +20,17 @@ describe('README', () => {
     expect(quick).toContain('npm test');
   });
 });
+
+describe('bundled scenarios', () => {
+  it('every file in configs/ is a valid scenario', async () => {
+    const { readdirSync } = await import('node:fs');
+    const { prepareScenario } = await import('../src/cli/solveRun.js');
+    const dir = new URL('../configs/', import.meta.url);
+    const files = readdirSync(dir).filter((f) => f.endsWith('.json'));
+    expect(files.length).toBeGreaterThanOrEqual(4);
+    for (const f of files) {
+      const { scenario } = prepareScenario(new URL(f, dir).pathname, []);
+      expect(scenario.name.length).toBeGreaterThan(0);
+    }
+  });
+});
