@@ -34,6 +34,7 @@ export function registerCheck(program: Command, context: CommandContext): void {
         resolved.thermal.kind === 'temperature' ? show('k_B T', resolved.thermal.kT) : `  entropy per atom       ${resolved.thermal.entropyPerAtom} k_B`,
         `  nmax                   ${resolved.scenario.truncation.nmax}${resolved.scenario.truncation.automatic ? ' (raised automatically if needed)' : ''}`,
       ];
+      for (const w of resolved.laboratory?.warnings ?? []) lines.push(`  warning: ${w}`);
       process.stdout.write(`${lines.join('\n')}\n`);
       context.exitCode = ExitCode.done;
     });

@@ -47,6 +47,8 @@ export async function runSolveCommand(scenarioPath: string, options: SolveComman
   const checkpointDir = typeof options.resume === 'string' ? resolve(options.resume) : checkpointPath(outDir);
   const resumeFrom = options.resume ? readCheckpoint(checkpointDir, prepared.scenario) : null;
   const progress = createProgressReporter(options.quiet ? 'quiet' : options.jsonProgress ? 'json' : 'auto');
+  // Validity warnings of the laboratory model (shallow lattice, pseudo-potential, ...).
+  for (const w of prepared.resolved.laboratory?.warnings ?? []) process.stderr.write(`tiercake: warning: ${w}\n`);
   let interrupted = false;
   let lastTick = Date.now();
   let lastSweeps = 0;

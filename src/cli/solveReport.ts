@@ -47,6 +47,7 @@ export function buildSolveReport(
       text: `Converged in ${outcome.totalSweeps} sweeps; estimated remaining error in phi ${fmt(relax.errorEstimate)} (tolerance ${scenario.solver.tolerance}).`,
     });
   }
+  for (const w of resolved.laboratory?.warnings ?? []) status.push({ level: 'warning', text: w });
   if (outcome.truncation.nmaxTried.length > 1) {
     status.push({ level: 'warning', text: `Fock space raised automatically: nmax ${outcome.truncation.nmaxTried.join(' -> ')}.` });
   }
