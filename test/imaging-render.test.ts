@@ -398,3 +398,13 @@ describe('large lattices', () => {
     expect(colour).toEqual([255, 255, 255]); // the page around the figure stays white
   });
 });
+
+describe('degenerate tick ranges', () => {
+  it('ranges at rounding level give a single tick instead of exploding', async () => {
+    const { niceTicks, looseTicks } = await import('../src/imaging/niceTicks.js');
+    for (const [a, b] of [[-0.4798347188012912, -0.47983471880129097], [1, 1 + 1e-15], [1e6, 1e6 + 1e-9]]) {
+      expect(niceTicks(a, b).values.length).toBe(1);
+      expect(looseTicks(a, b).values.length).toBeLessThan(20);
+    }
+  });
+});

@@ -428,3 +428,13 @@ describe('renderHistogramSvg', () => {
     ).toThrow(/binEdges: must increase strictly/);
   });
 });
+
+describe('degenerate axis ranges', () => {
+  it('a range at rounding level is treated as one value (no tick explosion)', async () => {
+    const { niceLinearTicks } = await import('../src/report/axisTicks.js');
+    const t = niceLinearTicks(-0.4798347188012912, -0.47983471880129097);
+    expect(t.values.length).toBeLessThan(20);
+    expect(t.min).toBeLessThanOrEqual(-0.4798347188012912);
+    expect(t.max).toBeGreaterThanOrEqual(-0.47983471880129097);
+  });
+});

@@ -75,9 +75,20 @@ function ticksForStep(min: number, max: number, step: number): TickSet {
 }
 
 /** Ticks at nice numbers within [min, max], about `targetCount` of them (at least 2 if the range allows). */
+/**
+ * A range at the level of rounding (values equal up to ~1e-12 relative) counts as one value:
+ * a tick step that small cannot be represented next to the values, and the count explodes.
+ */
+function isDegenerate(min: number, max: number): boolean {
+  return max - min <= 1e-12 * Math.max(Math.abs(min), Math.abs(max));
+}
+
 export function niceTicks(min: number, max: number, targetCount = 5): TickSet {
   checkRange(min, max);
-  if (min === max) return { values: [min], step: 0, decimals: decimalsOf(min) };
+  if (min === max || isDegenerate(min, max)) {
+    const mid = 0.5 * (min + max);
+    return { values: [mid], step: 0, decimals: decimalsOf(mid) };
+  }
   const target = Math.max(2, Math.round(targetCount));
   let step = niceNumber((max - min) / (target - 1), true);
   let ticks = ticksForStep(min, max, step);
@@ -92,9 +103,10 @@ export function niceTicks(min: number, max: number, targetCount = 5): TickSet {
 /** Heckbert's loose labelling: the range widened to whole ticks, with those ticks. */
 export function looseTicks(min: number, max: number, targetCount = 5): TickSet {
   checkRange(min, max);
-  if (min === max) {
-    const pad = min === 0 ? 1 : Math.abs(min) * 0.1;
-    return looseTicks(min - pad, max + pad, targetCount);
+  if (min === max || isDegenerate(min, max)) {
+    const mid = 0.5 * (min + max);
+    const pad = mid === 0 ? 1 : Math.abs(mid) * 0.1;
+    return looseTicks(mid - pad, mid + pad, targetCount);
   }
   const target = Math.max(2, Math.round(targetCount));
   const step = niceNumber((max - min) / (target - 1), true);

@@ -49,6 +49,14 @@ export function niceLinearTicks(dataMin: number, dataMax: number, targetCount = 
   }
   let low = dataMin;
   let high = dataMax;
+  // A range at the level of rounding (e.g. equal values computed two ways) counts as zero
+  // width: a tick step below ~1e-12 of the values cannot be represented, and the tick count
+  // would explode.
+  if (high - low <= 1e-12 * Math.max(Math.abs(low), Math.abs(high))) {
+    const mid = 0.5 * (low + high);
+    low = mid;
+    high = mid;
+  }
   if (low === high) {
     const pad = low === 0 ? 1 : Math.abs(low) * 0.1;
     low -= pad;
