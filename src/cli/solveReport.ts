@@ -64,10 +64,42 @@ export function buildSolveReport(
       note: 'critical U/(zJ) = 3 + 2√2 = 5.83 (mean field, n = 1)',
     },
     energyRow('chemical potential mu', outcome.solve.mu, a, scenario.particles.atoms !== undefined ? 'solved for the atom number' : 'given'),
-    energyRow('temperature k_B T', outcome.temperature, a, outcome.temperatureSearch ? 'solved for the entropy per atom' : 'given'),
+    energyRow(
+      'temperature k_B T',
+      outcome.temperature,
+      a,
+      `${outcome.temperatureSearch ? 'solved for the entropy per atom' : 'given'}${
+        resolved.units.nanokelvin !== null ? `; T = ${(outcome.temperature / resolved.units.nanokelvin).toPrecision(4)} nK` : ''
+      }`,
+    ),
     ...resolved.trapCoefficient.map((k, d) => energyRow(`trap coefficient along ${'xyz'[d]} (per site²)`, k, a)),
     { label: 'nmax (highest occupation kept)', value: outcome.truncation.nmaxUsed },
   ];
+  // Laboratory mode: the lattice as the Wannier calculation sees it, axis by axis.
+  const laboratory = resolved.laboratory;
+  const labRows: KeyValueRow[] = [];
+  if (laboratory) {
+    const h = laboratory.hubbard;
+    labRows.push({ label: 'species', value: h.species.label, note: `${h.species.massU.toFixed(4)} u, a_s = ${h.species.scatteringLengthBohr.toFixed(2)} a_0` });
+    h.latticeAxes.slice(0, resolved.geometry.dims).forEach((axis, d) => {
+      const name = 'xyz'[d];
+      labRows.push(
+        { label: `axis ${name}: depth`, value: axis.depthEr, unit: 'E_r', secondValue: axis.depthEr * axis.recoilHz, secondUnit: 'h·Hz' },
+        { label: `axis ${name}: recoil energy E_r`, value: axis.recoilHz, unit: 'h·Hz' },
+        { label: `axis ${name}: hopping J`, value: axis.tunnellingHz, unit: 'h·Hz' },
+        { label: `axis ${name}: next-nearest hopping J_2/J`, value: axis.nnnOverNn },
+        { label: `axis ${name}: Wannier rms width`, value: axis.wannierWidthNm, unit: 'nm' },
+        { label: `axis ${name}: band gap`, value: axis.bandGapHz, unit: 'h·Hz' },
+      );
+    });
+    for (const [k, axis] of h.harmonicAxes.entries()) {
+      labRows.push({ label: `transverse confinement ${k + 1}`, value: axis.trapFrequencyHz, unit: 'Hz', note: `oscillator length ${axis.oscillatorLengthUm.toFixed(3)} µm` });
+    }
+    laboratory.trapFrequencyHz.forEach((f, d) => {
+      labRows.push({ label: `trap frequency ${'xyz'[d]}`, value: f, unit: 'Hz', ...(laboratory.envelopeFrequencyHz[d] > 0 ? { note: `incl. beam envelope ${laboratory.envelopeFrequencyHz[d].toFixed(2)} Hz` } : {}) });
+    });
+    labRows.push({ label: 'U', value: h.interactionHz, unit: 'h·Hz', secondValue: h.interactionEr, secondUnit: 'E_r' });
+  }
   const resultRows: KeyValueRow[] = [
     { label: 'atoms N', value: totals.atoms },
     { label: 'condensed atoms', value: totals.condensedAtoms },
@@ -160,6 +192,9 @@ export function buildSolveReport(
             unitSystems: { first: lab ? 'laboratory' : 'units of J', second: 'units of U' },
             rows: parameterRows,
           },
+          ...(labRows.length > 0
+            ? [{ kind: 'keyValueTable' as const, caption: 'Lattice from the laboratory description (band structure and Wannier functions)', rows: labRows }]
+            : []),
           { kind: 'keyValueTable', caption: 'Totals', rows: resultRows },
         ],
       },
