@@ -844,6 +844,45 @@ function couplingAt(ws: SiteWorkspace, lambda: number, psi: number): number {
   return (0.5 * sc) / lc;
 }
 
+/**
+ * One Laguerre step toward an eigenvalue of the site matrix in ws.diag / ws.offSq from
+ * lambda: p, p' and p'' by the three-term recurrence, then
+ * lambda_new - lambda = -n / (G +- sqrt((n-1)(nH - G^2))). Returns 0 when p(lambda) = 0.
+ * (The ground-state path keeps its own inline copy: it also stores the leading
+ * determinants and runs once per site update in the hottest loop.)
+ */
+function laguerreStep(ws: SiteWorkspace, lambda: number): number {
+  const n = ws.states;
+  const diag = ws.diag;
+  const offSq = ws.offSq;
+  let pPrev = 1;
+  let dPrev = 0;
+  let ddPrev = 0;
+  let p = diag[0] - lambda;
+  let d = -1;
+  let dd = 0;
+  for (let k = 1; k < n; k++) {
+    const shifted = diag[k] - lambda;
+    const e2 = offSq[k - 1];
+    const pNew = shifted * p - e2 * pPrev;
+    const dNew = shifted * d - p - e2 * dPrev;
+    const ddNew = shifted * dd - 2 * d - e2 * ddPrev;
+    pPrev = p;
+    dPrev = d;
+    ddPrev = dd;
+    p = pNew;
+    d = dNew;
+    dd = ddNew;
+  }
+  if (p === 0) return 0;
+  const invP = 1 / p;
+  const g = d * invP;
+  const h = g * g - dd * invP;
+  const disc = (n - 1) * (n * h - g * g);
+  const root = Math.sqrt(disc > 0 ? disc : 0);
+  return -n / (g < 0 ? g - root : g + root);
+}
+
 export const ARG_DPSI = 3;
 export const ARG_TEMPERATURE = 4;
 
@@ -897,37 +936,9 @@ export function thermalFromSpectrum(ws: SiteWorkspace, spectrum: Float64Array, c
     let lambda = predicted[j];
     let converged = false;
     for (let iter = 0; iter < 8; iter++) {
-      let pPrev = 1;
-      let dPrev = 0;
-      let ddPrev = 0;
-      let p = diag[0] - lambda;
-      let d = -1;
-      let dd = 0;
-      for (let k = 1; k < n; k++) {
-        const shifted = diag[k] - lambda;
-        const e2 = offSq[k - 1];
-        const pNew = shifted * p - e2 * pPrev;
-        const dNew = shifted * d - p - e2 * dPrev;
-        const ddNew = shifted * dd - 2 * d - e2 * ddPrev;
-        pPrev = p;
-        dPrev = d;
-        ddPrev = dd;
-        p = pNew;
-        d = dNew;
-        dd = ddNew;
-      }
-      if (p === 0) {
-        converged = true;
-        break;
-      }
-      const invP = 1 / p;
-      const g = d * invP;
-      const h = g * g - dd * invP;
-      const disc = (n - 1) * (n * h - g * g);
-      const root = Math.sqrt(disc > 0 ? disc : 0);
-      const step = -n / (g < 0 ? g - root : g + root);
+      const step = laguerreStep(ws, lambda);
       lambda += step;
-      if (Math.abs(step) <= small) {
+      if (step === 0 || Math.abs(step) <= small) {
         converged = true;
         break;
       }
