@@ -4,9 +4,9 @@
 import type { Command } from 'commander';
 import type { CommandContext } from './main.js';
 import { collectRepeated } from './solveCommand.js';
-import { prepareScenario } from './solveRun.js';
+import { prepareScenario } from '../pipeline/solveScenario.js';
 import { inAllUnits } from '../scenario/resolveScenario.js';
-import { ExitCode } from './inputError.js';
+import { ExitCode } from '../scenario/inputError.js';
 
 export function registerCheck(program: Command, context: CommandContext): void {
   program

@@ -4,16 +4,16 @@
 
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
-import { OutputFolder } from '../io/outputFolder.js';
-import { toCsv } from '../io/csv.js';
-import { encodeRgba8 } from '../imaging/pngCodec.js';
-import { renderFieldFigure } from '../imaging/fieldFigure.js';
+import { OutputFolder } from '../output/outputFolder.js';
+import { toCsv } from '../formats/csv.js';
+import { encodeRgba8 } from '../formats/pngCodec.js';
+import { renderFieldFigure } from '../figures/fieldFigure.js';
 import { renderReportHtml } from '../report/renderReport.js';
 import { MEAN_FIELD_CAUTION } from '../report/cautions.js';
 import { phaseMap } from '../solver/phaseMap.js';
-import { ExitCode, InputError } from './inputError.js';
+import { ExitCode, InputError } from '../scenario/inputError.js';
 import type { CommandContext } from './main.js';
-import { toolVersion } from './version.js';
+import { toolVersion } from '../output/toolVersion.js';
 
 interface DiagramOptions {
   zjMax: string;

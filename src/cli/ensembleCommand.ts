@@ -7,24 +7,24 @@
 
 import type { Command } from 'commander';
 import { join, resolve } from 'node:path';
-import { OutputFolder } from '../io/outputFolder.js';
+import { OutputFolder } from '../output/outputFolder.js';
 import { renderReportHtml } from '../report/renderReport.js';
-import { formatBlockList, MAX_REALISATIONS, planBlocks, shardBlocks } from '../ensemble/blockPlan.js';
-import { absorbBlock, createEnsembleTotal, type BlockPartial } from '../ensemble/blockPartial.js';
-import { ensembleStatistics } from '../ensemble/ensembleStatistics.js';
-import { DEFAULT_BINS_PER_ATOM, histogramBins } from '../ensemble/histogramBins.js';
-import { runEnsembleBlocks, type ParallelMode, type WorkerModule } from '../ensemble/runEnsemble.js';
-import { ensembleContextOf, realisationScenario } from '../ensemble/solveRealisation.js';
-import { ExitCode, InputError } from './inputError.js';
+import { formatBlockList, MAX_REALISATIONS, planBlocks, shardBlocks } from '../pipeline/ensemble/blockPlan.js';
+import { absorbBlock, createEnsembleTotal, type BlockPartial } from '../pipeline/ensemble/blockPartial.js';
+import { ensembleStatistics } from '../pipeline/ensemble/ensembleStatistics.js';
+import { DEFAULT_BINS_PER_ATOM, histogramBins } from '../pipeline/ensemble/histogramBins.js';
+import { runEnsembleBlocks, type ParallelMode, type WorkerModule } from '../pipeline/ensemble/runEnsemble.js';
+import { ensembleContextOf, realisationScenario } from '../pipeline/ensemble/solveRealisation.js';
+import { ExitCode, InputError } from '../scenario/inputError.js';
 import type { CommandContext } from './main.js';
 import { createProgressReporter } from './progressReporter.js';
-import { PARALLEL_MIN_SITES, parseThreads, prepareScenario } from './solveRun.js';
+import { PARALLEL_MIN_SITES, parseThreads, prepareScenario } from '../pipeline/solveScenario.js';
 import { collectRepeated } from './solveCommand.js';
 import { DEFAULT_BLOCK_SIZE, parseParallelOver, parseWholeNumber, resolveShard, shardFolderName, DEFAULT_SHARD_VARIABLE } from './ensembleOptions.js';
-import { scenarioHash, writeShardBlock, writeShardHeader, type EnsembleIdentity, type ShardBlockEntry } from './ensembleShard.js';
-import { writeEnsembleFiles, type EnsembleOutcome } from './ensembleOutputs.js';
-import { buildEnsembleReport } from './ensembleReport.js';
-import { toolVersion } from './version.js';
+import { scenarioHash, writeShardBlock, writeShardHeader, type EnsembleIdentity, type ShardBlockEntry } from '../output/ensembleShard.js';
+import { writeEnsembleFiles, type EnsembleOutcome } from '../output/ensembleOutputs.js';
+import { buildEnsembleReport } from '../report/ensembleReport.js';
+import { toolVersion } from '../output/toolVersion.js';
 
 export interface EnsembleCommandOptions {
   realisations?: string;

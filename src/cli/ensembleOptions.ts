@@ -7,8 +7,8 @@
 // job array started with `#SBATCH --array=0-(K-1)` sets in each task) and K from
 // `--shards K`, which is required with it.
 
-import { InputError } from './inputError.js';
-import type { ParallelMode } from '../ensemble/runEnsemble.js';
+import { InputError } from '../scenario/inputError.js';
+import type { ParallelMode } from '../pipeline/ensemble/runEnsemble.js';
 
 export const DEFAULT_SHARD_VARIABLE = 'SLURM_ARRAY_TASK_ID';
 export const DEFAULT_BLOCK_SIZE = 4;

@@ -3,7 +3,7 @@
 import type { Command } from 'commander';
 import { configReferenceMarkdown } from '../scenario/configReference.js';
 import type { CommandContext } from './main.js';
-import { ExitCode } from './inputError.js';
+import { ExitCode } from '../scenario/inputError.js';
 
 export function registerKeys(program: Command, context: CommandContext): void {
   program

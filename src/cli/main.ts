@@ -3,17 +3,17 @@
 // 3 not converged (results written and flagged), 130 interrupted, 1 anything else.
 
 import { Command, CommanderError } from 'commander';
-import { ExitCode, InputError } from './inputError.js';
+import { ExitCode, InputError } from '../scenario/inputError.js';
 import { printable } from '../scenario/formatScenarioError.js';
 import { registerSolve } from './solveCommand.js';
 import { registerCheck } from './checkCommand.js';
 import { registerDiagram } from './diagramCommand.js';
-import { registerHubbard } from './hubbardCli.js';
+import { registerHubbard } from './hubbardCommand.js';
 import { registerCompare } from './compareCommand.js';
 import { registerKeys } from './keysCommand.js';
 import { registerEnsemble } from './ensembleCommand.js';
 import { registerMerge } from './mergeCommand.js';
-import { toolVersion } from './version.js';
+import { toolVersion } from '../output/toolVersion.js';
 
 /** Commands set this when they finish with a non-zero status without throwing. */
 export interface CommandContext {

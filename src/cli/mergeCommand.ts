@@ -6,18 +6,18 @@
 
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
-import { OutputFolder } from '../io/outputFolder.js';
+import { OutputFolder } from '../output/outputFolder.js';
 import { renderReportHtml } from '../report/renderReport.js';
-import { blockCoverage, formatBlockList, planBlocks, shardBlocks } from '../ensemble/blockPlan.js';
-import { absorbBlock, createEnsembleTotal } from '../ensemble/blockPartial.js';
-import { ensembleStatistics } from '../ensemble/ensembleStatistics.js';
-import type { EnsembleContext } from '../ensemble/solveRealisation.js';
+import { blockCoverage, formatBlockList, planBlocks, shardBlocks } from '../pipeline/ensemble/blockPlan.js';
+import { absorbBlock, createEnsembleTotal } from '../pipeline/ensemble/blockPartial.js';
+import { ensembleStatistics } from '../pipeline/ensemble/ensembleStatistics.js';
+import type { EnsembleContext } from '../pipeline/ensemble/solveRealisation.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
-import { ExitCode, InputError } from './inputError.js';
+import { ExitCode, InputError } from '../scenario/inputError.js';
 import type { CommandContext } from './main.js';
-import { findShardFolders, readShardBlock, readShardHeader, type LoadedShard } from './ensembleShard.js';
-import { writeEnsembleFiles, type EnsembleOutcome } from './ensembleOutputs.js';
-import { buildEnsembleReport } from './ensembleReport.js';
+import { findShardFolders, readShardBlock, readShardHeader, type LoadedShard } from '../output/ensembleShard.js';
+import { writeEnsembleFiles, type EnsembleOutcome } from '../output/ensembleOutputs.js';
+import { buildEnsembleReport } from '../report/ensembleReport.js';
 import { shardFolderName } from './ensembleOptions.js';
 
 export interface MergeCommandOptions {

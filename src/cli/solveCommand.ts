@@ -3,15 +3,15 @@
 
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
-import { OutputFolder } from '../io/outputFolder.js';
+import { OutputFolder } from '../output/outputFolder.js';
 import { renderReportHtml } from '../report/renderReport.js';
-import { ExitCode } from './inputError.js';
+import { ExitCode } from '../scenario/inputError.js';
 import type { CommandContext } from './main.js';
 import { createProgressReporter } from './progressReporter.js';
-import { parseThreads, prepareScenario, solveScenario } from './solveRun.js';
-import { checkpointPath, readCheckpoint, removeCheckpoint, scenarioFingerprint, writeCheckpoint } from './checkpoint.js';
-import { writeSolveFiles } from './solveOutputs.js';
-import { buildSolveReport } from './solveReport.js';
+import { parseThreads, prepareScenario, solveScenario } from '../pipeline/solveScenario.js';
+import { checkpointPath, readCheckpoint, removeCheckpoint, scenarioFingerprint, writeCheckpoint } from '../output/checkpoint.js';
+import { writeSolveFiles } from '../output/solveOutputs.js';
+import { buildSolveReport } from '../report/solveReport.js';
 
 export interface SolveCommandOptions {
   out?: string;

@@ -16,8 +16,8 @@
 // Orientation is applied after reading, in this order: mirror x -> -x (flipX), then
 // rotate counter-clockwise by rotateDeg as seen with x right and y up.
 
-import { decodeNpy } from '../io/npy.js';
-import { decodePng, pngSignature } from './pngCodec.js';
+import { decodeNpy } from '../formats/npy.js';
+import { decodePng, pngSignature } from '../formats/pngCodec.js';
 import type { PlanarField } from './planarField.js';
 
 export type RotationDeg = 0 | 90 | 180 | 270;

@@ -9,7 +9,7 @@
 // a single shot is a Bernoulli draw per site (sites are uncorrelated in the product
 // state), taken here from a named seed.
 
-import { seededRandom } from '../lattice/seededRandom.js';
+import { seededRandom } from '../numerics/seededRandom.js';
 
 /**
  * P_odd per site from occupation probabilities stored site-major:

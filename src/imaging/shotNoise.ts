@@ -13,7 +13,7 @@
 //   to k^-7, relative error far below 1e-15 there).
 // Uniforms come from src/lattice/seededRandom.ts (xoshiro128**).
 
-import { seededRandom, type SeededRandom } from '../lattice/seededRandom.js';
+import { seededRandom, type SeededRandom } from '../numerics/seededRandom.js';
 
 const logFactorialTable = (() => {
   const table = new Float64Array(32);

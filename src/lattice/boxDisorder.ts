@@ -11,7 +11,7 @@
 // uniform draw per site in site-index order, so a seed gives the same field on every
 // machine and for every thread count.
 
-import { seededRandom } from './seededRandom.js';
+import { seededRandom } from '../numerics/seededRandom.js';
 
 /**
  * Site energies eps_i uniform in [-widthW/2, widthW/2), in the energy unit of widthW.

@@ -65,14 +65,14 @@
 // the lattice shape changes the padded grid and hence the whole field: a smaller
 // lattice is not a crop of a larger one with the same seed.
 
-import { seededRandom } from './seededRandom.js';
+import { seededRandom } from '../numerics/seededRandom.js';
 import { BESSEL_J1_FIRST_ZERO } from './speckleGrain.js';
 import {
   complexFftPlan,
   nextPowerOfTwo,
   transformColumn,
   transformRows,
-} from './gridFft.js';
+} from '../numerics/gridFft.js';
 
 export {
   BESSEL_J1_FIRST_ZERO,

@@ -25,7 +25,7 @@
 // two, M >= lattice length); fft.js computes sum_r x_r e^{-i k r}, which is the sum
 // above with x = phi. Discrete Parseval: sum over the M^2 samples of B = M^2 N exactly.
 
-import { Fft2d, isPowerOfTwo, nextPowerOfTwo } from './fft2d.js';
+import { Fft2d, isPowerOfTwo, nextPowerOfTwo } from '../numerics/fft2d.js';
 
 export interface OrderParameterField {
   /** Re phi_i per site, C order over `shape`. */

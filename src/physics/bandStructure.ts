@@ -14,7 +14,7 @@
 // edge (a_0(-Q) = a_0(Q) and a_1(-Q) = b_1(Q), DLMF sec. 28.2(vi)). The tests check exactly this.
 
 import { requireFiniteInRange } from './parameterError.js';
-import { tridiagonalEigenvalue, tridiagonalEigenvector } from './tridiagonalEigen.js';
+import { tridiagonalEigenvalue, tridiagonalEigenvector } from '../numerics/tridiagonalEigen.js';
 
 /**
  * Largest depth accepted by the band-structure routines (the plane-wave cutoff is verified up

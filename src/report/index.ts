@@ -1,8 +1,8 @@
 // The HTML report: document model, renderer, SVG charts and standard cautions.
 export type * from './reportModel.js';
 export { renderReportHtml, pngSize } from './renderReport.js';
-export { renderLinePlotSvg, renderHistogramSvg } from './svgPlot.js';
-export type { SvgPlotOptions } from './svgPlot.js';
+export { renderLinePlotSvg, renderHistogramSvg } from '../figures/svgPlot.js';
+export type { SvgPlotOptions } from '../figures/svgPlot.js';
 export {
   MEAN_FIELD_CAUTION,
   LASER_SAFETY_CAUTION,
@@ -13,4 +13,4 @@ export {
 export type { CautionContext } from './cautions.js';
 export { formatNumber, formatScientific } from './formatNumber.js';
 export { escapeMarkup } from './escapeMarkup.js';
-export { niceLinearTicks, niceLogTicks } from './axisTicks.js';
+export { niceLinearTicks, niceLogTicks } from '../figures/axisTicks.js';

@@ -7,7 +7,7 @@
 
 import { escapeMarkup } from './escapeMarkup.js';
 import { formatNumber, formatScientific } from './formatNumber.js';
-import { REPORT_COLORS } from './palette.js';
+import { REPORT_COLORS } from '../figures/reportPalette.js';
 import type {
   CautionItem,
   CellValue,
@@ -20,7 +20,7 @@ import type {
   StatusLine,
   TableBlock,
 } from './reportModel.js';
-import { PLOT_FONT_FAMILY, renderHistogramSvg, renderLinePlotSvg } from './svgPlot.js';
+import { PLOT_FONT_FAMILY, renderHistogramSvg, renderLinePlotSvg } from '../figures/svgPlot.js';
 
 const CONTENT_SECURITY_POLICY = "default-src 'none'; img-src data:; style-src 'unsafe-inline'";
 

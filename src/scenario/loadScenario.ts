@@ -10,7 +10,7 @@
 // a position and quote raw text that may span lines.
 
 import { readFileSync, statSync } from 'node:fs';
-import { InputError } from '../cli/inputError.js';
+import { InputError } from './inputError.js';
 import { formatPath, printable, summarizeScenarioIssues } from './formatScenarioError.js';
 import { nearestKey, schemaDepth, validKeysAt } from './scenarioKeys.js';
 import { ScenarioSchema, type Scenario } from './scenarioSchema.js';

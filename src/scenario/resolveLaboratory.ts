@@ -4,7 +4,7 @@
 // trap frequencies and, optionally, the harmonic confinement added by the Gaussian envelope
 // of red-detuned lattice beams.
 
-import { InputError } from '../cli/inputError.js';
+import { InputError } from './inputError.js';
 import { hubbardFromLab, type HubbardParameters } from '../physics/hubbardParameters.js';
 import { ParameterError } from '../physics/parameterError.js';
 import { nanokelvinToHz } from '../physics/energyUnits.js';

@@ -8,7 +8,7 @@ import { addHarmonicTrap, latticeCentre } from '../lattice/harmonicTrap.js';
 import type { LatticeModel } from '../lattice/latticeModel.js';
 import type { ChemicalPotentialMode } from '../solver/latticeSolve.js';
 import type { ThermalMode } from '../solver/runLattice.js';
-import { InputError } from '../cli/inputError.js';
+import { InputError } from './inputError.js';
 import type { Scenario } from './scenarioSchema.js';
 import { resolveLaboratory, type LaboratoryParameters } from './resolveLaboratory.js';
 import { boxDisorder } from '../lattice/boxDisorder.js';

@@ -12,7 +12,7 @@
 // in the truncated space. This solution is also the minimum of the Landau function
 // Omega(phi) = lambda(zJ phi) + zJ phi^2 (Hellmann-Feynman: dOmega/dphi = 2 zJ (phi - f)).
 
-import { brentRoot } from './brentRoot.js';
+import { brentRoot } from '../numerics/brentRoot.js';
 import {
   createSiteObservables,
   createSiteWorkspace,

@@ -6,7 +6,7 @@
 
 import type { LatticeModel } from '../lattice/latticeModel.js';
 import { maxHopping, maxInteraction } from '../lattice/latticeModel.js';
-import { brentRootAsync } from './brentRoot.js';
+import { brentRootAsync } from '../numerics/brentRoot.js';
 import { relaxAtFixedMu, shiftLowerBounds, type RelaxResult, type SweepProgress } from './relaxation.js';
 import type { SweepExecutor } from './sweepExecutor.js';
 import type { SolverState } from './solverState.js';

@@ -8,7 +8,7 @@
 
 import type { LatticeModel } from '../lattice/latticeModel.js';
 import { maxHopping, maxInteraction } from '../lattice/latticeModel.js';
-import { brentRootAsync } from './brentRoot.js';
+import { brentRootAsync } from '../numerics/brentRoot.js';
 import { initialOrderParameter, solveLattice, type ChemicalPotentialMode, type LatticeSolveResult, type SolveProgress } from './latticeSolve.js';
 import { relaxAtFixedMu, shiftLowerBounds } from './relaxation.js';
 import type { SweepExecutor } from './sweepExecutor.js';

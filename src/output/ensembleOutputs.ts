@@ -1,0 +1,290 @@
+// Files of a finished ensemble: averaged fields and per-site spread (.npy), the phase
+// fractions, histograms (CSV + PNG), one row per realisation (CSV), pictures, summary.json
+// and report.html. A single run and a merge of shards call this with the same totals, so
+// they write the same files (only `provenance` in summary.json and the report's time
+// stamp and provenance lines differ). Writers only: the numbers come from
+// src/ensemble/ensembleStatistics.ts.
+
+import { encodeNpy } from '../formats/npy.js';
+import { toCsv } from '../formats/csv.js';
+import type { OutputFolder } from './outputFolder.js';
+import { encodeRgba8 } from '../formats/pngCodec.js';
+import { renderFieldFigure } from '../figures/fieldFigure.js';
+import { renderLinePlot } from '../figures/linePlotFigure.js';
+import { phaseNames, PhaseCode } from '../observables/phaseCodes.js';
+import { inAllUnits } from '../scenario/resolveScenario.js';
+import type { Scenario } from '../scenario/scenarioSchema.js';
+import type { BlockPlan } from '../pipeline/ensemble/blockPlan.js';
+import type { EnsembleAccumulation } from '../pipeline/ensemble/blockPartial.js';
+import { binEdges, type HistogramBins } from '../pipeline/ensemble/histogramBins.js';
+import type { EnsembleStatistics } from '../pipeline/ensemble/ensembleStatistics.js';
+import type { EnsembleContext } from '../pipeline/ensemble/solveRealisation.js';
+import { centralPlane, jsonReplacer, type WrittenImage } from './solveOutputs.js';
+import { seedRuleText } from './ensembleShard.js';
+import { toolVersion } from './toolVersion.js';
+
+/** Everything the final files are made from. */
+export interface EnsembleOutcome {
+  scenario: Scenario;
+  scenarioHash: string;
+  baseSeed: string;
+  plan: BlockPlan;
+  bins: HistogramBins;
+  context: EnsembleContext;
+  total: EnsembleAccumulation;
+  stats: EnsembleStatistics;
+  /** how the result was produced (not part of the reproducible content) */
+  provenance: Record<string, unknown>;
+}
+
+const axisNames = ['x', 'y', 'z'];
+
+/** .npy files: name -> bytes. */
+export function ensembleFieldFiles(o: EnsembleOutcome): Array<{ file: string; bytes: Uint8Array }> {
+  const shape = o.context.shape;
+  const s = o.stats;
+  return [
+    { file: 'fields/density_mean.npy', bytes: encodeNpy(s.densityMean, shape) },
+    { file: 'fields/density_spread.npy', bytes: encodeNpy(s.densitySpread, shape) },
+    { file: 'fields/condensate_mean.npy', bytes: encodeNpy(s.condensateMean, shape) },
+    { file: 'fields/condensate_spread.npy', bytes: encodeNpy(s.condensateSpread, shape) },
+    { file: 'fields/phase_fraction.npy', bytes: encodeNpy(s.phaseFraction, [phaseNames.length, ...shape]) },
+  ];
+}
+
+/** Histogram counts and fractions of cloud sites per bin. */
+export function histogramTable(o: EnsembleOutcome): { edges: Float64Array; density: Float64Array; condensate: Float64Array; densityFraction: Float64Array; condensateFraction: Float64Array; samples: number } {
+  const edges = binEdges(o.bins);
+  const d = o.total.densityHistogram;
+  const c = o.total.condensateHistogram;
+  let samples = d.overflow;
+  for (let k = 0; k < d.counts.length; k++) samples += d.counts[k];
+  const fraction = (h: Float64Array): Float64Array => Float64Array.from(h, (v) => (samples > 0 ? v / samples : 0));
+  return { edges, density: d.counts, condensate: c.counts, densityFraction: fraction(d.counts), condensateFraction: fraction(c.counts), samples };
+}
+
+/**
+ * The histogram table cut after the last whole atom that holds a count (at least one atom
+ * per site), for pictures: bins above nmax's occupied part would only be empty space.
+ */
+export function histogramForDisplay(o: EnsembleOutcome): ReturnType<typeof histogramTable> {
+  const t = histogramTable(o);
+  let last = 0;
+  for (let k = 0; k < t.density.length; k++) if (t.density[k] > 0 || t.condensate[k] > 0) last = k;
+  const atoms = Math.min(o.bins.maxAtoms, Math.max(1, Math.ceil(t.edges[last + 1] - 1e-9)));
+  const bins = Math.min(t.density.length, atoms * o.bins.binsPerAtom);
+  return {
+    edges: t.edges.slice(0, bins + 1),
+    density: t.density.slice(0, bins),
+    condensate: t.condensate.slice(0, bins),
+    densityFraction: t.densityFraction.slice(0, bins),
+    condensateFraction: t.condensateFraction.slice(0, bins),
+    samples: t.samples,
+  };
+}
+
+export function histogramsCsv(o: EnsembleOutcome): string {
+  const t = histogramTable(o);
+  const bins = t.density.length;
+  return toCsv(
+    [
+      { name: 'bin_low', values: t.edges.subarray(0, bins) },
+      { name: 'bin_high', values: t.edges.subarray(1, bins + 1) },
+      { name: 'density_sites', values: t.density },
+      { name: 'density_fraction', values: t.densityFraction },
+      { name: 'condensate_sites', values: t.condensate },
+      { name: 'condensate_fraction', values: t.condensateFraction },
+    ],
+    [
+      `tiercake ${toolVersion()} ensemble histograms of scenario ${o.scenario.name}, ${o.stats.realisations} realisations`,
+      'values in atoms per site: local density n_i and condensate density |phi_i|^2; bin [bin_low, bin_high), the top edge in the last bin',
+      `counted: every non-empty site (n_i >= ${o.context.thresholds.emptyDensityMax}) of every realisation, ${t.samples} samples; fraction = sites / samples`,
+      `above the range (nmax = ${o.bins.maxAtoms}): ${o.total.densityHistogram.overflow} density and ${o.total.condensateHistogram.overflow} condensate samples, not in any bin`,
+    ],
+  );
+}
+
+export function realisationsCsv(o: EnsembleOutcome): string {
+  const r = o.total.records;
+  const u = o.context.units.interaction;
+  const phaseColumns = phaseNames.map((name, code) => ({ name: `sites_${snake(name)}`, values: r.map((x) => x.phaseSites[code]) }));
+  return toCsv(
+    [
+      { name: 'realisation', values: r.map((x) => x.index) },
+      { name: 'converged', values: r.map((x) => (x.converged ? 1 : 0)) },
+      { name: 'sweeps', values: r.map((x) => x.sweeps) },
+      { name: 'nmax_used', values: r.map((x) => x.nmaxUsed) },
+      { name: 'mu_over_U', values: r.map((x) => x.mu / u) },
+      { name: 'kT_over_U', values: r.map((x) => x.temperature / u) },
+      { name: 'atoms', values: r.map((x) => x.atoms) },
+      { name: 'condensed_atoms', values: r.map((x) => x.condensedAtoms) },
+      { name: 'superfluid_spans', values: r.map((x) => (x.superfluidSpans ? 1 : 0)) },
+      { name: 'superfluid_clusters', values: r.map((x) => x.superfluidClusters) },
+      { name: 'largest_cluster_sites', values: r.map((x) => x.largestClusterSites) },
+      ...phaseColumns,
+    ],
+    [
+      `tiercake ${toolVersion()} ensemble of scenario ${o.scenario.name}: one row per disorder realisation`,
+      seedRuleText(o.baseSeed),
+      'U = on-site interaction at the trap centre; superfluid_spans = 1 when a connected superfluid cluster spans the cloud',
+    ],
+  );
+}
+
+function snake(name: string): string {
+  return name.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
+}
+
+function histogramImage(o: EnsembleOutcome): WrittenImage {
+  const t = histogramForDisplay(o);
+  const step = (counts: Float64Array): { x: number[]; y: number[] } => {
+    const x: number[] = [];
+    const y: number[] = [];
+    for (let k = 0; k < counts.length; k++) {
+      x.push(t.edges[k], t.edges[k + 1]);
+      y.push(counts[k], counts[k]);
+    }
+    return { x, y };
+  };
+  const d = step(t.densityFraction);
+  const c = step(t.condensateFraction);
+  const plot = renderLinePlot(
+    [
+      { label: 'density n', x: d.x, y: d.y },
+      { label: 'condensate |phi|²', x: c.x, y: c.y },
+    ],
+    { title: `${o.scenario.name}: site histograms, ${o.stats.realisations} realisations`, xLabel: 'atoms per site', yLabel: 'fraction of cloud sites per bin' },
+  );
+  return { file: 'images/histograms.png', title: 'Histograms of local density and condensate density (cloud sites of all realisations)', png: encodeRgba8(plot.width, plot.height, plot.data) };
+}
+
+export function ensembleImages(o: EnsembleOutcome): WrittenImage[] {
+  const { shape, trapCentre: centre, latticeSpacingUm: spacing } = o.context;
+  const s = o.stats;
+  const name = o.scenario.name;
+  const r = s.realisations;
+  const siteCount = s.densityMean.length;
+  const superfluidFraction = s.phaseFraction.subarray(PhaseCode.superfluid * siteCount, (PhaseCode.superfluid + 1) * siteCount);
+  const images: WrittenImage[] = [];
+  const unit = spacing !== null ? 'µm' : 'sites';
+  const step = spacing ?? 1;
+  if (shape.length === 1) {
+    const x = Array.from({ length: shape[0] }, (_, i) => (i - centre[0]) * step);
+    const plot = renderLinePlot(
+      [
+        { label: 'mean density n', x, y: Array.from(s.densityMean), yError: Array.from(s.densitySpread) },
+        { label: 'mean condensate |phi|²', x, y: Array.from(s.condensateMean), yError: Array.from(s.condensateSpread) },
+        { label: 'superfluid fraction', x, y: Array.from(superfluidFraction), line: 'dashed' },
+      ],
+      { title: `${name}: ensemble of ${r}`, xLabel: `x (${unit})`, yLabel: 'atoms per site; fraction' },
+    );
+    images.push({ file: 'images/chain_ensemble.png', title: 'Mean over realisations (error bars: spread between realisations)', png: encodeRgba8(plot.width, plot.height, plot.data) });
+    images.push(histogramImage(o));
+    return images;
+  }
+  const planeLabel = shape.length === 3 ? ` (plane z = ${Math.round(centre[2])})` : '';
+  const axis = (d: number) => ({ label: `${axisNames[d]} (${unit})`, origin: -centre[d] * step, step });
+  const picture = (field: Float64Array, file: string, title: string, bar: string, colorMap: string, valueRange?: { min: number; max: number }): void => {
+    const plane = centralPlane(field, shape, centre);
+    const fig = renderFieldFigure(plane.values, plane.nx, plane.ny, {
+      title: `${name}: ${title}${planeLabel}`,
+      xAxis: axis(0),
+      yAxis: axis(1),
+      colorBarLabel: bar,
+      colorMap,
+      ...(valueRange ? { valueRange } : {}),
+    });
+    images.push({ file: `images/${file}.png`, title: `${title[0].toUpperCase()}${title.slice(1)}${planeLabel}`, png: encodeRgba8(fig.width, fig.height, fig.data) });
+  };
+  picture(s.densityMean, 'density_mean', `mean density over ${r} realisations`, 'atoms per site', 'ember');
+  picture(s.condensateMean, 'condensate_mean', `mean condensate |phi|² over ${r} realisations`, 'atoms per site', 'glacier');
+  picture(s.densitySpread, 'density_spread', 'spread of the density between realisations', 'standard deviation, atoms per site', 'dusk');
+  picture(s.condensateSpread, 'condensate_spread', 'spread of the condensate between realisations', 'standard deviation, atoms per site', 'dusk');
+  picture(Float64Array.from(superfluidFraction), 'superfluid_fraction', 'fraction of realisations in which a site is superfluid', 'fraction', 'glacier', { min: 0, max: 1 });
+  images.push(histogramImage(o));
+  return images;
+}
+
+/** The machine-readable summary; everything but `provenance` is the same for a run and a merge. */
+export function buildEnsembleSummary(o: EnsembleOutcome, files: string[]): Record<string, unknown> {
+  const s = o.stats;
+  const units = o.context.units;
+  const energy = (x: number): Record<string, number> => inAllUnits(x, units);
+  const t = histogramTable(o);
+  return {
+    tool: { name: 'tiercake', version: toolVersion() },
+    kind: 'disorder ensemble',
+    scenario: o.scenario,
+    scenarioHash: o.scenarioHash,
+    ensemble: {
+      realisations: o.plan.realisations,
+      blockSize: o.plan.blockSize,
+      blocks: o.plan.blockCount,
+      baseSeed: o.baseSeed,
+      seedRule: seedRuleText(o.baseSeed),
+    },
+    energyUnit: units.internal,
+    energyUnitNote: 'Energies are given in every available unit: J (hopping), U (interaction at the trap centre), and Hz, nK in laboratory mode',
+    lattice: {
+      shape: o.context.shape,
+      periodic: o.context.periodic,
+      sites: s.densityMean.length,
+      latticeSpacingUm: o.context.latticeSpacingUm,
+      trapCentreSites: o.context.trapCentre,
+    },
+    results: {
+      superfluidSpanningFraction: s.spanningFraction,
+      superfluidSpanningFractionError: s.spanningFractionError,
+      superfluidSpanningRealisations: s.spanningRealisations,
+      convergedRealisations: s.convergedRealisations,
+      notConvergedRealisations: s.notConverged,
+      atoms: s.atoms,
+      condensedAtoms: s.condensedAtoms,
+      condensateFraction: s.condensateFraction,
+      chemicalPotential: { mean: energy(s.mu.mean), spread: energy(s.mu.spread) },
+      sweeps: s.sweeps,
+      meanSitesPerPhase: s.sitesPerPhase,
+      nmaxUsedMax: s.nmaxUsedMax,
+    },
+    phases: {
+      thresholds: o.context.thresholds,
+      compressibleWithoutCondensate: s.finiteTemperature ? 'normalFluid' : 'boseGlass',
+      phaseFractionAxis0: phaseNames,
+    },
+    histograms: {
+      binsPerAtom: o.bins.binsPerAtom,
+      rangeAtomsPerSite: [0, o.bins.maxAtoms],
+      samples: t.samples,
+      counted: 'every non-empty site of every realisation',
+      densityOverflow: o.total.densityHistogram.overflow,
+      condensateOverflow: o.total.condensateHistogram.overflow,
+    },
+    fieldsNote:
+      'fields/*_mean.npy: mean over realisations; fields/*_spread.npy: sample standard deviation between realisations ' +
+      '(standard error of the mean = spread / sqrt(realisations)); fields/phase_fraction.npy: axis 0 = phase code ' +
+      `(${phaseNames.map((n, k) => `${k} ${n}`).join(', ')}), value = fraction of realisations with that phase at the site`,
+    files,
+    provenance: o.provenance,
+  };
+}
+
+/** Stage every file of a finished ensemble in `folder` (the caller commits it). */
+export function writeEnsembleFiles(o: EnsembleOutcome, folder: OutputFolder, reportHtml: (images: WrittenImage[]) => string): string[] {
+  const files: string[] = [];
+  for (const f of ensembleFieldFiles(o)) {
+    folder.write(f.file, f.bytes);
+    files.push(f.file);
+  }
+  folder.write('histograms.csv', histogramsCsv(o));
+  folder.write('realisations.csv', realisationsCsv(o));
+  files.push('histograms.csv', 'realisations.csv');
+  const images = ensembleImages(o);
+  for (const img of images) {
+    folder.write(img.file, img.png);
+    files.push(img.file);
+  }
+  files.push('summary.json', 'report.html');
+  folder.write('summary.json', `${JSON.stringify(buildEnsembleSummary(o, files), jsonReplacer, 2)}\n`);
+  folder.write('report.html', reportHtml(images));
+  return files;
+}

@@ -1,0 +1,225 @@
+// The files of one camera picture: the quantitative float image (.npy, atoms per pixel),
+// a 16-bit greyscale PNG with its scale in a JSON sidecar, and a colour PNG for viewing
+// (colour bar, scale bar, title). Writers only: the picture itself comes from
+// cameraOutputs.ts or compareCommand.ts.
+//
+// Orientation, the same in every file: the .npy has shape (nx, ny) with axis 0 = image x
+// (the project's grid convention); both PNGs show x to the right and y upwards, so array
+// element (i, j) is PNG column i, row ny - 1 - j (rows counted from the top, PNG
+// specification section 4.1). The sidecar states this and where pixel (0, 0) sits.
+//
+// Grey levels: grey = round(value / atomsPerGreyLevel), clipped to 0 .. 65535. When the
+// picture holds whole detected counts (a noisy exposure with c counts per atom) and they
+// fit in 16 bits, atomsPerGreyLevel = 1 / c and the PNG stores the counts exactly;
+// otherwise the largest value maps to 65535 and the quantisation error is at most half a
+// grey level.
+
+import { encodeNpy } from '../formats/npy.js';
+import { encodeGray16, encodeRgba8 } from '../formats/pngCodec.js';
+import { renderFieldFigure } from '../figures/fieldFigure.js';
+import type { PlanarField } from '../imaging/planarField.js';
+import type { RgbaImage } from '../figures/raster.js';
+import type { WrittenImage } from './solveOutputs.js';
+
+/** A picture on a regular pixel grid with its coordinates. */
+export interface PixelPicture extends PlanarField {
+  /** Pixel size in the plane the coordinates refer to (object plane, or the plane after the flight). */
+  pixelUm: number;
+  /** Pixel-centre coordinates along image axes 0 and 1. */
+  xCentresUm: Float64Array;
+  yCentresUm: Float64Array;
+}
+
+/** How lengths are labelled: micrometres, or lattice spacings in dimensionless mode. */
+export interface LengthUnit {
+  /** Short unit for axis labels, e.g. 'µm' or 'sites'. */
+  short: string;
+  /** Sentence for sidecars and summaries. */
+  note: string;
+}
+
+export const micrometres: LengthUnit = { short: 'µm', note: 'micrometres' };
+export const latticeSites: LengthUnit = {
+  short: 'sites',
+  note: 'lattice spacings (dimensionless mode: no lattice spacing is known, so 1 site = 1 length unit)',
+};
+
+export interface PictureDescription {
+  /** File stem under images/, e.g. 'in_situ'. */
+  name: string;
+  /** Title of the colour figure and of the report entry. */
+  title: string;
+  /** Longer text for the sidecar. */
+  description: string;
+  /** Colour bar label, default 'atoms per pixel'. */
+  quantity?: string;
+  /** Axis names of the two image axes, e.g. ['x', 'y']. */
+  axisNames: readonly [string, string];
+  /** Suffix for the axis labels, e.g. ' after 20 ms'. */
+  axisNote?: string;
+  lengthUnit: LengthUnit;
+  /** Counts per atom when the values are whole detected counts divided by it (noisy exposures). */
+  countsPerAtom?: number;
+  colorMap?: string;
+  /** Extra entries for the sidecar (e.g. flight time). */
+  extra?: Record<string, unknown>;
+}
+
+export interface PictureFiles {
+  image: WrittenImage;
+  arrays: Array<{ file: string; bytes: Uint8Array }>;
+  texts: Array<{ file: string; text: string }>;
+  /** The sidecar contents (also in texts), for summaries. */
+  sidecar: Record<string, unknown>;
+}
+
+const greyMax = 65535;
+
+/** Grey levels of a picture and the scale that turns them back into atoms. */
+export function quantiseGray16(values: Float64Array, countsPerAtom?: number): { gray: Uint16Array; atomsPerGreyLevel: number; clippedPixels: number } {
+  let max = 0;
+  let integerCounts = countsPerAtom !== undefined;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (v > max) max = v;
+    if (integerCounts) {
+      const c = v * (countsPerAtom as number);
+      if (Math.abs(c - Math.round(c)) > 1e-6) integerCounts = false;
+    }
+  }
+  let atomsPerGreyLevel: number;
+  if (integerCounts && max * (countsPerAtom as number) <= greyMax + 0.5) atomsPerGreyLevel = 1 / (countsPerAtom as number);
+  else atomsPerGreyLevel = max > 0 ? max / greyMax : 1;
+  const gray = new Uint16Array(values.length);
+  let clippedPixels = 0;
+  for (let i = 0; i < values.length; i++) {
+    const level = Math.round(values[i] / atomsPerGreyLevel);
+    if (level < 0 || level > greyMax || !Number.isFinite(level)) clippedPixels++;
+    gray[i] = Number.isFinite(level) ? Math.min(greyMax, Math.max(0, level)) : 0;
+  }
+  return { gray, atomsPerGreyLevel, clippedPixels };
+}
+
+/** Array element (i, j) -> PNG sample at column i, row ny - 1 - j (x right, y up). */
+export function toPngRowOrder<T extends Uint16Array | Float64Array>(values: T, nx: number, ny: number, out: T): T {
+  for (let i = 0; i < nx; i++) for (let j = 0; j < ny; j++) out[(ny - 1 - j) * nx + i] = values[i * ny + j];
+  return out;
+}
+
+/** A 1-2-5 length of at most a fifth of the extent, for the scale bar. */
+export function scaleBarLength(extent: number): number {
+  const target = extent / 5;
+  if (!(target > 0) || !Number.isFinite(target)) return 1;
+  const decade = 10 ** Math.floor(Math.log10(target));
+  for (const m of [5, 2, 1]) if (m * decade <= target) return m * decade;
+  return decade;
+}
+
+function formatLength(x: number): string {
+  return Number(x.toPrecision(3)).toString();
+}
+
+export interface ColourPictureOptions {
+  title: string;
+  quantity: string;
+  axisNames: readonly [string, string];
+  axisNote?: string;
+  lengthUnit: LengthUnit;
+  colorMap?: string;
+  symmetricRange?: boolean;
+  /** Fixed colour scale, e.g. shared by two pictures shown side by side. */
+  valueRange?: { min: number; max: number };
+}
+
+/** Colour figure of a picture (RGBA): axes in the length unit, colour bar, scale bar, title. */
+export function colourPictureFigure(picture: PixelPicture, options: ColourPictureOptions): RgbaImage {
+  const unit = options.lengthUnit.short;
+  const note = options.axisNote ?? '';
+  const extent = picture.nx * picture.pixelUm;
+  const bar = scaleBarLength(extent);
+  return renderFieldFigure(picture.values, picture.nx, picture.ny, {
+    title: options.title,
+    xAxis: { label: `${options.axisNames[0]}${note} (${unit})`, origin: picture.xCentresUm[0], step: picture.pixelUm },
+    yAxis: { label: `${options.axisNames[1]}${note} (${unit})`, origin: picture.yCentresUm[0], step: picture.pixelUm },
+    colorBarLabel: options.quantity,
+    scaleBar: { length: bar, label: `${formatLength(bar)} ${unit}` },
+    ...(options.colorMap !== undefined ? { colorMap: options.colorMap } : {}),
+    ...(options.symmetricRange !== undefined ? { symmetricRange: options.symmetricRange } : {}),
+    ...(options.valueRange !== undefined ? { valueRange: options.valueRange } : {}),
+  });
+}
+
+/** The colour figure encoded as an 8-bit RGBA PNG. */
+export function colourPicturePng(picture: PixelPicture, options: ColourPictureOptions): Uint8Array {
+  const figure = colourPictureFigure(picture, options);
+  return encodeRgba8(figure.width, figure.height, figure.data);
+}
+
+/** Figures placed left to right on a white page, top-aligned, with a gap between them. */
+export function sideBySide(figures: readonly RgbaImage[], gapPx = 16): RgbaImage {
+  const width = figures.reduce((w, f) => w + f.width, 0) + gapPx * Math.max(0, figures.length - 1);
+  const height = figures.reduce((h, f) => Math.max(h, f.height), 0);
+  const data = new Uint8Array(width * height * 4).fill(255);
+  let left = 0;
+  for (const f of figures) {
+    for (let row = 0; row < f.height; row++) {
+      data.set(f.data.subarray(row * f.width * 4, (row + 1) * f.width * 4), (row * width + left) * 4);
+    }
+    left += f.width + gapPx;
+  }
+  return { width, height, data };
+}
+
+/** The .npy, 16-bit PNG, sidecar and colour PNG of one picture (paths under images/). */
+export function pictureFiles(picture: PixelPicture, d: PictureDescription): PictureFiles {
+  const { nx, ny, values } = picture;
+  const quantity = d.quantity ?? 'atoms per pixel';
+  const npyFile = `images/${d.name}.npy`;
+  const grayFile = `images/${d.name}.gray16.png`;
+  const sidecarFile = `images/${d.name}.json`;
+  const colourFile = `images/${d.name}.png`;
+
+  const q = quantiseGray16(values, d.countsPerAtom);
+  const rows = toPngRowOrder(q.gray, nx, ny, new Uint16Array(nx * ny));
+  let total = 0;
+  for (let i = 0; i < values.length; i++) total += values[i];
+  const sidecar: Record<string, unknown> = {
+    title: d.title,
+    description: d.description,
+    quantity,
+    files: { float: `${d.name}.npy`, gray16: `${d.name}.gray16.png`, colour: `${d.name}.png` },
+    atomsPerGreyLevel: q.atomsPerGreyLevel,
+    greyToAtoms: 'atoms in a pixel = grey level x atomsPerGreyLevel',
+    clippedPixels: q.clippedPixels,
+    widthPx: nx,
+    heightPx: ny,
+    pixelUm: picture.pixelUm,
+    lengthUnit: d.lengthUnit.note,
+    firstPixelCentreUm: { x: picture.xCentresUm[0], y: picture.yCentresUm[0] },
+    origin: 'coordinates are measured from the trap centre (in-situ) or from the zero-momentum point (time of flight)',
+    orientation:
+      `the .npy has shape (${nx}, ${ny}), axis 0 = ${d.axisNames[0]}, axis 1 = ${d.axisNames[1]}; ` +
+      `in both PNGs ${d.axisNames[0]} grows to the right and ${d.axisNames[1]} upwards, so element (i, j) is column i, row ${ny - 1} - j from the top; ` +
+      'element (0, 0), the bottom-left pixel, is centred at firstPixelCentreUm',
+    atomsInPicture: total,
+    ...(d.countsPerAtom !== undefined ? { countsPerAtom: d.countsPerAtom } : {}),
+    ...(d.extra ?? {}),
+  };
+  const png = colourPicturePng(picture, {
+    title: d.title,
+    quantity,
+    axisNames: d.axisNames,
+    lengthUnit: d.lengthUnit,
+    ...(d.axisNote !== undefined ? { axisNote: d.axisNote } : {}),
+    ...(d.colorMap !== undefined ? { colorMap: d.colorMap } : {}),
+  });
+  return {
+    image: { file: colourFile, title: d.title, png },
+    arrays: [
+      { file: npyFile, bytes: encodeNpy(values, [nx, ny]) },
+      { file: grayFile, bytes: encodeGray16(nx, ny, rows) },
+    ],
+    texts: [{ file: sidecarFile, text: `${JSON.stringify(sidecar, null, 2)}\n` }],
+    sidecar,
+  };
+}

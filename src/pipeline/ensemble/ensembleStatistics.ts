@@ -1,0 +1,111 @@
+// What an ensemble reports, from its accumulated totals (blockPartial.ts): per-site mean
+// and spread of n_i and |phi_i|^2, the fraction of realisations in which each site has
+// each phase, the fraction of realisations in which a superfluid cluster spans the cloud
+// (with its binomial standard error sqrt(p (1 - p) / R)), and means of the scalars.
+//
+// Spread = sample standard deviation over realisations, sqrt(M2 / (R - 1)) (Bessel's
+// correction: an unbiased estimate of the variance of the disorder distribution); zero
+// when R = 1. The standard error of the ensemble mean is spread / sqrt(R).
+// Scalars are averaged with the two-pass formula over the records in realisation order,
+// so they too are independent of how the ensemble was split.
+
+import { phaseNames, type PhaseName } from '../../observables/phaseCodes.js';
+import type { EnsembleAccumulation } from './blockPartial.js';
+
+export interface ScalarSummary {
+  mean: number;
+  /** sample standard deviation (0 for one realisation) */
+  spread: number;
+  min: number;
+  max: number;
+}
+
+export interface EnsembleStatistics {
+  realisations: number;
+  densityMean: Float64Array;
+  densitySpread: Float64Array;
+  condensateMean: Float64Array;
+  condensateSpread: Float64Array;
+  /** fraction of realisations with phase p at site i, at [p * siteCount + i] */
+  phaseFraction: Float64Array;
+  spanningRealisations: number;
+  spanningFraction: number;
+  /** binomial standard error of the spanning fraction */
+  spanningFractionError: number;
+  convergedRealisations: number;
+  /** indices of realisations that did not converge */
+  notConverged: number[];
+  atoms: ScalarSummary;
+  condensedAtoms: ScalarSummary;
+  condensateFraction: ScalarSummary;
+  /** chemical potential, internal energy unit */
+  mu: ScalarSummary;
+  sweeps: ScalarSummary;
+  /** mean number of sites per realisation in each phase */
+  sitesPerPhase: Record<PhaseName, number>;
+  /** largest nmax any realisation needed */
+  nmaxUsedMax: number;
+  /** true if any realisation was solved at T > 0 */
+  finiteTemperature: boolean;
+}
+
+export function scalarSummary(values: readonly number[]): ScalarSummary {
+  const n = values.length;
+  if (n === 0) return { mean: NaN, spread: NaN, min: NaN, max: NaN };
+  let sum = 0;
+  let min = Infinity;
+  let max = -Infinity;
+  for (const v of values) {
+    sum += v;
+    if (v < min) min = v;
+    if (v > max) max = v;
+  }
+  const mean = sum / n;
+  let ss = 0;
+  for (const v of values) ss += (v - mean) * (v - mean);
+  return { mean, spread: n > 1 ? Math.sqrt(ss / (n - 1)) : 0, min, max };
+}
+
+function spreadOf(m2: Float64Array, count: number): Float64Array {
+  const out = new Float64Array(m2.length);
+  if (count < 2) return out;
+  for (let i = 0; i < m2.length; i++) out[i] = Math.sqrt(m2[i] > 0 ? m2[i] / (count - 1) : 0);
+  return out;
+}
+
+export function ensembleStatistics(total: EnsembleAccumulation): EnsembleStatistics {
+  const r = total.count;
+  const records = total.records;
+  if (records.length !== r) throw new Error(`ensembleStatistics: ${records.length} records for ${r} realisations`);
+  for (let k = 1; k < records.length; k++) {
+    if (records[k].index <= records[k - 1].index) throw new Error('ensembleStatistics: records are not in realisation order');
+  }
+  const phaseFraction = new Float64Array(total.phaseCounts.length);
+  for (let i = 0; i < phaseFraction.length; i++) phaseFraction[i] = total.phaseCounts[i] / r;
+  const spanning = records.filter((x) => x.superfluidSpans).length;
+  const p = spanning / r;
+  const sitesPerPhase = Object.fromEntries(
+    phaseNames.map((name, code) => [name, scalarSummary(records.map((x) => x.phaseSites[code])).mean]),
+  ) as Record<PhaseName, number>;
+  return {
+    realisations: r,
+    densityMean: Float64Array.from(total.density.mean),
+    densitySpread: spreadOf(total.density.m2, r),
+    condensateMean: Float64Array.from(total.condensate.mean),
+    condensateSpread: spreadOf(total.condensate.m2, r),
+    phaseFraction,
+    spanningRealisations: spanning,
+    spanningFraction: p,
+    spanningFractionError: Math.sqrt((p * (1 - p)) / r),
+    convergedRealisations: records.filter((x) => x.converged).length,
+    notConverged: records.filter((x) => !x.converged).map((x) => x.index),
+    atoms: scalarSummary(records.map((x) => x.atoms)),
+    condensedAtoms: scalarSummary(records.map((x) => x.condensedAtoms)),
+    condensateFraction: scalarSummary(records.map((x) => (x.atoms > 0 ? x.condensedAtoms / x.atoms : 0))),
+    mu: scalarSummary(records.map((x) => x.mu)),
+    sweeps: scalarSummary(records.map((x) => x.sweeps)),
+    sitesPerPhase,
+    nmaxUsedMax: records.reduce((m, x) => Math.max(m, x.nmaxUsed), 0),
+    finiteTemperature: records.some((x) => x.temperature > 0),
+  };
+}

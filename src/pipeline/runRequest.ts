@@ -1,0 +1,47 @@
+// From a resolved scenario to what the solver and the phase labelling take, in one place
+// for `solve`, `compare` and ensembles: the lattice-run request (tolerances, truncation
+// guard, compressibility) and the site classification of a finished run.
+
+import type { RunOutcome, RunProgress, RunRequest } from '../solver/runLattice.js';
+import type { SiteFields } from '../observables/siteFields.js';
+import { classifySites, type SiteClassification } from '../observables/siteClassification.js';
+import type { ResolvedScenario } from '../scenario/resolveScenario.js';
+
+/** Highest nmax the automatic truncation guard raises to (unless the scenario starts higher). */
+export const NMAX_CEILING = 40;
+
+export function runRequestOf(resolved: ResolvedScenario, observer?: (p: RunProgress) => void | 'stop'): RunRequest {
+  const s = resolved.scenario;
+  return {
+    model: resolved.model,
+    chemical: resolved.chemical,
+    thermal: resolved.thermal,
+    tolerance: s.solver.tolerance,
+    maxSweeps: s.solver.maxSweeps,
+    accelerate: s.solver.accelerate,
+    truncation: {
+      automatic: s.truncation.automatic,
+      topWeightMax: s.truncation.topWeightMax,
+      nmaxLimit: Math.max(s.truncation.nmax, NMAX_CEILING),
+    },
+    compressibility: s.solver.compressibility,
+    ...(observer ? { observer } : {}),
+  };
+}
+
+/** Phase labels of a finished run, with the scenario's thresholds. */
+export function classifyOutcome(resolved: ResolvedScenario, outcome: RunOutcome, fields: SiteFields, withEntropy = true): SiteClassification {
+  const geometry = resolved.model.geometry;
+  return classifySites({
+    shape: geometry.shape,
+    periodic: geometry.periodic,
+    density: fields.density,
+    condensateDensity: fields.condensateDensity,
+    compressibility: fields.compressibility,
+    ...(withEntropy ? { entropy: fields.entropy } : {}),
+    energyScale: resolved.units.interaction,
+    finiteTemperature: outcome.temperature > 0,
+    disordered: resolved.disorder !== null,
+    thresholds: resolved.scenario.phases,
+  });
+}

@@ -1,0 +1,277 @@
+// The report document of a `solve` run: parameters in both unit systems, convergence,
+// the pictures, profiles as inline plots, the shell table and the cautions.
+
+import type { ReportBlock, ReportDocument, StatusLine, KeyValueRow } from './reportModel.js';
+import { cautionsFor } from './cautions.js';
+import { inAllUnits } from '../scenario/resolveScenario.js';
+import { phaseNames, phaseTitles } from '../observables/phaseCodes.js';
+import type { SolveArtifacts } from '../pipeline/solveScenario.js';
+import type { WrittenImage } from '../output/solveOutputs.js';
+import { toolVersion } from '../output/toolVersion.js';
+
+
+function energyRow(label: string, value: number, a: SolveArtifacts, note?: string): KeyValueRow {
+  const all = inAllUnits(value, a.resolved.units);
+  const lab = a.resolved.units.hertz !== null;
+  return {
+    label,
+    value: lab ? all.Hz : all.J,
+    unit: lab ? 'h·Hz' : 'J',
+    secondValue: all.U,
+    secondUnit: 'U',
+    ...(note ? { note } : {}),
+  };
+}
+
+export function buildSolveReport(
+  a: SolveArtifacts,
+  images: WrittenImage[],
+  createdIso: string,
+  imaging: Record<string, unknown> = {},
+): ReportDocument {
+  const { outcome, resolved, scenario, classification, shells, profile } = a;
+  const totals = outcome.solve.totals;
+  const relax = outcome.solve.relax;
+  const spacing = resolved.latticeSpacingUm;
+  const status: StatusLine[] = [];
+  if (!outcome.converged) {
+    const why = outcome.stopped
+      ? 'interrupted before convergence'
+      : !outcome.truncation.ok
+        ? `truncation weight ${outcome.truncation.maxTopWeight.toExponential(2)} exceeds ${scenario.truncation.topWeightMax}`
+        : `max |delta phi| = ${relax.residual.toExponential(2)} after ${outcome.totalSweeps} sweeps (tolerance ${scenario.solver.tolerance})`;
+    status.push({ level: 'error', text: `NOT CONVERGED: ${why}. Results are written but must not be trusted.` });
+  } else {
+    status.push({
+      level: 'ok',
+      text: `Converged in ${outcome.totalSweeps} sweeps; estimated remaining error in phi ${fmt(relax.errorEstimate)} (tolerance ${scenario.solver.tolerance}).`,
+    });
+  }
+  for (const w of resolved.laboratory?.warnings ?? []) status.push({ level: 'warning', text: w });
+  if (outcome.truncation.nmaxTried.length > 1) {
+    status.push({ level: 'warning', text: `Fock space raised automatically: nmax ${outcome.truncation.nmaxTried.join(' -> ')}.` });
+  }
+  const lab = resolved.units.hertz !== null;
+  const parameterRows: KeyValueRow[] = [
+    { label: 'lattice', value: `${resolved.geometry.shape.join(' × ')} sites`, note: resolved.geometry.periodic.map((p) => (p ? 'periodic' : 'open')).join(', ') },
+    ...(spacing !== null ? [{ label: 'lattice spacing', value: spacing, unit: 'µm' } as KeyValueRow] : []),
+    energyRow('hopping J', resolved.units.hopping, a),
+    energyRow('interaction U', resolved.units.interaction, a),
+    { label: 'U/J', value: resolved.units.interaction / resolved.units.hopping },
+    {
+      label: 'U/(zJ) relative to mean-field critical value',
+      value: resolved.units.interaction / (resolved.geometry.coordination * resolved.units.hopping) / (3 + 2 * Math.SQRT2),
+      note: 'critical U/(zJ) = 3 + 2√2 = 5.83 (mean field, n = 1)',
+    },
+    energyRow('chemical potential mu', outcome.solve.mu, a, scenario.particles.atoms !== undefined ? 'solved for the atom number' : 'given'),
+    energyRow(
+      'temperature k_B T',
+      outcome.temperature,
+      a,
+      `${outcome.temperatureSearch ? 'solved for the entropy per atom' : 'given'}${
+        resolved.units.nanokelvin !== null ? `; T = ${(outcome.temperature / resolved.units.nanokelvin).toPrecision(4)} nK` : ''
+      }`,
+    ),
+    ...resolved.trapCoefficient.map((k, d) => energyRow(`trap coefficient along ${'xyz'[d]} (per site²)`, k, a)),
+    { label: 'nmax (highest occupation kept)', value: outcome.truncation.nmaxUsed },
+  ];
+  // Laboratory mode: the lattice as the Wannier calculation sees it, axis by axis.
+  const laboratory = resolved.laboratory;
+  const labRows: KeyValueRow[] = [];
+  if (laboratory) {
+    const h = laboratory.hubbard;
+    labRows.push({ label: 'species', value: h.species.label, note: `${h.species.massU.toFixed(4)} u, a_s = ${h.species.scatteringLengthBohr.toFixed(2)} a_0` });
+    h.latticeAxes.slice(0, resolved.geometry.dims).forEach((axis, d) => {
+      const name = 'xyz'[d];
+      labRows.push(
+        { label: `axis ${name}: depth`, value: axis.depthEr, unit: 'E_r', secondValue: axis.depthEr * axis.recoilHz, secondUnit: 'h·Hz' },
+        { label: `axis ${name}: recoil energy E_r`, value: axis.recoilHz, unit: 'h·Hz' },
+        { label: `axis ${name}: hopping J`, value: axis.tunnellingHz, unit: 'h·Hz' },
+        { label: `axis ${name}: next-nearest hopping J_2/J`, value: axis.nnnOverNn },
+        { label: `axis ${name}: Wannier rms width`, value: axis.wannierWidthNm, unit: 'nm' },
+        { label: `axis ${name}: band gap`, value: axis.bandGapHz, unit: 'h·Hz' },
+      );
+    });
+    for (const [k, axis] of h.harmonicAxes.entries()) {
+      labRows.push({ label: `transverse confinement ${k + 1}`, value: axis.trapFrequencyHz, unit: 'Hz', note: `oscillator length ${axis.oscillatorLengthUm.toFixed(3)} µm` });
+    }
+    laboratory.trapFrequencyHz.forEach((f, d) => {
+      labRows.push({ label: `trap frequency ${'xyz'[d]}`, value: f, unit: 'Hz', ...(laboratory.envelopeFrequencyHz[d] > 0 ? { note: `incl. beam envelope ${laboratory.envelopeFrequencyHz[d].toFixed(2)} Hz` } : {}) });
+    });
+    labRows.push({ label: 'U', value: h.interactionHz, unit: 'h·Hz', secondValue: h.interactionEr, secondUnit: 'E_r' });
+  }
+  const resultRows: KeyValueRow[] = [
+    { label: 'atoms N', value: totals.atoms },
+    { label: 'condensed atoms', value: totals.condensedAtoms },
+    { label: 'condensate fraction', value: totals.atoms > 0 ? totals.condensedAtoms / totals.atoms : 0 },
+    energyRow(outcome.temperature > 0 ? 'free energy F' : 'energy E', totals.freeEnergy, a),
+    { label: 'entropy S', value: totals.entropy, unit: 'k_B' },
+    { label: 'entropy per atom', value: totals.atoms > 0 ? totals.entropy / totals.atoms : 0, unit: 'k_B' },
+    { label: 'superfluid spans the cloud', value: classification.superfluidSpans ? 'yes' : 'no' },
+  ];
+  const visibility = imaging.visibility as { value?: number; definition?: string } | undefined;
+  if (visibility?.value !== undefined) {
+    resultRows.push({ label: 'time-of-flight visibility V', value: visibility.value, note: 'Gerbier et al., PRL 95, 050404 (2005); definition in summary.json' });
+  }
+  const convergenceRows: KeyValueRow[] = [
+    { label: 'converged', value: outcome.converged ? 'yes' : 'NO' },
+    { label: 'sweeps (all stages)', value: outcome.totalSweeps },
+    { label: 'last max |delta phi|', value: relax.residual },
+    { label: 'estimated remaining error', value: relax.errorEstimate, note: 'last change × r/(1 − r)' },
+    { label: 'contraction rate r per sweep', value: relax.contractionRate },
+    { label: 'extrapolation steps', value: relax.extrapolations },
+    { label: 'mu evaluations', value: outcome.solve.muSearch.evaluations },
+    { label: 'largest weight on |nmax>', value: outcome.truncation.maxTopWeight, note: `allowed ${scenario.truncation.topWeightMax}` },
+    { label: 'threads', value: a.threadsUsed },
+    { label: 'solve time', value: a.timings.solveSeconds, unit: 's' },
+    { label: 'analysis time', value: a.timings.analysisSeconds, unit: 's' },
+  ];
+
+  const radiusX = Array.from(profile.meanRadius, (r) => (spacing !== null ? r * spacing : r));
+  const radiusLabel = spacing !== null ? 'trap-scaled radius' : 'trap-scaled radius';
+  const radiusUnit = spacing !== null ? 'µm' : 'sites';
+  const valid = (arr: ArrayLike<number>) => Array.from(arr, (v, i) => (profile.count[i] > 0 ? v : NaN));
+  const shellMarkers = shells.shells.flatMap((s) => [
+    { at: (spacing ?? 1) * s.outerRadius, label: `n=${s.filling} outer` },
+  ]);
+  const profileBlocks: ReportBlock[] = [
+    {
+      kind: 'linePlot',
+      title: 'Radial profiles',
+      caption: 'Mean over each annular bin; error bars show the spread of sites in the bin. Vertical lines: outer edges of the Mott shells.',
+      xAxis: { label: radiusLabel, unit: radiusUnit },
+      yAxis: { label: 'atoms per site' },
+      series: [
+        { label: 'density n', x: radiusX, y: valid(profile.fields.density.mean), yErr: valid(profile.fields.density.std) },
+        { label: 'condensate |phi|²', x: radiusX, y: valid(profile.fields.condensateDensity.mean) },
+        { label: 'number variance', x: radiusX, y: valid(profile.fields.numberVariance.mean), style: { line: 'dashed' } },
+        ...(outcome.temperature > 0 ? [{ label: 'entropy (k_B per site)', x: radiusX, y: valid(profile.fields.entropy.mean), style: { line: 'dotted' as const } }] : []),
+      ],
+      verticalMarkers: shellMarkers,
+    },
+  ];
+  if (profile.localChemicalPotential) {
+    const muLocal = inAllUnitsArray(profile.localChemicalPotential, a.resolved.units.interaction);
+    profileBlocks.push({
+      kind: 'linePlot',
+      title: 'Density against local chemical potential',
+      caption: 'Local-density view: each bin plotted at its local chemical potential mu − eps(r); Mott plateaus appear as flat steps at integer density.',
+      xAxis: { label: 'local chemical potential (mu − eps)/U' },
+      yAxis: { label: 'atoms per site' },
+      series: [
+        { label: 'density n', x: valid(muLocal), y: valid(profile.fields.density.mean), style: { marker: 'circle', line: 'none' } },
+        { label: 'condensate |phi|²', x: valid(muLocal), y: valid(profile.fields.condensateDensity.mean), style: { marker: 'square', line: 'none' } },
+      ],
+    });
+  }
+
+  const shellRows = shells.shells.map((s) => [
+    `n = ${s.filling}`,
+    s.sites,
+    s.atoms,
+    spacing !== null ? s.innerRadius * spacing : s.innerRadius,
+    spacing !== null ? s.outerRadius * spacing : s.outerRadius,
+  ]);
+  const phaseRows = phaseNames
+    .filter((n) => shells.byPhase[n].sites > 0)
+    .map((n) => [phaseTitles[n], shells.byPhase[n].sites, shells.byPhase[n].atoms, shells.byPhase[n].atomFraction, shells.byPhase[n].condensedAtoms]);
+
+  const t = classification.thresholds;
+  const doc: ReportDocument = {
+    title: `tiercake — ${scenario.name}`,
+    subtitle: scenario.description ?? `${resolved.geometry.dims}D lattice, ${resolved.mode === 'laboratory' ? 'laboratory' : 'dimensionless'} parameters`,
+    createdIso,
+    status,
+    sections: [
+      {
+        heading: 'Parameters',
+        blocks: [
+          {
+            kind: 'keyValueTable',
+            caption: lab ? 'Energies in h·Hz and in units of U' : 'Energies in units of J and of U',
+            unitSystems: { first: lab ? 'laboratory' : 'units of J', second: 'units of U' },
+            rows: parameterRows,
+          },
+          ...(labRows.length > 0
+            ? [{ kind: 'keyValueTable' as const, caption: 'Lattice from the laboratory description (band structure and Wannier functions)', rows: labRows }]
+            : []),
+          { kind: 'keyValueTable', caption: 'Totals', rows: resultRows },
+        ],
+      },
+      {
+        heading: 'Pictures',
+        blocks: images.map((img) => ({ kind: 'image' as const, pngBytes: img.png, alt: img.title, caption: img.title })),
+      },
+      { heading: 'Profiles', blocks: profileBlocks },
+      {
+        heading: 'Shells and phases',
+        blocks: [
+          {
+            kind: 'table',
+            caption: 'Mott shells: sites labelled Mott insulator of each filling, and the trap-scaled radii they span',
+            columns: [
+              { header: 'shell' },
+              { header: 'sites' },
+              { header: 'atoms' },
+              { header: 'inner radius', unit: radiusUnit },
+              { header: 'outer radius', unit: radiusUnit },
+            ],
+            rows: shellRows.length > 0 ? shellRows : [['no Mott shell', 0, 0, null, null]],
+          },
+          {
+            kind: 'table',
+            caption: 'Sites and atoms per phase',
+            columns: [{ header: 'phase' }, { header: 'sites' }, { header: 'atoms' }, { header: 'fraction of atoms' }, { header: 'condensed atoms' }],
+            rows: phaseRows,
+          },
+          {
+            kind: 'paragraph',
+            text:
+              `Phase labels use these thresholds: superfluid where |phi|² > ${t.condensateMin}; Mott insulator where |n − round(n)| < ${t.integerTolerance} ` +
+              `and U·dn/dmu < ${t.compressibilityMin}; empty where n < ${t.emptyDensityMax}; compressible sites without condensate are labelled ` +
+              `${phaseTitles[classification.compressibleWithoutCondensate]}. Superfluid clusters: ${classification.clusters.count}` +
+              `, largest ${classification.clusters.largestSize} sites; ${classification.superfluidSpans ? 'one spans the cloud' : 'none spans the cloud'}.`,
+          },
+        ],
+      },
+      {
+        heading: 'Convergence',
+        blocks: [
+          { kind: 'keyValueTable', rows: convergenceRows },
+          {
+            kind: 'residualHistory',
+            residuals: outcome.solve.residualHistory,
+            tolerance: scenario.solver.tolerance,
+            residualLabel: 'max |delta phi| per sweep',
+            caption: 'Every sweep of every stage (chemical-potential search, temperature search, compressibility) in order.',
+          },
+        ],
+      },
+      {
+        heading: 'Cautions',
+        blocks: [
+          {
+            kind: 'cautionList',
+            items: cautionsFor({ depthFromBeamPower: false, finiteTemperature: outcome.temperature > 0, showsLocalDensityPlots: true }),
+          },
+        ],
+      },
+      {
+        heading: 'Scenario',
+        blocks: [{ kind: 'codeBlock', caption: 'The scenario as solved (defaults filled in, overrides applied)', code: JSON.stringify(scenario, null, 2) }],
+      },
+    ],
+    footer: `tiercake ${toolVersion()}`,
+  };
+  return doc;
+}
+
+function inAllUnitsArray(values: Float64Array, unit: number): Float64Array {
+  const out = new Float64Array(values.length);
+  for (let i = 0; i < values.length; i++) out[i] = values[i] / unit;
+  return out;
+}
+
+function fmt(x: number): string {
+  return Number.isFinite(x) ? x.toExponential(2) : String(x);
+}
