@@ -67,12 +67,7 @@
 
 import { seededRandom } from '../numerics/seededRandom.js';
 import { BESSEL_J1_FIRST_ZERO } from './speckleGrain.js';
-import {
-  complexFftPlan,
-  nextPowerOfTwo,
-  transformColumn,
-  transformRows,
-} from '../numerics/gridFft.js';
+import { ComplexFft2d, nextPowerOfTwo } from '../numerics/fft.js';
 
 export {
   BESSEL_J1_FIRST_ZERO,
@@ -366,12 +361,8 @@ export function speckleIntensity(options: SpeckleIntensityOptions): Float64Array
   const phase2Re = new Float64Array(wave2.length);
   const phase2Im = new Float64Array(wave2.length);
 
-  const rowPlan = complexFftPlan(cols);
-  const columnPlan = complexFftPlan(rows);
+  const fft = new ComplexFft2d(rows, cols);
   const field = new Float64Array(2 * rows * cols);
-  const rowBuffer = new Float64Array(2 * cols);
-  const columnIn = new Float64Array(2 * rows);
-  const columnOut = new Float64Array(2 * rows);
   const filtered = sigma > 0;
   const intensity = filtered ? new Float64Array(2 * rows * cols) : field;
   const transfer1 = filtered ? gaussianTransfer(rows, plan.paddedSites[0], sigma) : undefined;
@@ -420,12 +411,12 @@ export function speckleIntensity(options: SpeckleIntensityOptions): Float64Array
             field[at + 1] += cellRe[p] * sin + cellIm[p] * cos;
           }
         }
-        transformRows(field, rows, cols, rowPlan, rowBuffer, false, rowUsed);
+        fft.transformRows(field, 'forward', rowUsed);
         if (!filtered) {
           // Only the columns and rows at sites are needed (one point per site here).
           const planeOffset = b * strideBeam;
           for (let j = 0; j < n2; j++) {
-            transformColumn(field, rows, cols, j, columnPlan, columnIn, columnOut, false, false);
+            const columnOut = fft.transformColumn(field, j, 'forward');
             const base = planeOffset + j * stride2;
             for (let i = 0; i < n1; i++) {
               const re = columnOut[2 * i];
@@ -436,9 +427,7 @@ export function speckleIntensity(options: SpeckleIntensityOptions): Float64Array
         } else {
           // Write the columns back, then accumulate |E|^2 in one sequential sweep
           // (accumulating column by column would stride through memory).
-          for (let j = 0; j < cols; j++) {
-            transformColumn(field, rows, cols, j, columnPlan, columnIn, columnOut, false, true);
-          }
+          fft.transformColumns(field, 'forward');
           for (let at = 0; at < field.length; at += 2) {
             const re = field[at];
             const im = field[at + 1];
@@ -449,10 +438,7 @@ export function speckleIntensity(options: SpeckleIntensityOptions): Float64Array
     }
     if (!filtered || transfer1 === undefined || transfer2 === undefined) continue;
     // Transverse Gaussian average: exact multiplication of the resolved intensity spectrum.
-    transformRows(intensity, rows, cols, rowPlan, rowBuffer, false);
-    for (let j = 0; j < cols; j++) {
-      transformColumn(intensity, rows, cols, j, columnPlan, columnIn, columnOut, false, true);
-    }
+    fft.transform(intensity, 'forward');
     for (let i = 0; i < rows; i++) {
       const t1 = transfer1[i];
       let at = 2 * i * cols;
@@ -462,9 +448,9 @@ export function speckleIntensity(options: SpeckleIntensityOptions): Float64Array
         intensity[at + 1] *= t;
       }
     }
-    transformRows(intensity, rows, cols, rowPlan, rowBuffer, true);
+    fft.transformRows(intensity, 'inverse');
     for (let j = 0; j < n2; j++) {
-      transformColumn(intensity, rows, cols, j * m, columnPlan, columnIn, columnOut, true, false);
+      const columnOut = fft.transformColumn(intensity, j * m, 'inverse');
       for (let slot = 0; slot < planesHere; slot++) {
         const base = (b0 + slot) * strideBeam + j * stride2;
         for (let i = 0; i < n1; i++) out[base + i * stride1] = columnOut[2 * i * m + slot];

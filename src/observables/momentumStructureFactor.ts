@@ -25,7 +25,7 @@
 // two, M >= lattice length); fft.js computes sum_r x_r e^{-i k r}, which is the sum
 // above with x = phi. Discrete Parseval: sum over the M^2 samples of B = M^2 N exactly.
 
-import { Fft2d, isPowerOfTwo, nextPowerOfTwo } from '../numerics/fft2d.js';
+import { ComplexFft2d, isPowerOfTwo, nextPowerOfTwo } from '../numerics/fft.js';
 
 export interface OrderParameterField {
   /** Re phi_i per site, C order over `shape`. */
@@ -103,8 +103,11 @@ export function momentumStructureFactor(
   }
 
   const coherentPower = new Float64Array(m * m);
-  const plan = new Fft2d(m, m);
+  const fft = new ComplexFft2d(m, m);
   const data = new Float64Array(2 * m * m);
+  // Zero padding: only the first lu rows of the grid hold lattice sites.
+  const rowMask = new Uint8Array(m);
+  rowMask.fill(1, 0, lu);
   for (let layer = 0; layer < layers; layer++) {
     let any = false;
     for (let u = 0; u < lu && !any; u++) {
@@ -126,7 +129,7 @@ export function momentumStructureFactor(
         data[p + 1] = phiIm === undefined ? 0 : phiIm[s];
       }
     }
-    plan.forwardInPlace(data, lu);
+    fft.transform(data, 'forward', rowMask);
     for (let q = 0; q < m * m; q++) {
       const re = data[2 * q];
       const im = data[2 * q + 1];
