@@ -7,14 +7,14 @@
 // the real symmetric tridiagonal matrix
 //     H_ll = (q + 2 l)^2 + s/2,     H_l,l+1 = H_l+1,l = -s/4,
 // whose two lowest eigenpairs are found by Sturm bisection and inverse iteration
-// (tridiagonalEigen.ts; cross-checked against ml-matrix's dense EigenvalueDecomposition in the
+// (numerics/tridiagonalBisection.ts; cross-checked against ml-matrix's dense EigenvalueDecomposition in the
 // tests).
 // Mapping to Mathieu's equation y'' + (a - 2 Q cos 2v) y = 0 (DLMF 28.2.1): E = s/2 + a with
 // Q = -s/4, so the lowest band runs from s/2 + a_0(s/4) at q = 0 to s/2 + b_1(s/4) at the zone
 // edge (a_0(-Q) = a_0(Q) and a_1(-Q) = b_1(Q), DLMF sec. 28.2(vi)). The tests check exactly this.
 
 import { requireFiniteInRange } from './parameterError.js';
-import { tridiagonalEigenvalue, tridiagonalEigenvector } from '../numerics/tridiagonalEigen.js';
+import { tridiagonalEigenvalue, tridiagonalEigenvector } from '../numerics/tridiagonalBisection.js';
 
 /**
  * Largest depth accepted by the band-structure routines (the plane-wave cutoff is verified up
@@ -26,7 +26,7 @@ export const maxDepthEr = 400;
  * Plane-wave cutoff L for depth s. The coefficients of the low bands fall off like
  * prod_l (s / 16 l^2) once 4 l^2 exceeds the band energy, so L must grow like sqrt(s);
  * L = 10 + sqrt(s)/2 keeps the truncation error of the two lowest bands below 1e-13 E_r up to
- * maxDepthEr (checked in test/physics-bands.test.ts against L + 8).
+ * maxDepthEr (checked in test/physics/bands.test.ts against L + 8).
  */
 export function planeWaveCutoffFor(depthEr: number): number {
   return 10 + Math.ceil(Math.sqrt(depthEr) / 2);
@@ -39,7 +39,7 @@ export function planeWaveCutoffFor(depthEr: number): number {
  * about |J_(M-1)|, which falls off like the Wannier tails.
  */
 export function quasiMomentumCountFor(depthEr: number): number {
-  // Measured (test/physics-bands.test.ts): with these counts J, int |w|^4 and the Wannier
+  // Measured (test/physics/bands.test.ts): with these counts J, int |w|^4 and the Wannier
   // spread agree with M = 512 to better than 1e-10 relative for depths >= 0.5 E_r.
   if (depthEr >= 5) return 16;
   if (depthEr >= 3) return 32;

@@ -14,7 +14,7 @@ import {
   quasiMomentumCountFor,
 } from '../../src/physics/bandStructure.js';
 import { latticeAxisParameters } from '../../src/physics/latticeAxis.js';
-import { tridiagonalEigenvalue, tridiagonalEigenvector } from '../../src/numerics/tridiagonalEigen.js';
+import { tridiagonalEigenvalue, tridiagonalEigenvector } from '../../src/numerics/tridiagonalBisection.js';
 import { tunnellingEr, wannierFunction1d } from '../../src/physics/wannier.js';
 
 // --- Mathieu characteristic values by an independent algorithm -----------------------------
