@@ -11,7 +11,7 @@
 //   uniform pairs per sample) at any mean. Its acceptance test needs ln k!, which we take
 //   from an exact table for k < 32 and Stirling's series beyond (A&S 6.1.41 with terms
 //   to k^-7, relative error far below 1e-15 there).
-// Uniforms come from src/lattice/seededRandom.ts (xoshiro128**).
+// Uniforms come from src/numerics/seededRandom.ts (xoshiro128**).
 
 import { seededRandom, type SeededRandom } from '../numerics/seededRandom.js';
 
