@@ -10,11 +10,12 @@
 //
 // Per bin [b w, (b + 1) w): number of points, their mean radius, and for every field the
 // mean and the sample standard deviation (n - 1 in the denominator; NaN for fewer than
-// two points), accumulated with Welford's update (Welford, Technometrics 4, 419 (1962))
-// so large means with a small spread lose no digits. Empty bins have NaN means.
+// two points), accumulated with Welford's update (Welford, Technometrics 4, 419 (1962);
+// numerics/runningMoments.ts) so large means with a small spread lose no digits. Empty bins have NaN means.
 // The standard error of a bin mean is std / sqrt(count).
 
 import { findCloudCentre } from './cloudCentre.js';
+import { sampleSpread, welfordAddAt } from '../numerics/runningMoments.js';
 
 export { findCloudCentre, type CloudCentre } from './cloudCentre.js';
 
@@ -129,13 +130,7 @@ export function radialProfile(fields: Record<string, Float64Array>, options: Rad
         if (bin >= binCount) continue;
         const k = ++count[bin];
         radiusSum[bin] += r;
-        for (let f = 0; f < fieldArrays.length; f++) {
-          const v = fieldArrays[f][i];
-          const mean = means[f];
-          const delta = v - mean[bin];
-          mean[bin] += delta / k;
-          m2[f][bin] += delta * (v - mean[bin]);
-        }
+        for (let f = 0; f < fieldArrays.length; f++) welfordAddAt(means[f], m2[f], bin, fieldArrays[f][i], k);
         if (muSum !== undefined && energy !== undefined) muSum[bin] += energy.mu - energy.siteEnergy[i];
       }
     }
@@ -150,12 +145,8 @@ export function radialProfile(fields: Record<string, Float64Array>, options: Rad
   const out: Record<string, FieldProfile> = {};
   names.forEach((name, f) => {
     const mean = means[f];
-    const std = new Float64Array(binCount);
-    for (let b = 0; b < binCount; b++) {
-      if (count[b] === 0) mean[b] = NaN;
-      std[b] = count[b] >= 2 ? Math.sqrt(m2[f][b] / (count[b] - 1)) : NaN;
-    }
-    out[name] = { mean, std };
+    for (let b = 0; b < binCount; b++) if (count[b] === 0) mean[b] = NaN;
+    out[name] = { mean, std: sampleSpread(m2[f], count, NaN) };
   });
   let localChemicalPotential: Float64Array | undefined;
   if (muSum !== undefined) {
