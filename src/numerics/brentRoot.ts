@@ -112,7 +112,13 @@ export function brentRoot(
   }
 }
 
-/** The same with an asynchronous function; `abort()` ends the search early (not converged). */
+/**
+ * The same with an asynchronous function; `abort()` ends the search early (not converged).
+ * Unlike the synchronous driver, `converged` here means |f| <= fTolerance: a bracket that
+ * closes to xTolerance around a jump of f (N(mu) across a Mott plateau, say) is reported
+ * as not converged, because the target value was never reached. End points within
+ * fTolerance are accepted without an evaluation.
+ */
 export async function brentRootAsync(
   f: (x: number) => Promise<number>,
   a: number,
