@@ -75,6 +75,9 @@ export function leastSquaresFit(problem: LeastSquaresProblem, options: LeastSqua
   if (degreesOfFreedom < 1) {
     throw new Error(`leastSquaresFit: ${nData} data points cannot constrain ${nPar} parameters; give more data or fix parameters`);
   }
+  if (typeof problem.sigma !== 'number' && problem.sigma.length !== nData) {
+    throw new Error(`leastSquaresFit: sigma has ${problem.sigma.length} entries, data has ${nData}`);
+  }
   const invSigma = new Float64Array(nData);
   for (let i = 0; i < nData; i++) {
     const s = typeof problem.sigma === 'number' ? problem.sigma : problem.sigma[i];
@@ -82,9 +85,6 @@ export function leastSquaresFit(problem: LeastSquaresProblem, options: LeastSqua
       throw new Error(`leastSquaresFit: sigma must be positive and finite, got ${s} at data point ${i}`);
     }
     invSigma[i] = 1 / s;
-  }
-  if (typeof problem.sigma !== 'number' && problem.sigma.length !== nData) {
-    throw new Error(`leastSquaresFit: sigma has ${problem.sigma.length} entries, data has ${nData}`);
   }
   const lower = Float64Array.from({ length: nPar }, (_, j) => problem.lower?.[j] ?? -Infinity);
   const upper = Float64Array.from({ length: nPar }, (_, j) => problem.upper?.[j] ?? Infinity);

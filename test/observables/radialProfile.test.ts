@@ -1,8 +1,7 @@
-// Radial profiles, cloud centre and Levenberg-Marquardt fitting.
+// Radial profiles and the cloud centre (moved from test/numerics/fit.test.ts).
 
 import { describe, expect, it } from 'vitest';
 import { findCloudCentre, radialProfile } from '../../src/observables/radialProfile.js';
-import { leastSquaresFit } from '../../src/numerics/leastSquaresFit.js';
 import { seededRandom } from '../../src/numerics/seededRandom.js';
 
 function gaussianImage(nx: number, ny: number, cx: number, cy: number, sx: number, sy: number, amplitude: number): Float64Array {
@@ -132,81 +131,5 @@ describe('cloud centre', () => {
     expect(found.background).toBeGreaterThan(1.5);
     expect(found.background).toBeLessThan(2.5);
     expect(() => findCloudCentre(new Float64Array(4), [2, 2])).toThrow(/no positive values/);
-  });
-});
-
-describe('Levenberg-Marquardt fit', () => {
-  it('reproduces the closed-form weighted straight-line fit (Bevington & Robinson eqs. 6.12, 6.21)', () => {
-    // For y = c0 + c1 x with weights 1/sigma^2: Delta = S Sxx - Sx^2,
-    // c0 = (Sxx Sy - Sx Sxy) / Delta, c1 = (S Sxy - Sx Sy) / Delta,
-    // sigma_c0^2 = Sxx / Delta, sigma_c1^2 = S / Delta. Tolerance 1e-7 relative:
-    // the numerical Jacobian of a linear model is exact to ~1e-10.
-    const random = seededRandom('line');
-    const x = Float64Array.from({ length: 25 }, (_, i) => i * 0.4 - 3);
-    const sigma = Float64Array.from({ length: 25 }, () => 0.1 + 0.3 * random.uniform());
-    const y = Float64Array.from(x, (xi, i) => 1.7 - 0.8 * xi + sigma[i] * random.normal());
-    let S = 0, Sx = 0, Sy = 0, Sxx = 0, Sxy = 0;
-    for (let i = 0; i < x.length; i++) {
-      const w = 1 / sigma[i] ** 2;
-      S += w; Sx += w * x[i]; Sy += w * y[i]; Sxx += w * x[i] ** 2; Sxy += w * x[i] * y[i];
-    }
-    const delta = S * Sxx - Sx * Sx;
-    const fit = leastSquaresFit({
-      model: (p) => Float64Array.from(x, (xi) => p[0] + p[1] * xi),
-      data: y,
-      sigma,
-      initial: [0, 0],
-    });
-    expect(fit.converged).toBe(true);
-    expect(Math.abs(fit.best[0] / ((Sxx * Sy - Sx * Sxy) / delta) - 1)).toBeLessThan(1e-7);
-    expect(Math.abs(fit.best[1] / ((S * Sxy - Sx * Sy) / delta) - 1)).toBeLessThan(1e-7);
-    expect(Math.abs(fit.uncertaintyFromSigma[0] / Math.sqrt(Sxx / delta) - 1)).toBeLessThan(1e-6);
-    expect(Math.abs(fit.uncertaintyFromSigma[1] / Math.sqrt(S / delta) - 1)).toBeLessThan(1e-6);
-    expect(fit.degreesOfFreedom).toBe(23);
-    expect(fit.uncertainty[1]).toBeCloseTo(fit.uncertaintyFromSigma[1] * Math.sqrt(fit.reducedChiSquare), 12);
-  });
-
-  it('recovers Gaussian amplitude, centre and width within the reported uncertainties, with chi^2_nu ~ 1', () => {
-    // Over R realisations of correctly weighted Gaussian noise: the pulls
-    // (best - true) / uncertainty have unit spread, and chi^2 has mean nu and variance
-    // 2 nu (Bevington & Robinson, ch. 11), so the mean reduced chi-square is 1 within
-    // sqrt(2 / (nu R)). Tolerances: 5 standard errors; the standard error of an
-    // estimated standard deviation from R values is 1 / sqrt(2 R).
-    const truth = [12, 0.4, 1.3];
-    const x = Float64Array.from({ length: 80 }, (_, i) => -5 + (10 * i) / 79);
-    const model = (p: Float64Array) => Float64Array.from(x, (xi) => p[0] * Math.exp(-((xi - p[1]) ** 2) / (2 * p[2] * p[2])));
-    const clean = model(Float64Array.from(truth));
-    const noise = 0.5;
-    const realisations = 300;
-    const pullSq = [0, 0, 0];
-    let chiSum = 0;
-    const random = seededRandom('lm/gauss');
-    for (let r = 0; r < realisations; r++) {
-      const data = Float64Array.from(clean, (v) => v + noise * random.normal());
-      const fit = leastSquaresFit({ model, data, sigma: noise, initial: [8, -0.5, 2], lower: [0, -5, 0.05] });
-      expect(fit.converged).toBe(true);
-      for (let j = 0; j < 3; j++) {
-        pullSq[j] += ((fit.best[j] - truth[j]) / fit.uncertainty[j]) ** 2;
-        // A single fit: within 5 reported standard uncertainties.
-        expect(Math.abs(fit.best[j] - truth[j])).toBeLessThan(5 * fit.uncertainty[j]);
-      }
-      chiSum += fit.reducedChiSquare;
-    }
-    const nu = 77;
-    expect(Math.abs(chiSum / realisations - 1)).toBeLessThan(5 * Math.sqrt(2 / (nu * realisations)));
-    for (let j = 0; j < 3; j++) {
-      expect(Math.abs(Math.sqrt(pullSq[j] / realisations) - 1)).toBeLessThan(5 / Math.sqrt(2 * realisations));
-    }
-  });
-
-  it('keeps parameters inside their bounds and says which ended on one', () => {
-    // The true amplitude 12 lies above the upper bound 10: the best bounded fit sits on it.
-    const x = Float64Array.from({ length: 40 }, (_, i) => -4 + i * 0.2);
-    const model = (p: Float64Array) => Float64Array.from(x, (xi) => p[0] * Math.exp(-(xi * xi) / (2 * p[1] * p[1])));
-    const data = model(Float64Array.from([12, 1.3]));
-    const fit = leastSquaresFit({ model, data, sigma: 0.1, initial: [5, 1], upper: [10, 5], lower: [0, 0.1] });
-    expect(fit.best[0]).toBe(10);
-    expect(fit.atBound).toEqual([true, false]);
-    expect(() => leastSquaresFit({ model, data: data.subarray(0, 2), sigma: 1, initial: [1, 1] })).toThrow(/2 data points/);
   });
 });
