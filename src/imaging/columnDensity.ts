@@ -8,6 +8,7 @@
 // "the axis perpendicular to a 2D layer" is axis 2, the default.
 
 import type { PlanarField } from './planarField.js';
+import { gridSizes } from '../lattice/gridShape.js';
 
 export type ImagingAxis = 0 | 1 | 2;
 
@@ -26,19 +27,9 @@ export function columnDensity(
   shape: readonly number[],
   axis: ImagingAxis = 2,
 ): ColumnDensity {
-  if (shape.length < 1 || shape.length > 3) {
-    throw new Error(`columnDensity: shape must have 1 to 3 axes, got [${shape.join(', ')}]`);
-  }
+  const [n0, n1, n2] = gridSizes(shape, 'columnDensity');
   if (axis !== 0 && axis !== 1 && axis !== 2) {
     throw new Error(`columnDensity: imaging axis must be 0, 1 or 2, got ${String(axis)}`);
-  }
-  const n0 = shape[0];
-  const n1 = shape.length > 1 ? shape[1] : 1;
-  const n2 = shape.length > 2 ? shape[2] : 1;
-  for (const n of [n0, n1, n2]) {
-    if (!Number.isInteger(n) || n < 1) {
-      throw new Error(`columnDensity: shape entries must be positive integers, got [${shape.join(', ')}]`);
-    }
   }
   if (siteField.length !== n0 * n1 * n2) {
     throw new Error(

@@ -19,6 +19,7 @@
 import { decodeNpy } from '../formats/npy.js';
 import { decodePng, pngSignature } from '../formats/pngCodec.js';
 import type { PlanarField } from './planarField.js';
+import { ParameterError } from '../physics/parameterError.js';
 
 export type RotationDeg = 0 | 90 | 180 | 270;
 
@@ -48,12 +49,14 @@ export interface MeasuredImage extends PlanarField {
 }
 
 /** An error in the measured image or in an option about it; `option` names the command-line option. */
-export class MeasuredImageError extends Error {
-  readonly option: string;
+export class MeasuredImageError extends ParameterError {
   constructor(option: string, message: string) {
-    super(`${option}: ${message}`);
+    super(option, message);
     this.name = 'MeasuredImageError';
-    this.option = option;
+  }
+
+  get option(): string {
+    return this.parameter;
   }
 }
 

@@ -68,6 +68,7 @@
 import { seededRandom } from '../numerics/seededRandom.js';
 import { BESSEL_J1_FIRST_ZERO } from './speckleGrain.js';
 import { ComplexFft2d, nextPowerOfTwo } from '../numerics/fft.js';
+import { gridSizes } from './gridShape.js';
 
 export {
   BESSEL_J1_FIRST_ZERO,
@@ -150,16 +151,7 @@ function checkPositive(name: string, value: number, hint: string): void {
 
 function resolveGeometry(options: SpeckleGeometryOptions): ResolvedGeometry {
   const { shape, grainSites } = options;
-  if (!Array.isArray(shape) || shape.length < 1 || shape.length > 3) {
-    throw new RangeError(
-      `speckle shape: expected [nx], [nx, ny] or [nx, ny, nz], got ${JSON.stringify(shape)}`,
-    );
-  }
-  shape.forEach((n, axis) => {
-    if (!Number.isInteger(n) || n < 1) {
-      throw new RangeError(`speckle shape[${axis}]: expected an integer >= 1, got ${n}`);
-    }
-  });
+  gridSizes(shape, 'speckle');
   checkPositive('grainSites', grainSites, 'grain size in lattice sites');
   const sigma = options.wannierWidthSites ?? 0;
   if (!Number.isFinite(sigma) || sigma < 0) {

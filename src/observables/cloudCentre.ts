@@ -15,6 +15,8 @@
 // image analysis (common practice). For site fields with empty borders the background
 // is zero and the result is the plain centroid refined by the window.
 
+import { gridSizes } from '../lattice/gridShape.js';
+
 export interface CloudCentre {
   /** Centre in grid-index units, one entry per axis (axis 0 first). */
   centre: Float64Array;
@@ -39,10 +41,7 @@ function median(values: number[]): number {
 }
 
 export function findCloudCentre(values: Float64Array, shape: readonly number[]): CloudCentre {
-  if (shape.length < 1 || shape.length > 3) {
-    throw new Error(`findCloudCentre: shape must have 1 to 3 axes, got [${shape.join(', ')}]`);
-  }
-  const n = [shape[0], shape[1] ?? 1, shape[2] ?? 1];
+  const n = gridSizes(shape, 'findCloudCentre');
   const total = n[0] * n[1] * n[2];
   if (values.length !== total) {
     throw new Error(`findCloudCentre: shape [${shape.join(', ')}] needs ${total} values, got ${values.length}`);

@@ -26,6 +26,7 @@
 // above with x = phi. Discrete Parseval: sum over the M^2 samples of B = M^2 N exactly.
 
 import { ComplexFft2d, isPowerOfTwo, nextPowerOfTwo } from '../numerics/fft.js';
+import { gridSizes } from '../lattice/gridShape.js';
 
 export interface OrderParameterField {
   /** Re phi_i per site, C order over `shape`. */
@@ -65,10 +66,7 @@ export function momentumStructureFactor(
   options: MomentumStructureOptions = {},
 ): MomentumStructureFactor {
   const { shape, phiRe, phiIm, density } = field;
-  if (shape.length < 1 || shape.length > 3) {
-    throw new Error(`momentumStructureFactor: shape must have 1 to 3 axes, got [${shape.join(', ')}]`);
-  }
-  const n = [shape[0], shape[1] ?? 1, shape[2] ?? 1];
+  const n = gridSizes(shape, 'momentumStructureFactor');
   const sites = n[0] * n[1] * n[2];
   if (phiRe.length !== sites || density.length !== sites || (phiIm !== undefined && phiIm.length !== sites)) {
     throw new Error(`momentumStructureFactor: phi and density must each hold ${sites} values for shape [${shape.join(', ')}]`);

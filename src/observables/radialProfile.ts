@@ -16,6 +16,7 @@
 
 import { findCloudCentre } from './cloudCentre.js';
 import { sampleSpread, welfordAddAt } from '../numerics/runningMoments.js';
+import { gridSizes } from '../lattice/gridShape.js';
 
 export { findCloudCentre, type CloudCentre } from './cloudCentre.js';
 
@@ -58,11 +59,8 @@ export function radialProfile(fields: Record<string, Float64Array>, options: Rad
   const { shape, binWidth } = options;
   const names = Object.keys(fields);
   if (names.length === 0) throw new Error('radialProfile: give at least one field');
-  if (shape.length < 1 || shape.length > 3) {
-    throw new Error(`radialProfile: shape must have 1 to 3 axes, got [${shape.join(', ')}]`);
-  }
+  const n = gridSizes(shape, 'radialProfile');
   const dims = shape.length;
-  const n = [shape[0], shape[1] ?? 1, shape[2] ?? 1];
   const points = n[0] * n[1] * n[2];
   for (const name of names) {
     if (fields[name].length !== points) {

@@ -30,6 +30,8 @@
 // Labels are numbered 0, 1, ... in the order in which a C-order scan first meets each
 // cluster, so they are deterministic.
 
+import { gridSizes } from '../lattice/gridShape.js';
+
 export interface ClusterLabellingOptions {
   /** Lattice shape [nx], [nx, ny] or [nx, ny, nz]; C order, first axis slowest. */
   shape: readonly number[];
@@ -69,21 +71,9 @@ export function labelSuperfluidClusters(
   options: ClusterLabellingOptions,
 ): SuperfluidClusters {
   const { shape } = options;
-  if (!Array.isArray(shape) || shape.length < 1 || shape.length > 3) {
-    throw new RangeError(
-      `clusters shape: expected [nx], [nx, ny] or [nx, ny, nz], got ${JSON.stringify(shape)}`,
-    );
-  }
-  shape.forEach((n, axis) => {
-    if (!Number.isInteger(n) || n < 1) {
-      throw new RangeError(`clusters shape[${axis}]: expected an integer >= 1, got ${n}`);
-    }
-  });
   // Work in 3D: trailing axes of length 1 leave the C-order index unchanged.
-  const n0 = shape[0];
-  const n1 = shape.length > 1 ? shape[1] : 1;
-  const n2 = shape.length > 2 ? shape[2] : 1;
-  const sizes3 = [n0, n1, n2];
+  const sizes3 = gridSizes(shape, 'clusters');
+  const [n0, n1, n2] = sizes3;
   const siteCount = n0 * n1 * n2;
   if (mask.length !== siteCount) {
     throw new RangeError(`clusters mask: expected ${siteCount} sites for shape ${JSON.stringify(shape)}, got ${mask.length}`);
@@ -123,20 +113,19 @@ export function labelSuperfluidClusters(
 
   const labels = new Int32Array(siteCount).fill(-1);
   const queue = new Int32Array(siteCount);
-  // Winding numbers only for periodic axes (zero-length arrays otherwise).
-  const winding = [0, 1, 2].map((a) => new Int32Array(periodic[a] ? siteCount : 0));
-  const [w0, w1, w2] = winding;
-  const [p0, p1, p2] = periodic;
-  const anyPeriodic = p0 || p1 || p2;
-  const stride0 = n1 * n2;
-  const stride1 = n2;
+  const anyPeriodic = periodic[0] || periodic[1] || periodic[2];
+  // Winding numbers of every site along the three axes (3 s + axis), only with a periodic
+  // axis; along an open axis they stay 0.
+  const winding = new Int32Array(anyPeriodic ? 3 * siteCount : 0);
+  const strides = [n1 * n2, n2, 1];
+  const last = [n0 - 1, n1 - 1, n2 - 1];
   const clusterSizes: number[] = [];
   const clusterSpans: number[] = [];
   let markedSites = 0;
-
-  const last0 = n0 - 1;
-  const last1 = n1 - 1;
-  const last2 = n2 - 1;
+  // Scratch, allocated once: coordinates of the current site, the cluster's bounding box.
+  const coord = new Int32Array(3);
+  const boxMin = new Int32Array(3);
+  const boxMax = new Int32Array(3);
 
   for (let seedSite = 0; seedSite < siteCount; seedSite++) {
     if (mask[seedSite] === 0 || labels[seedSite] >= 0) continue;
@@ -146,79 +135,56 @@ export function labelSuperfluidClusters(
     let tail = 0;
     queue[tail++] = seedSite;
     labels[seedSite] = label;
-    if (p0) w0[seedSite] = 0;
-    if (p1) w1[seedSite] = 0;
-    if (p2) w2[seedSite] = 0;
-    let min0 = n0, max0 = -1, min1 = n1, max1 = -1, min2 = n2, max2 = -1;
+    boxMin.set(sizes3);
+    boxMax.fill(-1);
 
     while (head < tail) {
       const s = queue[head++];
-      const x = (s / stride0) | 0;
-      const rest = s - x * stride0;
-      const y = (rest / stride1) | 0;
-      const z = rest - y * stride1;
-      if (x < min0) min0 = x;
-      if (x > max0) max0 = x;
-      if (y < min1) min1 = y;
-      if (y > max1) max1 = y;
-      if (z < min2) min2 = z;
-      if (z > max2) max2 = z;
-      const ws0 = p0 ? w0[s] : 0;
-      const ws1 = p1 ? w1[s] : 0;
-      const ws2 = p2 ? w2[s] : 0;
-      // Six neighbours. A bond across a periodic boundary changes that axis's winding
-      // number by -1 (leaving through the low face) or +1 (through the high face).
-      // (An axis of length 1 is never periodic here, so it has no neighbours.)
-      for (let slot = 0; slot < 6; slot++) {
-        let t = -1;
-        let d0 = 0;
-        let d1 = 0;
-        let d2 = 0;
-        switch (slot) {
-          case 0:
-            if (x > 0) t = s - stride0;
-            else if (p0) (t = s + last0 * stride0), (d0 = -1);
-            break;
-          case 1:
-            if (x < last0) t = s + stride0;
-            else if (p0) (t = s - last0 * stride0), (d0 = 1);
-            break;
-          case 2:
-            if (y > 0) t = s - stride1;
-            else if (p1) (t = s + last1 * stride1), (d1 = -1);
-            break;
-          case 3:
-            if (y < last1) t = s + stride1;
-            else if (p1) (t = s - last1 * stride1), (d1 = 1);
-            break;
-          case 4:
-            if (z > 0) t = s - 1;
-            else if (p2) (t = s + last2), (d2 = -1);
-            break;
-          default:
-            if (z < last2) t = s + 1;
-            else if (p2) (t = s - last2), (d2 = 1);
-        }
-        if (t < 0 || mask[t] === 0) continue;
-        if (labels[t] < 0) {
-          labels[t] = label;
-          if (p0) w0[t] = ws0 + d0;
-          if (p1) w1[t] = ws1 + d1;
-          if (p2) w2[t] = ws2 + d2;
-          queue[tail++] = t;
-        } else if (anyPeriodic) {
-          // Already in this cluster: inconsistent windings mean a loop around the torus.
-          if (p0 && w0[t] !== ws0 + d0) wraps |= 1;
-          if (p1 && w1[t] !== ws1 + d1) wraps |= 2;
-          if (p2 && w2[t] !== ws2 + d2) wraps |= 4;
+      coord[0] = (s / strides[0]) | 0;
+      const rest = s - coord[0] * strides[0];
+      coord[1] = (rest / strides[1]) | 0;
+      coord[2] = rest - coord[1] * strides[1];
+      for (let a = 0; a < 3; a++) {
+        if (coord[a] < boxMin[a]) boxMin[a] = coord[a];
+        if (coord[a] > boxMax[a]) boxMax[a] = coord[a];
+      }
+      // Six neighbours, the low then the high face of each axis. A bond across a periodic
+      // boundary changes that axis's winding number by -1 (leaving through the low face)
+      // or +1 (through the high face). (An axis of length 1 is never periodic here, so it
+      // has no neighbours.)
+      for (let a = 0; a < 3; a++) {
+        for (let step = -1; step <= 1; step += 2) {
+          let t = -1;
+          let crossing = 0;
+          if (step < 0 ? coord[a] > 0 : coord[a] < last[a]) t = s + step * strides[a];
+          else if (periodic[a]) {
+            t = s - step * last[a] * strides[a];
+            crossing = step;
+          }
+          if (t < 0 || mask[t] === 0) continue;
+          if (labels[t] < 0) {
+            labels[t] = label;
+            queue[tail++] = t;
+            if (anyPeriodic) {
+              const from = 3 * s;
+              const to = 3 * t;
+              winding[to] = winding[from];
+              winding[to + 1] = winding[from + 1];
+              winding[to + 2] = winding[from + 2];
+              winding[to + a] += crossing;
+            }
+          } else if (anyPeriodic) {
+            // Already in this cluster: inconsistent windings mean a loop around the torus.
+            for (let b = 0; b < 3; b++) {
+              if (winding[3 * t + b] !== winding[3 * s + b] + (b === a ? crossing : 0)) wraps |= 1 << b;
+            }
+          }
         }
       }
     }
 
     let spanBits = wraps;
-    if (openSpanAxis[0] && min0 <= lo[0] && max0 >= hi[0]) spanBits |= 1;
-    if (openSpanAxis[1] && min1 <= lo[1] && max1 >= hi[1]) spanBits |= 2;
-    if (openSpanAxis[2] && min2 <= lo[2] && max2 >= hi[2]) spanBits |= 4;
+    for (let a = 0; a < 3; a++) if (openSpanAxis[a] && boxMin[a] <= lo[a] && boxMax[a] >= hi[a]) spanBits |= 1 << a;
     clusterSizes.push(tail);
     clusterSpans.push(spanBits);
     markedSites += tail;
