@@ -82,24 +82,13 @@ export function timeOfFlightImage(structure: MomentumStructureFactor, options: T
   const dk = (2 * Math.PI) / (m * a);
   const pixelUm = flightDistanceUm(dk, flightTimeMs, massKg);
 
-  const xCentresUm = new Float64Array(size);
-  const kInTwoHbarKl = new Float64Array(size);
-  const envX = new Float64Array(size);
-  const envY = new Float64Array(size);
-  const kAxis = new Float64Array(size);
-  for (let p = 0; p < size; p++) {
-    const j = p - offset;
-    kAxis[p] = j * dk;
-    xCentresUm[p] = j * pixelUm;
-    kInTwoHbarKl[p] = j / m;
-  }
+  // Axes of pixel p, with k index j = p - offset.
+  const kAxis = Float64Array.from({ length: size }, (_, p) => (p - offset) * dk);
+  const xCentresUm = Float64Array.from({ length: size }, (_, p) => (p - offset) * pixelUm);
+  const kInTwoHbarKl = Float64Array.from({ length: size }, (_, p) => (p - offset) / m);
   const separable = envelope.factors;
-  if (separable !== undefined) {
-    for (let p = 0; p < size; p++) {
-      envX[p] = separable.x(kAxis[p]);
-      envY[p] = separable.y(kAxis[p]);
-    }
-  }
+  const envX = separable === undefined ? new Float64Array(size) : kAxis.map((k) => separable.x(k));
+  const envY = separable === undefined ? new Float64Array(size) : kAxis.map((k) => separable.y(k));
 
   // atoms per pixel = |w~|^2 B dk^2 / (2 pi)^2 = |w~|^2 B / (M a)^2
   const cellFactor = 1 / (m * a * (m * a));
