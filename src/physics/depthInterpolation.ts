@@ -5,7 +5,7 @@
 // Zwerger, J. Opt. B 5, S9 (2003)) on Chebyshev points and evaluated by barycentric Lagrange
 // interpolation (Berrut & Trefethen, SIAM Review 46, 501 (2004)), which converges
 // exponentially for these analytic functions. The interpolation error is checked in
-// test/physics-hubbard.test.ts.
+// test/physics/hubbard.test.ts.
 
 import { latticeAxisParameters, maxAxisDepthEr, minAxisDepthEr } from './latticeAxis.js';
 import { ParameterError } from './parameterError.js';
