@@ -182,4 +182,12 @@ async function wholeSolve(model, atoms, thermal, threads) {
   log('ensemble', '64x64 speckle layer, 2 threads (realisations side by side)', r.twoThreads.realisationsPerMinute, 'real./min', `x${r.speedUp.toFixed(2)}${r.identical ? '' : ' NOT IDENTICAL'}`);
 }
 
+// 7. Figures of a solve ---------------------------------------------------------------
+{
+  const { runFigureBench } = await import('./figureBench.mjs');
+  for (const r of await runFigureBench()) {
+    log('figures', `${r.name}: all ${r.images} images of a solve, SVG -> PNG`, r.milliseconds, 'ms', `${(r.pngBytes / 1024).toFixed(0)} KiB of PNG`);
+  }
+}
+
 await pool.destroy();

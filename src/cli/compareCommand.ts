@@ -23,8 +23,9 @@ import * as z from 'zod';
 import { OutputFolder } from '../output/outputFolder.js';
 import { encodeNpy } from '../formats/npy.js';
 import { toCsv } from '../formats/csv.js';
-import { encodeRgba8 } from '../formats/pngCodec.js';
-import { renderLinePlot } from '../figures/linePlotFigure.js';
+import { renderLinePlotSvg } from '../figures/linePlotSvg.js';
+import { sideBySideSvg } from '../figures/composeSvg.js';
+import { figureImage } from '../output/solveOutputs.js';
 import { decodeMeasuredImage, MeasuredImageError, type MeasuredImage } from '../imaging/measuredImage.js';
 import { findCloudCentre } from '../observables/cloudCentre.js';
 import { radialProfile } from '../observables/radialProfile.js';
@@ -39,7 +40,7 @@ import { parseThreads, prepareScenario, solveScenario } from '../pipeline/solveS
 import { jsonReplacer } from '../output/solveOutputs.js';
 import { cameraOptics, cameraPicture, cloudForImaging, type CameraOptics } from '../output/cameraOutputs.js';
 import { modelNoiseSigma, pixelNoiseModel, replayLeastSquaresFit, type ReplayedFit } from '../pipeline/compareFit.js';
-import { colourPictureFigure, pictureFiles, sideBySide, type PixelPicture } from '../output/pictureFiles.js';
+import { colourPictureFigure, pictureFiles, type PixelPicture } from '../output/pictureFiles.js';
 import { toolVersion } from '../output/toolVersion.js';
 
 export interface CompareCommandOptions {
@@ -441,33 +442,33 @@ export async function runCompareCommand(scenarioPath: string, options: CompareCo
   for (let i = 0; i < data.length; i++) minValue = Math.min(minValue, data[i]);
   const sharedRange = { min: minValue, max: maxValue > minValue ? maxValue : minValue + 1 };
   const common = { axisNames, lengthUnit: unit, quantity: 'atoms per pixel', valueRange: sharedRange } as const;
-  const measuredFigure = colourPictureFigure(measuredPicture, { ...common, title: 'measured (background subtracted)' });
-  const modelFigure = colourPictureFigure(modelPicture, { ...common, title: `model at the best fit` });
-  const pair = sideBySide([measuredFigure, modelFigure]);
+  // The pair is shown side by side: smaller images keep it about one report page wide, so
+  // its labels stay at their size instead of being scaled down with the picture.
+  const measuredFigure = colourPictureFigure(measuredPicture, { ...common, title: 'measured (background subtracted)', minImagePx: 300, maxImagePx: 350 });
+  const modelFigure = colourPictureFigure(modelPicture, { ...common, title: `model at the best fit`, minImagePx: 300, maxImagePx: 350 });
+  const pair = sideBySideSvg([measuredFigure, modelFigure], 'Measured and model pictures on the same colour scale');
   const residualFigure = colourPictureFigure(onGrid(residual), {
     axisNames,
     lengthUnit: unit,
-    quantity: 'measured - model, atoms per pixel',
+    quantity: 'measured − model, atoms per pixel',
     title: `${scenario.name}: residual`,
     colorMap: 'rift',
     symmetricRange: true,
   });
   const radius = Array.from(profile.meanRadius);
-  const plot = renderLinePlot(
-    [
-      { label: 'measured', x: radius, y: Array.from(profile.fields.measured.mean), yError: Array.from(measuredSem), line: 'none', marker: 'circle' },
-      { label: 'model (best fit)', x: radius, y: Array.from(profile.fields.model.mean) },
+  const profileSvg = renderLinePlotSvg({
+    title: `${scenario.name}: radial profiles`,
+    xAxis: { label: 'trap-scaled radius', unit: unit.short },
+    yAxis: { label: 'atoms per pixel' },
+    series: [
+      { label: 'measured (mean ± standard error)', x: radius, y: profile.fields.measured.mean, yErr: measuredSem, style: { line: 'none', marker: 'circle' } },
+      { label: 'model (best fit)', x: radius, y: profile.fields.model.mean },
     ],
-    {
-      title: `${scenario.name}: radial profiles`,
-      xLabel: `trap-scaled radius (${unit.short})`,
-      yLabel: 'atoms per pixel',
-    },
-  );
+  });
   const images = [
-    { file: 'images/side_by_side.png', title: 'Measured (left) and model at the best fit (right), same colour scale', png: encodeRgba8(pair.width, pair.height, pair.data) },
-    { file: 'images/residual.png', title: 'Residual: measured minus model', png: encodeRgba8(residualFigure.width, residualFigure.height, residualFigure.data) },
-    { file: 'images/profiles.png', title: 'Radial profiles on the same bins (measured: mean ± standard error per bin)', png: encodeRgba8(plot.width, plot.height, plot.data) },
+    figureImage('images/side_by_side.png', 'Measured (left) and model at the best fit (right), same colour scale', pair),
+    figureImage('images/residual.png', 'Residual: measured minus model', residualFigure),
+    figureImage('images/profiles.png', 'Radial profiles on the same bins (measured: mean ± standard error per bin)', profileSvg),
   ];
   const measuredFiles = pictureFiles(measuredPicture, {
     name: 'measured',
@@ -617,21 +618,13 @@ export async function runCompareCommand(scenarioPath: string, options: CompareCo
           { kind: 'paragraph', text: `Weights: ${noise.description}.` },
         ],
       },
-      { heading: 'Pictures', blocks: images.map((img) => ({ kind: 'image' as const, pngBytes: img.png, alt: img.title, caption: img.title })) },
+      {
+        heading: 'Pictures',
+        blocks: images.filter((img) => img.file !== 'images/profiles.png').map((img) => ({ kind: 'figure' as const, svg: img.svg, caption: img.title })),
+      },
       {
         heading: 'Radial profiles',
-        blocks: [
-          {
-            kind: 'linePlot',
-            xAxis: { label: 'trap-scaled radius', unit: unit.short },
-            yAxis: { label: 'atoms per pixel' },
-            series: [
-              { label: 'measured', x: radius, y: profile.fields.measured.mean, yErr: measuredSem, style: { line: 'none', marker: 'circle' } },
-              { label: 'model', x: radius, y: profile.fields.model.mean },
-            ],
-            caption: `Annular bins of ${binUm} ${unit.short} about the measured cloud centre.`,
-          },
-        ],
+        blocks: [{ kind: 'figure', svg: profileSvg, caption: `Annular bins of ${binUm} ${unit.short} about the measured cloud centre (the same figure as images/profiles.png).` }],
       },
       {
         heading: 'Settings',

@@ -6,8 +6,8 @@ import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { OutputFolder } from '../output/outputFolder.js';
 import { toCsv } from '../formats/csv.js';
-import { encodeRgba8 } from '../formats/pngCodec.js';
-import { renderFieldFigure } from '../figures/fieldFigure.js';
+import { renderFieldMapSvg } from '../figures/fieldMapSvg.js';
+import { svgToPng } from '../figures/svgToPng.js';
 import { renderReportHtml } from '../report/renderReport.js';
 import { MEAN_FIELD_CAUTION } from '../report/cautions.js';
 import { phaseMap } from '../solver/phaseMap.js';
@@ -76,19 +76,24 @@ export function runDiagram(options: DiagramOptions): number {
   const dmu = (muMax - muMin) / (rows - 1);
   const shadePhi = options.shade === 'phi';
   const title = temperature > 0 ? `Mean-field phase map at k_B T = ${temperature} U` : 'Mean-field phase map at T = 0';
-  const figure = renderFieldFigure(shadePhi ? result.orderParameter : result.density, columns, rows, {
+  // The superfluid edge is one continuous curve in mu (the lobes of successive fillings
+  // meet at zJ = 0 at T = 0 and join smoothly at T > 0): one path, so no joint is drawn
+  // twice, clipped at the frame instead of being pinned to its edge.
+  const edgeZ = result.boundaries.flatMap((b) => Array.from(b.zJ));
+  const edgeMu = result.boundaries.flatMap((b) => Array.from(b.mu));
+  const svg = renderFieldMapSvg({
+    values: shadePhi ? result.orderParameter : result.density,
+    nx: columns,
+    ny: rows,
     title,
     xAxis: { label: 'zJ/U', origin: 0, step: dz },
     yAxis: { label: 'mu/U', origin: muMin, step: dmu },
     colorBarLabel: shadePhi ? 'order parameter phi' : 'density n',
     colorMap: shadePhi ? 'ember' : 'glacier',
     pixelsPerSite: Math.max(1, Math.floor(600 / Math.max(columns, rows))),
-    overlays: result.boundaries.map((b) => ({
-      x: Array.from(b.zJ).map((z) => Math.min(z, zJMax)),
-      y: Array.from(b.mu),
-    })),
+    overlays: [{ x: edgeZ, y: edgeMu }],
   });
-  const png = encodeRgba8(figure.width, figure.height, figure.data);
+  const png = svgToPng(svg);
 
   const boundaryFilling: number[] = [];
   const boundaryMu: number[] = [];
@@ -158,7 +163,7 @@ export function runDiagram(options: DiagramOptions): number {
         createdIso: new Date().toISOString(),
         status: [{ level: 'ok', text: `${columns} × ${rows} grid in ${seconds.toFixed(2)} s` }],
         sections: [
-          { heading: 'Map', blocks: [{ kind: 'image', pngBytes: png, alt: title, caption: 'Lines: computed superfluid edge for each filling.' }] },
+          { heading: 'Map', blocks: [{ kind: 'figure', svg, caption: 'Line: computed edge of the superfluid (zJ chi = 1), all fillings in one curve.' }] },
           {
             heading: 'Lobe tips',
             blocks: [

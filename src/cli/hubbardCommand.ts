@@ -5,8 +5,8 @@
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { OutputFolder } from '../output/outputFolder.js';
-import { encodeRgba8 } from '../formats/pngCodec.js';
-import { renderLinePlot } from '../figures/linePlotFigure.js';
+import { renderLinePlotSvg } from '../figures/linePlotSvg.js';
+import { svgToPng } from '../figures/svgToPng.js';
 import { ParameterError } from '../physics/parameterError.js';
 import { estimateLatticeDepth, laserSafetyCaution } from '../physics/dipolePotential.js';
 import type { SpeciesInput } from '../physics/species.js';
@@ -97,17 +97,20 @@ export function runHubbard(options: HubbardOptions): number {
   }
   process.stdout.write(text);
   if (options.out) {
-    const plot = renderLinePlot(
-      [
-        { label: 'J (Hz)', x: rows.map((r) => r.depthEr), y: rows.map((r) => r.JHz) },
-        { label: 'U (Hz)', x: rows.map((r) => r.depthEr), y: rows.map((r) => r.UHz) },
+    const depth = rows.map((r) => r.depthEr);
+    const svg = renderLinePlotSvg({
+      title: `Hubbard parameters, ${typeof species === 'string' ? species : 'custom species'} at ${wavelengthNm} nm`,
+      xAxis: { label: 'lattice depth', unit: 'E_r' },
+      yAxis: { label: 'energy / h', unit: 'Hz', log: true },
+      series: [
+        { label: 'tunnelling J', x: depth, y: rows.map((r) => r.JHz) },
+        { label: 'on-site interaction U', x: depth, y: rows.map((r) => r.UHz) },
       ],
-      { title: `Hubbard parameters, ${typeof species === 'string' ? species : 'custom species'} at ${wavelengthNm} nm`, xLabel: 'lattice depth (E_r)', yLabel: 'energy / h (Hz)', logY: true },
-    );
+    });
     const folder = new OutputFolder(resolve(options.out));
     try {
       folder.write('hubbard.csv', hubbardCsv(rows));
-      folder.write('hubbard.png', encodeRgba8(plot.width, plot.height, plot.data));
+      folder.write('hubbard.png', svgToPng(svg));
       folder.write('hubbard.txt', text);
       folder.commit();
     } catch (err) {

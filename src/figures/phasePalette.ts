@@ -3,7 +3,7 @@
 // The solver labels every site with one of the codes below; Mott sites carry their
 // integer filling in a separate array. The colours are our own choice, picked in
 // CIE L*a*b* (CIE 15:2004) and rounded to 8-bit sRGB (IEC 61966-2-1):
-//   vacuum        L* 95.6, chroma  3 : a faint warm paper tone, so empty sites read as "nothing"
+//   empty         L* 95.6, chroma  3 : a faint warm paper tone, so empty sites read as "nothing"
 //   superfluid    L* 70,   chroma 62, hue  68 deg : amber (deliberately not green)
 //   Bose glass    L* 50,   chroma 55, hue 355 deg : raspberry
 //   normal fluid  L* 68,   chroma 16, hue  62 deg : warm taupe, a "washed out" superfluid tone
@@ -13,13 +13,13 @@
 // Every pair differs by CIE 1976 Delta E*ab > 13 (checked in the tests). Fillings above 6
 // share the darkest shade; the legend says so.
 
-import { PhaseCode as PhaseCodes, type PhaseCodeValue } from '../observables/phaseCodes.js';
+import { PhaseCode as PhaseCodes, phaseTitles, type PhaseCodeValue } from '../observables/phaseCodes.js';
 
 /** Site phase codes written by the solver (one byte per site); defined in observables/phaseCodes.ts. */
 export const PhaseCode = PhaseCodes;
 export type PhaseCode = PhaseCodeValue;
 
-import type { Rgb8 } from './raster.js';
+import type { Rgb8 } from './figurePalette.js';
 
 /** The number of distinct Mott shades; larger fillings reuse the last one. */
 export const mottShadeCount = 6;
@@ -47,13 +47,16 @@ export const phasePalette = {
   mottShells: readonly Rgb8[];
 };
 
-/** Human-readable names of the phases, for legends and reports. */
+/**
+ * Names of the phases for legends, by code: the same words as the report's tables
+ * (phaseTitles in observables/phaseCodes.ts), so a legend and a table never disagree.
+ */
 export const phaseNames: Record<PhaseCode, string> = {
-  [PhaseCode.empty]: 'vacuum',
-  [PhaseCode.superfluid]: 'superfluid',
-  [PhaseCode.mott]: 'Mott insulator',
-  [PhaseCode.boseGlass]: 'Bose glass',
-  [PhaseCode.normalFluid]: 'normal fluid',
+  [PhaseCode.empty]: phaseTitles.empty,
+  [PhaseCode.superfluid]: phaseTitles.superfluid,
+  [PhaseCode.mott]: phaseTitles.mott,
+  [PhaseCode.boseGlass]: phaseTitles.boseGlass,
+  [PhaseCode.normalFluid]: phaseTitles.normalFluid,
 };
 
 /** Whether `code` is one of the PhaseCode values. */

@@ -8,9 +8,11 @@
 import { encodeNpy } from '../formats/npy.js';
 import { toCsv } from '../formats/csv.js';
 import type { OutputFolder } from './outputFolder.js';
-import { encodeRgba8 } from '../formats/pngCodec.js';
-import { renderFieldFigure } from '../figures/fieldFigure.js';
-import { renderLinePlot } from '../figures/linePlotFigure.js';
+import { renderFieldMapSvg } from '../figures/fieldMapSvg.js';
+import { renderLinePlotSvg } from '../figures/linePlotSvg.js';
+import { renderHistogramSvg } from '../figures/histogramSvg.js';
+import { sideBySideSvg } from '../figures/composeSvg.js';
+import type { HistogramSpec } from '../figures/plotSpec.js';
 import { phaseNames, PhaseCode } from '../observables/phaseCodes.js';
 import { inAllUnits } from '../scenario/resolveScenario.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
@@ -19,7 +21,7 @@ import type { EnsembleAccumulation } from '../pipeline/ensemble/blockPartial.js'
 import { binEdges, type HistogramBins } from '../pipeline/ensemble/histogramBins.js';
 import type { EnsembleStatistics } from '../pipeline/ensemble/ensembleStatistics.js';
 import type { EnsembleContext } from '../pipeline/ensemble/solveRealisation.js';
-import { centralPlane, jsonReplacer, type WrittenImage } from './solveOutputs.js';
+import { centralPlane, figureImage, jsonReplacer, type WrittenImage } from './solveOutputs.js';
 import { seedRuleText } from './ensembleShard.js';
 import { toolVersion } from './toolVersion.js';
 
@@ -135,27 +137,34 @@ function snake(name: string): string {
   return name.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
 }
 
-function histogramImage(o: EnsembleOutcome): WrittenImage {
+/** The two histograms of an ensemble: local density (linear) and condensate density (log counts). */
+export function ensembleHistogramSpecs(o: EnsembleOutcome): [HistogramSpec, HistogramSpec] {
   const t = histogramForDisplay(o);
-  const step = (counts: Float64Array): { x: number[]; y: number[] } => {
-    const x: number[] = [];
-    const y: number[] = [];
-    for (let k = 0; k < counts.length; k++) {
-      x.push(t.edges[k], t.edges[k + 1]);
-      y.push(counts[k], counts[k]);
-    }
-    return { x, y };
-  };
-  const d = step(t.densityFraction);
-  const c = step(t.condensateFraction);
-  const plot = renderLinePlot(
-    [
-      { label: 'density n', x: d.x, y: d.y },
-      { label: 'condensate |phi|²', x: c.x, y: c.y },
-    ],
-    { title: `${o.scenario.name}: site histograms, ${o.stats.realisations} realisations`, xLabel: 'atoms per site', yLabel: 'fraction of cloud sites per bin' },
-  );
-  return { file: 'images/histograms.png', title: 'Histograms of local density and condensate density (cloud sites of all realisations)', png: encodeRgba8(plot.width, plot.height, plot.data) };
+  const widthPx = 470;
+  return [
+    {
+      title: 'Local density',
+      binEdges: t.edges,
+      series: [{ label: 'density n', counts: t.densityFraction }],
+      xAxis: { label: 'n', unit: 'atoms per site' },
+      yAxis: { label: 'fraction of cloud sites' },
+      widthPx,
+    },
+    {
+      title: 'Condensate density',
+      binEdges: t.edges,
+      series: [{ label: 'condensate |phi|²', counts: t.condensateFraction }],
+      xAxis: { label: '|phi|²', unit: 'atoms per site' },
+      yAxis: { label: 'fraction of cloud sites', log: t.samples > 0 },
+      widthPx,
+    },
+  ];
+}
+
+function histogramImage(o: EnsembleOutcome): WrittenImage {
+  const title = `${o.scenario.name}: site histograms, ${o.stats.realisations} realisations`;
+  const svg = sideBySideSvg(ensembleHistogramSpecs(o).map((spec) => renderHistogramSvg(spec)), title);
+  return figureImage('images/histograms.png', 'Histograms of local density and condensate density (cloud sites of all realisations)', svg);
 }
 
 export function ensembleImages(o: EnsembleOutcome): WrittenImage[] {
@@ -170,15 +179,17 @@ export function ensembleImages(o: EnsembleOutcome): WrittenImage[] {
   const step = spacing ?? 1;
   if (shape.length === 1) {
     const x = Array.from({ length: shape[0] }, (_, i) => (i - centre[0]) * step);
-    const plot = renderLinePlot(
-      [
-        { label: 'mean density n', x, y: Array.from(s.densityMean), yError: Array.from(s.densitySpread) },
-        { label: 'mean condensate |phi|²', x, y: Array.from(s.condensateMean), yError: Array.from(s.condensateSpread) },
-        { label: 'superfluid fraction', x, y: Array.from(superfluidFraction), line: 'dashed' },
+    const svg = renderLinePlotSvg({
+      title: `${name}: ensemble of ${r}`,
+      xAxis: { label: 'x', unit },
+      yAxis: { label: 'atoms per site; fraction' },
+      series: [
+        { label: 'mean density n', x, y: s.densityMean, yErr: s.densitySpread },
+        { label: 'mean condensate |phi|²', x, y: s.condensateMean, yErr: s.condensateSpread },
+        { label: 'superfluid fraction', x, y: superfluidFraction, style: { line: 'dashed' } },
       ],
-      { title: `${name}: ensemble of ${r}`, xLabel: `x (${unit})`, yLabel: 'atoms per site; fraction' },
-    );
-    images.push({ file: 'images/chain_ensemble.png', title: 'Mean over realisations (error bars: spread between realisations)', png: encodeRgba8(plot.width, plot.height, plot.data) });
+    });
+    images.push(figureImage('images/chain_ensemble.png', 'Mean over realisations (error bars: spread between realisations)', svg));
     images.push(histogramImage(o));
     return images;
   }
@@ -186,7 +197,10 @@ export function ensembleImages(o: EnsembleOutcome): WrittenImage[] {
   const axis = (d: number) => ({ label: `${axisNames[d]} (${unit})`, origin: -centre[d] * step, step });
   const picture = (field: Float64Array, file: string, title: string, bar: string, colorMap: string, valueRange?: { min: number; max: number }): void => {
     const plane = centralPlane(field, shape, centre);
-    const fig = renderFieldFigure(plane.values, plane.nx, plane.ny, {
+    const svg = renderFieldMapSvg({
+      values: plane.values,
+      nx: plane.nx,
+      ny: plane.ny,
       title: `${name}: ${title}${planeLabel}`,
       xAxis: axis(0),
       yAxis: axis(1),
@@ -194,7 +208,7 @@ export function ensembleImages(o: EnsembleOutcome): WrittenImage[] {
       colorMap,
       ...(valueRange ? { valueRange } : {}),
     });
-    images.push({ file: `images/${file}.png`, title: `${title[0].toUpperCase()}${title.slice(1)}${planeLabel}`, png: encodeRgba8(fig.width, fig.height, fig.data) });
+    images.push(figureImage(`images/${file}.png`, `${title[0].toUpperCase()}${title.slice(1)}${planeLabel}`, svg));
   };
   picture(s.densityMean, 'density_mean', `mean density over ${r} realisations`, 'atoms per site', 'ember');
   picture(s.condensateMean, 'condensate_mean', `mean condensate |phi|² over ${r} realisations`, 'atoms per site', 'glacier');

@@ -15,10 +15,10 @@
 // grey level.
 
 import { encodeNpy } from '../formats/npy.js';
-import { encodeGray16, encodeRgba8 } from '../formats/pngCodec.js';
-import { renderFieldFigure } from '../figures/fieldFigure.js';
+import { encodeGray16 } from '../formats/pngCodec.js';
+import { renderFieldMapSvg } from '../figures/fieldMapSvg.js';
+import { svgToPng } from '../figures/svgToPng.js';
 import type { PlanarField } from '../imaging/planarField.js';
-import type { RgbaImage } from '../figures/raster.js';
 import type { WrittenImage } from './solveOutputs.js';
 
 /** A picture on a regular pixel grid with its coordinates. */
@@ -129,15 +129,21 @@ export interface ColourPictureOptions {
   symmetricRange?: boolean;
   /** Fixed colour scale, e.g. shared by two pictures shown side by side. */
   valueRange?: { min: number; max: number };
+  /** Smallest length of the image's longer side, pixels (default 420; smaller for pictures shown side by side). */
+  minImagePx?: number;
+  maxImagePx?: number;
 }
 
-/** Colour figure of a picture (RGBA): axes in the length unit, colour bar, scale bar, title. */
-export function colourPictureFigure(picture: PixelPicture, options: ColourPictureOptions): RgbaImage {
+/** Colour figure of a picture (SVG): axes in the length unit, colour bar, scale bar, title. */
+export function colourPictureFigure(picture: PixelPicture, options: ColourPictureOptions): string {
   const unit = options.lengthUnit.short;
   const note = options.axisNote ?? '';
   const extent = picture.nx * picture.pixelUm;
   const bar = scaleBarLength(extent);
-  return renderFieldFigure(picture.values, picture.nx, picture.ny, {
+  return renderFieldMapSvg({
+    values: picture.values,
+    nx: picture.nx,
+    ny: picture.ny,
     title: options.title,
     xAxis: { label: `${options.axisNames[0]}${note} (${unit})`, origin: picture.xCentresUm[0], step: picture.pixelUm },
     yAxis: { label: `${options.axisNames[1]}${note} (${unit})`, origin: picture.yCentresUm[0], step: picture.pixelUm },
@@ -146,28 +152,14 @@ export function colourPictureFigure(picture: PixelPicture, options: ColourPictur
     ...(options.colorMap !== undefined ? { colorMap: options.colorMap } : {}),
     ...(options.symmetricRange !== undefined ? { symmetricRange: options.symmetricRange } : {}),
     ...(options.valueRange !== undefined ? { valueRange: options.valueRange } : {}),
+    ...(options.minImagePx !== undefined ? { minImagePx: options.minImagePx } : {}),
+    ...(options.maxImagePx !== undefined ? { maxImagePx: options.maxImagePx } : {}),
   });
 }
 
-/** The colour figure encoded as an 8-bit RGBA PNG. */
+/** The colour figure rendered to an 8-bit PNG. */
 export function colourPicturePng(picture: PixelPicture, options: ColourPictureOptions): Uint8Array {
-  const figure = colourPictureFigure(picture, options);
-  return encodeRgba8(figure.width, figure.height, figure.data);
-}
-
-/** Figures placed left to right on a white page, top-aligned, with a gap between them. */
-export function sideBySide(figures: readonly RgbaImage[], gapPx = 16): RgbaImage {
-  const width = figures.reduce((w, f) => w + f.width, 0) + gapPx * Math.max(0, figures.length - 1);
-  const height = figures.reduce((h, f) => Math.max(h, f.height), 0);
-  const data = new Uint8Array(width * height * 4).fill(255);
-  let left = 0;
-  for (const f of figures) {
-    for (let row = 0; row < f.height; row++) {
-      data.set(f.data.subarray(row * f.width * 4, (row + 1) * f.width * 4), (row * width + left) * 4);
-    }
-    left += f.width + gapPx;
-  }
-  return { width, height, data };
+  return svgToPng(colourPictureFigure(picture, options));
 }
 
 /** The .npy, 16-bit PNG, sidecar and colour PNG of one picture (paths under images/). */
@@ -205,7 +197,7 @@ export function pictureFiles(picture: PixelPicture, d: PictureDescription): Pict
     ...(d.countsPerAtom !== undefined ? { countsPerAtom: d.countsPerAtom } : {}),
     ...(d.extra ?? {}),
   };
-  const png = colourPicturePng(picture, {
+  const svg = colourPictureFigure(picture, {
     title: d.title,
     quantity,
     axisNames: d.axisNames,
@@ -214,7 +206,7 @@ export function pictureFiles(picture: PixelPicture, d: PictureDescription): Pict
     ...(d.colorMap !== undefined ? { colorMap: d.colorMap } : {}),
   });
   return {
-    image: { file: colourFile, title: d.title, png },
+    image: { file: colourFile, title: d.title, svg, png: svgToPng(svg) },
     arrays: [
       { file: npyFile, bytes: encodeNpy(values, [nx, ny]) },
       { file: grayFile, bytes: encodeGray16(nx, ny, rows) },

@@ -5,9 +5,10 @@
 import { encodeNpy } from '../formats/npy.js';
 import { toCsv } from '../formats/csv.js';
 import type { OutputFolder } from './outputFolder.js';
-import { encodeRgba8 } from '../formats/pngCodec.js';
-import { renderFieldFigure, renderPhaseMapFigure } from '../figures/fieldFigure.js';
-import { renderLinePlot } from '../figures/linePlotFigure.js';
+import { renderFieldMapSvg } from '../figures/fieldMapSvg.js';
+import { renderPhaseMapSvg } from '../figures/phaseMapSvg.js';
+import { renderLinePlotSvg } from '../figures/linePlotSvg.js';
+import { svgToPng } from '../figures/svgToPng.js';
 import { columnDensity } from '../imaging/columnDensity.js';
 import { inAllUnits } from '../scenario/resolveScenario.js';
 import { phaseNames } from '../observables/phaseCodes.js';
@@ -19,6 +20,13 @@ export interface WrittenImage {
   file: string;
   title: string;
   png: Uint8Array;
+  /** The figure the PNG was rendered from (the report inlines it). */
+  svg: string;
+}
+
+/** A figure as an image file: the SVG and the PNG rendered from it. */
+export function figureImage(file: string, title: string, svg: string): WrittenImage {
+  return { file, title, svg, png: svgToPng(svg) };
 }
 
 /** A 2D slice or projection of a lattice field, for pictures. */
@@ -191,15 +199,17 @@ export function solveImages(a: SolveArtifacts): WrittenImage[] {
 
   if (dims === 1) {
     const x = Array.from({ length: shape[0] }, (_, i) => (i - centre[0]) * step);
-    const plot = renderLinePlot(
-      [
-        { label: 'density n', x, y: Array.from(a.fields.density) },
-        { label: 'condensate |phi|^2', x, y: Array.from(a.fields.condensateDensity) },
-        { label: 'variance', x, y: Array.from(a.fields.numberVariance) },
+    const svg = renderLinePlotSvg({
+      title: `${name}: site profile`,
+      xAxis: { label: 'x', unit: unitNote },
+      yAxis: { label: 'atoms per site' },
+      series: [
+        { label: 'density n', x, y: a.fields.density },
+        { label: 'condensate |phi|²', x, y: a.fields.condensateDensity },
+        { label: 'number variance', x, y: a.fields.numberVariance, style: { line: 'dashed' } },
       ],
-      { title: `${name}: site profile`, xLabel: `x (${unitNote})`, yLabel: 'atoms per site' },
-    );
-    images.push({ file: 'images/chain_profile.png', title: 'Site-by-site profile of the chain', png: encodeRgba8(plot.width, plot.height, plot.data) });
+    });
+    images.push(figureImage('images/chain_profile.png', 'Site-by-site profile of the chain', svg));
     return images;
   }
 
@@ -207,55 +217,61 @@ export function solveImages(a: SolveArtifacts): WrittenImage[] {
   const xAxis = axisFor(0, centre[0]);
   const yAxis = axisFor(1, centre[1]);
   const scaleBar = spacing !== null ? scaleBarFor(shape[0] * spacing) : undefined;
-  const fieldPicture = (values: Float64Array, nx: number, ny: number, title: string, bar: string, colorMap?: string) => {
-    const fig = renderFieldFigure(values, nx, ny, {
-      title,
-      xAxis,
-      yAxis,
-      colorBarLabel: bar,
-      ...(colorMap ? { colorMap } : {}),
-      ...(scaleBar ? { scaleBar } : {}),
-    });
-    return encodeRgba8(fig.width, fig.height, fig.data);
-  };
+  const fieldPicture = (file: string, caption: string, plane: Planar, title: string, bar: string, colorMap?: string): WrittenImage =>
+    figureImage(
+      file,
+      caption,
+      renderFieldMapSvg({
+        values: plane.values,
+        nx: plane.nx,
+        ny: plane.ny,
+        title,
+        xAxis,
+        yAxis,
+        colorBarLabel: bar,
+        ...(colorMap ? { colorMap } : {}),
+        ...(scaleBar ? { scaleBar } : {}),
+      }),
+    );
   const density = centralPlane(a.fields.density, shape, centre);
-  images.push({
-    file: 'images/density_plane.png',
-    title: `Density n_i${planeLabel}`,
-    png: fieldPicture(density.values, density.nx, density.ny, `${name}: density${planeLabel}`, 'atoms per site'),
-  });
+  images.push(fieldPicture('images/density_plane.png', `Density n_i${planeLabel}`, density, `${name}: density${planeLabel}`, 'atoms per site'));
   const condensate = centralPlane(a.fields.condensateDensity, shape, centre);
-  images.push({
-    file: 'images/condensate_plane.png',
-    title: `Condensate density |phi_i|^2${planeLabel}`,
-    png: fieldPicture(condensate.values, condensate.nx, condensate.ny, `${name}: condensate |phi|²${planeLabel}`, 'atoms per site', 'glacier'),
-  });
+  images.push(
+    fieldPicture('images/condensate_plane.png', `Condensate density |phi_i|^2${planeLabel}`, condensate, `${name}: condensate |phi|²${planeLabel}`, 'atoms per site', 'glacier'),
+  );
   const phase = centralPlane(a.classification.codes, shape, centre);
   const filling = centralPlane(a.classification.mottFilling, shape, centre);
-  const phaseFig = renderPhaseMapFigure(phase.values, filling.values, phase.nx, phase.ny, {
+  const phaseSvg = renderPhaseMapSvg({
+    phase: phase.values,
+    filling: filling.values,
+    nx: phase.nx,
+    ny: phase.ny,
     title: `${name}: phases${planeLabel}`,
     xAxis,
     yAxis,
     ...(scaleBar ? { scaleBar } : {}),
   });
-  images.push({ file: 'images/phase_plane.png', title: `Phase of each site${planeLabel}`, png: encodeRgba8(phaseFig.width, phaseFig.height, phaseFig.data) });
+  images.push(figureImage('images/phase_plane.png', `Phase of each site${planeLabel}`, phaseSvg));
   const parity = centralPlane(a.fields.parityOdd, shape, centre);
-  images.push({
-    file: 'images/parity_plane.png',
-    title: `Parity-projected occupation P_odd${planeLabel}`,
-    png: fieldPicture(parity.values, parity.nx, parity.ny, `${name}: parity-projected P(odd)${planeLabel}`, 'probability'),
-  });
+  images.push(
+    fieldPicture('images/parity_plane.png', `Parity-projected occupation P_odd${planeLabel}`, parity, `${name}: parity-projected P(odd)${planeLabel}`, 'probability'),
+  );
   if (dims === 3) {
     for (const [field, label, file] of [
       [a.fields.density, 'density', 'density_column'],
       [a.fields.condensateDensity, 'condensate', 'condensate_column'],
     ] as const) {
       const column = columnDensity(field, shape, 2);
-      images.push({
-        file: `images/${file}.png`,
-        title: `Column ${label} summed along z`,
-        png: fieldPicture(column.values, column.nx, column.ny, `${name}: column ${label} (sum along z)`, 'atoms per column', label === 'condensate' ? 'glacier' : undefined),
-      });
+      images.push(
+        fieldPicture(
+          `images/${file}.png`,
+          `Column ${label} summed along z`,
+          { values: column.values, nx: column.nx, ny: column.ny, axes: [0, 1] },
+          `${name}: column ${label} (sum along z)`,
+          'atoms per column',
+          label === 'condensate' ? 'glacier' : undefined,
+        ),
+      );
     }
   }
   return images;

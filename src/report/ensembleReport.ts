@@ -6,7 +6,7 @@ import type { KeyValueRow, ReportBlock, ReportDocument, StatusLine } from './rep
 import { cautionsFor } from './cautions.js';
 import { phaseNames, phaseTitles } from '../observables/phaseCodes.js';
 import type { EnsembleOutcome } from '../output/ensembleOutputs.js';
-import { histogramForDisplay } from '../output/ensembleOutputs.js';
+import { ensembleHistogramSpecs, histogramForDisplay } from '../output/ensembleOutputs.js';
 import type { WrittenImage } from '../output/solveOutputs.js';
 import { toolVersion } from '../output/toolVersion.js';
 
@@ -52,26 +52,18 @@ export function buildEnsembleReport(o: EnsembleOutcome, images: WrittenImage[], 
   ];
 
   const t = histogramForDisplay(o);
-  const histogramBlocks: ReportBlock[] = [
-    {
-      kind: 'histogram',
-      title: 'Local density',
-      binEdges: t.edges,
-      series: [{ label: 'density n', counts: t.densityFraction }],
-      xAxis: { label: 'n', unit: 'atoms per site' },
-      yAxis: { label: 'fraction of cloud sites' },
-      caption: `Every non-empty site of every realisation (${t.samples} samples), bins of ${1 / o.bins.binsPerAtom} atoms. Peaks at integers are Mott sites.`,
-    },
-    {
-      kind: 'histogram',
-      title: 'Condensate density',
-      binEdges: t.edges,
-      series: [{ label: 'condensate |phi|²', counts: t.condensateFraction }],
-      xAxis: { label: '|phi|²', unit: 'atoms per site' },
-      yAxis: { label: 'fraction of cloud sites', log: t.samples > 0 },
-      caption: 'The same sites; the first bin holds the sites without condensate (Mott insulator, Bose glass, normal fluid). Logarithmic scale; empty bins are not drawn.',
-    },
-  ];
+  const histogramFigure = images.find((img) => img.file === 'images/histograms.png');
+  const histogramBlocks: ReportBlock[] = histogramFigure
+    ? [
+        {
+          kind: 'figure',
+          svg: histogramFigure.svg,
+          caption:
+            `Left: local density of every non-empty site of every realisation (${t.samples} samples), bins of ${1 / o.bins.binsPerAtom} atoms; peaks at integers are Mott sites. ` +
+            'Right: condensate density of the same sites, logarithmic scale (empty bins are not drawn); the first bin holds the sites without condensate (Mott insulator, Bose glass, normal fluid).',
+        },
+      ]
+    : ensembleHistogramSpecs(o).map((spec) => ({ kind: 'histogram' as const, ...spec }));
 
   const phaseRows = phaseNames.map((name) => [phaseTitles[name], s.sitesPerPhase[name]]);
   const records = o.total.records;
@@ -92,7 +84,7 @@ export function buildEnsembleReport(o: EnsembleOutcome, images: WrittenImage[], 
         blocks: [
           ...images
             .filter((img) => img.file !== 'images/histograms.png')
-            .map((img) => ({ kind: 'image' as const, pngBytes: img.png, alt: img.title, caption: img.title })),
+            .map((img) => ({ kind: 'figure' as const, svg: img.svg, caption: img.title })),
           {
             kind: 'paragraph',
             text: `The spread is the sample standard deviation between realisations; the standard error of the mean is spread / √${s.realisations} = spread × ${fmt(1 / Math.sqrt(s.realisations))}.`,

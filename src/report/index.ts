@@ -1,8 +1,9 @@
 // The HTML report: document model, renderer, SVG charts and standard cautions.
 export type * from './reportModel.js';
 export { renderReportHtml, pngSize } from './renderReport.js';
-export { renderLinePlotSvg, renderHistogramSvg } from '../figures/svgPlot.js';
-export type { SvgPlotOptions } from '../figures/svgPlot.js';
+export { renderLinePlotSvg } from '../figures/linePlotSvg.js';
+export { renderHistogramSvg } from '../figures/histogramSvg.js';
+export type { SvgFigureOptions } from '../figures/plotSpec.js';
 export {
   MEAN_FIELD_CAUTION,
   LASER_SAFETY_CAUTION,
@@ -11,6 +12,5 @@ export {
   cautionsFor,
 } from './cautions.js';
 export type { CautionContext } from './cautions.js';
-export { formatNumber, formatScientific } from './formatNumber.js';
-export { escapeMarkup } from './escapeMarkup.js';
-export { niceLinearTicks, niceLogTicks } from '../figures/axisTicks.js';
+export { formatNumber, formatScientific } from '../figures/formatNumber.js';
+export { escapeMarkup } from '../figures/escapeMarkup.js';

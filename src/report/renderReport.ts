@@ -5,12 +5,13 @@
 // images, so even a caller's mistake cannot make the report reach the network.
 // The renderer is pure: the caller supplies the time stamp and all content.
 
-import { escapeMarkup } from './escapeMarkup.js';
-import { formatNumber, formatScientific } from './formatNumber.js';
-import { REPORT_COLORS } from '../figures/reportPalette.js';
+import { escapeMarkup } from '../figures/escapeMarkup.js';
+import { formatNumber, formatScientific } from '../figures/formatNumber.js';
+import { FIGURE_COLORS } from '../figures/figurePalette.js';
 import type {
   CautionItem,
   CellValue,
+  FigureBlock,
   ImageBlock,
   KeyValueTableBlock,
   ReportBlock,
@@ -20,17 +21,21 @@ import type {
   StatusLine,
   TableBlock,
 } from './reportModel.js';
-import { PLOT_FONT_FAMILY, renderHistogramSvg, renderLinePlotSvg } from '../figures/svgPlot.js';
+import { renderLinePlotSvg } from '../figures/linePlotSvg.js';
+import { renderHistogramSvg } from '../figures/histogramSvg.js';
+
+const PAGE_FONT_FAMILY =
+  "system-ui, -apple-system, 'Segoe UI', 'Noto Sans', 'DejaVu Sans', 'Liberation Sans', Arial, sans-serif";
 
 const CONTENT_SECURITY_POLICY = "default-src 'none'; img-src data:; style-src 'unsafe-inline'";
 
 const STYLE = `
-:root { color-scheme: light; --ink: ${REPORT_COLORS.ink}; --muted: ${REPORT_COLORS.mutedInk};
-  --rule: ${REPORT_COLORS.rule}; --paper: #ffffff; --desk: #f3f4f6; --accent: #2a5a8c;
+:root { color-scheme: light; --ink: ${FIGURE_COLORS.ink}; --muted: ${FIGURE_COLORS.mutedInk};
+  --rule: ${FIGURE_COLORS.rule}; --paper: #ffffff; --desk: #f3f4f6; --accent: #2a5a8c;
   --err: #a32630; --err-soft: #fbeaea; --warn: #8a5a00; --warn-soft: #fdf3dc; --ok: #2a5a8c; --ok-soft: #eaf1f8; }
 * { box-sizing: border-box; }
 html { background: var(--desk); }
-body { margin: 0; color: var(--ink); font: 15px/1.5 ${PLOT_FONT_FAMILY}; }
+body { margin: 0; color: var(--ink); font: 15px/1.5 ${PAGE_FONT_FAMILY}; }
 .page { max-width: 1040px; margin: 0 auto; padding: 28px 20px 40px; }
 .sheet { background: var(--paper); border: 1px solid var(--rule); border-radius: 6px; padding: 28px 36px 32px; }
 header.report-head { border-bottom: 1px solid var(--rule); padding-bottom: 14px; margin-bottom: 8px; }
@@ -71,7 +76,8 @@ table.kv th[scope=row] { font-weight: 500; text-align: left; padding-right: 24px
 table.kv td.value { white-space: nowrap; }
 table.kv .unit { color: var(--muted); margin-left: .3em; }
 table.kv td.note { color: var(--muted); font-size: 13px; }
-.plot svg.tc-plot { display: block; max-width: 100%; height: auto; }
+.plot > svg.tc-plot { display: block; max-width: 100%; height: auto; }
+svg.tc-plot image.pixels, svg.tc-plot image.color-strip { image-rendering: pixelated; }
 .figure-image img { display: block; max-width: 100%; height: auto; border: 1px solid var(--rule); background: #fff; }
 .figure-image img.pixelated { image-rendering: pixelated; }
 .cautions { border-left: 4px solid #c79a3c; background: #fcf8ee; padding: 10px 16px 10px 14px; border-radius: 0 5px 5px 0; print-color-adjust: exact; -webkit-print-color-adjust: exact; }
@@ -216,12 +222,19 @@ function imageHtml(block: ImageBlock): string {
 
 /** Inline SVG in HTML takes its namespace from the parser; dropping xmlns keeps the file free of any address. */
 function inlineSvg(svg: string): string {
-  return svg.replace(' xmlns="http://www.w3.org/2000/svg"', '');
+  return svg.split(' xmlns="http://www.w3.org/2000/svg"').join('');
 }
 
 function plotFigure(svg: string, caption: string | undefined): string {
   const cap = caption ? `<figcaption>${escapeMarkup(caption)}</figcaption>` : '';
   return `<figure class="block plot">${inlineSvg(svg)}${cap}</figure>`;
+}
+
+function figureHtml(block: FigureBlock): string {
+  if (!/^<svg\b/.test(block.svg) || !block.svg.trimEnd().endsWith('</svg>')) {
+    throw new RangeError('svg: expected one <svg> element from a figure builder');
+  }
+  return plotFigure(block.svg, block.caption);
 }
 
 function residualHistoryHtml(block: ResidualHistoryBlock, idPrefix: string): string {
@@ -271,6 +284,8 @@ function blockHtml(block: ReportBlock, idPrefix: string): string {
       return tableHtml(block);
     case 'image':
       return imageHtml(block);
+    case 'figure':
+      return figureHtml(block);
     case 'linePlot':
       return plotFigure(renderLinePlotSvg(block, { idPrefix }), block.caption);
     case 'histogram':

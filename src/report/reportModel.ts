@@ -3,6 +3,10 @@
 // The model carries no HTML: every string is plain text and is escaped by the renderer,
 // so a scenario name or a file path can never inject markup into the report.
 
+import type { HistogramSpec, LinePlotSpec } from '../figures/plotSpec.js';
+
+export type { AxisSpec, HistogramSeries, HistogramSpec, LinePlotSpec, LineSeries, PlotMarker, SeriesStyle } from '../figures/plotSpec.js';
+
 /** How serious a status line is; `error` draws the red banner (e.g. "NOT CONVERGED"). */
 export type StatusLevel = 'ok' | 'warning' | 'error';
 
@@ -35,6 +39,7 @@ export type ReportBlock =
   | KeyValueTableBlock
   | TableBlock
   | ImageBlock
+  | FigureBlock
   | LinePlotBlock
   | HistogramBlock
   | CautionListBlock
@@ -94,71 +99,17 @@ export interface ImageBlock {
   pixelated?: boolean;
 }
 
-export interface AxisSpec {
-  label: string;
-  unit?: string;
-  log?: boolean;
-  /** Fixed axis range; default: the data range extended to nice tick values. */
-  min?: number;
-  max?: number;
-}
-
-export interface SeriesStyle {
-  /** '#rgb' or '#rrggbb'; anything else falls back to the palette colour. */
-  color?: string;
-  line?: 'solid' | 'dashed' | 'dotted' | 'none';
-  marker?: 'none' | 'circle' | 'square';
-}
-
-export interface LineSeries {
-  label: string;
-  x: ArrayLike<number>;
-  y: ArrayLike<number>;
-  /** Symmetric one-sigma error bars, same length as y. */
-  yErr?: ArrayLike<number>;
-  style?: SeriesStyle;
-}
-
-export interface PlotMarker {
-  /** Position along the axis the marker crosses (x for vertical markers). */
-  at: number;
-  label?: string;
-}
-
-export interface LinePlotSpec {
-  title?: string;
-  xAxis: AxisSpec;
-  yAxis: AxisSpec;
-  series: LineSeries[];
-  /** Vertical lines, e.g. shell radii. */
-  verticalMarkers?: PlotMarker[];
-  /** Horizontal lines, e.g. a convergence tolerance. */
-  horizontalMarkers?: PlotMarker[];
-  widthPx?: number;
-  heightPx?: number;
+/** A figure built by src/figures (the same SVG its PNG file was rendered from), inlined. */
+export interface FigureBlock {
+  kind: 'figure';
+  /** One `<svg>` element from a src/figures builder. */
+  svg: string;
+  caption?: string;
 }
 
 export interface LinePlotBlock extends LinePlotSpec {
   kind: 'linePlot';
   caption?: string;
-}
-
-export interface HistogramSeries {
-  label: string;
-  /** counts[i] belongs to the bin [binEdges[i], binEdges[i+1]). */
-  counts: ArrayLike<number>;
-  color?: string;
-}
-
-export interface HistogramSpec {
-  title?: string;
-  /** Bin edges shared by all series, strictly increasing, length = counts + 1. */
-  binEdges: ArrayLike<number>;
-  series: HistogramSeries[];
-  xAxis: AxisSpec;
-  yAxis: AxisSpec;
-  widthPx?: number;
-  heightPx?: number;
 }
 
 export interface HistogramBlock extends HistogramSpec {

@@ -200,7 +200,7 @@ export function buildSolveReport(
       },
       {
         heading: 'Pictures',
-        blocks: images.map((img) => ({ kind: 'image' as const, pngBytes: img.png, alt: img.title, caption: img.title })),
+        blocks: images.map((img) => ({ kind: 'figure' as const, svg: img.svg, caption: img.title })),
       },
       { heading: 'Profiles', blocks: profileBlocks },
       {

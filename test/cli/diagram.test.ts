@@ -54,6 +54,23 @@ describe('tiercake diagram', () => {
     }
   });
 
+  it('draws the superfluid edge at T > 0 as one curve, clipped at the frame (not drawn twice, not pinned to the edge)', async () => {
+    const out = join(mkdtempSync(join(tmpdir(), 'tiercake-diagram-')), 'map');
+    expect(await runCli(['diagram', '--grid', '40x40', '--kt', '0.1', '--zj-max', '0.15', '--out', out])).toBe(0);
+    const html = readFileSync(join(out, 'report.html'), 'utf8');
+    const overlays = [...html.matchAll(/<path class="overlay" d="([^"]+)"/g)].map((m) => m[1]!);
+    expect(overlays).toHaveLength(1);
+    // One pen-down move: the fillings' pieces join into one path.
+    expect(overlays[0]!.match(/M/g)).toHaveLength(1);
+    expect(html).toMatch(/<g class="overlays" clip-path="url\(#[^)]+-image-clip\)"/);
+    // The edge runs past zJ/U = 0.15 near mu = 0 at this temperature: its points there lie
+    // right of the image (clipped), where the old drawing pinned them onto the frame.
+    const image = /<image class="pixels" x="([^"]+)" y="[^"]+" width="([^"]+)"/.exec(html)!;
+    const right = Number(image[1]) + Number(image[2]);
+    const xs = [...overlays[0]!.matchAll(/[ML](-?[\d.]+) /g)].map((m) => Number(m[1]));
+    expect(Math.max(...xs)).toBeGreaterThan(right + 1);
+  });
+
   it('refuses bad options with exit code 2 and writes nothing', async () => {
     const out = join(mkdtempSync(join(tmpdir(), 'tiercake-diagram-')), 'map');
     for (const args of [['--grid', '10by10'], ['--mu', '3:1'], ['--kt', '-1'], ['--nmax', '3', '--mu', '0:3'], ['--shade', 'rainbow']]) {

@@ -186,7 +186,7 @@ describe('colour maps', () => {
 
 describe('phase palette', () => {
   const named = [
-    { name: 'vacuum', rgb: phasePalette.empty },
+    { name: 'empty', rgb: phasePalette.empty },
     { name: 'superfluid', rgb: phasePalette.superfluid },
     { name: 'Bose glass', rgb: phasePalette.boseGlass },
     { name: 'normal fluid', rgb: phasePalette.normalFluid },

@@ -6,9 +6,10 @@
 //   properly nested tags, quoted unique attributes, '<' never raw in character data or
 //   attribute values, '&' only in the predefined entities or character references. The
 //   checker below implements exactly these rules and is itself checked on known-bad input.
-// - P. S. Heckbert, "Nice numbers for graph labels", Graphics Gems (1990): steps of
-//   1, 2 or 5 times a power of ten, the axis range rounded outwards to whole steps. Every
-//   expected tick list below is worked by hand beside the test.
+// - Tick steps follow d3-array's tickIncrement (1, 2 or 5 times a power of ten, switching
+//   at the geometric means sqrt 2, sqrt 10, sqrt 50 of the raw step's mantissa); every
+//   expected tick list below is worked by hand from that rule beside the test (see also
+//   scales.test.ts).
 // - A logarithmic axis maps equal ratios to equal lengths (definition of a log scale),
 //   so successive decade ticks must be equally spaced and 10^-3 must sit halfway between
 //   10^-6 and 10^0.
@@ -16,10 +17,11 @@
 // Pixel coordinates are written to 0.01 px, so positions are compared to 0.011 px.
 
 import { describe, expect, it } from 'vitest';
-import { linearTickLabels, niceLinearTicks, niceLogTicks, scaleNote } from '../../src/figures/axisTicks.js';
-import { formatNumber } from '../../src/report/formatNumber.js';
-import { renderHistogramSvg, renderLinePlotSvg } from '../../src/figures/svgPlot.js';
-import type { LinePlotSpec } from '../../src/report/reportModel.js';
+import { formatNumber } from '../../src/figures/formatNumber.js';
+import { renderLinePlotSvg } from '../../src/figures/linePlotSvg.js';
+import { renderHistogramSvg } from '../../src/figures/histogramSvg.js';
+import type { LinePlotSpec } from '../../src/figures/plotSpec.js';
+import { renderPixels, rootSize } from './figureProbe.js';
 
 // ---------------------------------------------------------------------------------
 // A small XML well-formedness checker (XML 1.0, section 2; no DTD support needed).
@@ -147,101 +149,6 @@ describe('the XML well-formedness checker used below', () => {
 // ---------------------------------------------------------------------------------
 // Nice ticks
 
-describe('niceLinearTicks (Heckbert 1990; ranges worked by hand)', () => {
-  it('[0, 1], 5 intervals: raw step 0.2 is already nice -> 0, 0.2, ..., 1', () => {
-    const t = niceLinearTicks(0, 1, 5);
-    expect(t.step).toBe(0.2);
-    expect(t.values).toEqual([0, 0.2, 0.4, 0.6, 0.8, 1]);
-  });
-
-  it('[0.13, 0.87]: raw 0.148 -> 0.2; floor(0.65) = 0, ceil(4.35) = 5 -> 0 .. 1', () => {
-    const t = niceLinearTicks(0.13, 0.87, 5);
-    expect(t.values).toEqual([0, 0.2, 0.4, 0.6, 0.8, 1]);
-  });
-
-  it('[-3.7, 12.2]: raw 3.18 -> 5; floor(-0.74) = -1, ceil(2.44) = 3 -> -5 .. 15', () => {
-    const t = niceLinearTicks(-3.7, 12.2, 5);
-    expect(t.step).toBe(5);
-    expect(t.values).toEqual([-5, 0, 5, 10, 15]);
-  });
-
-  it('[980, 1020]: raw 8 -> 10 -> 980, 990, ..., 1020', () => {
-    expect(niceLinearTicks(980, 1020, 5).values).toEqual([980, 990, 1000, 1010, 1020]);
-  });
-
-  it('[1.2e-5, 3.4e-5]: raw 4.4e-6 -> 5e-6; floor(2.4) = 2, ceil(6.8) = 7 -> 1e-5 .. 3.5e-5', () => {
-    const t = niceLinearTicks(1.2e-5, 3.4e-5, 5);
-    expect(t.values).toEqual([1e-5, 1.5e-5, 2e-5, 2.5e-5, 3e-5, 3.5e-5]);
-    const labels = linearTickLabels(t);
-    expect(labels.scaleExponent).toBe(-5);
-    expect(labels.labels).toEqual(['1.0', '1.5', '2.0', '2.5', '3.0', '3.5']);
-    expect(scaleNote(labels.scaleExponent)).toBe('\u00D710\u207B\u2075');
-  });
-
-  it('[0, 0] widens to [-1, 1]: raw 0.4 -> 0.5 -> -1, -0.5, 0, 0.5, 1', () => {
-    const t = niceLinearTicks(0, 0, 4);
-    expect(t.values).toEqual([-1, -0.5, 0, 0.5, 1]);
-    expect(linearTickLabels(t).labels).toEqual(['\u22121.0', '\u22120.5', '0', '0.5', '1.0']);
-  });
-
-  it('encloses the data with whole 1-2-5 steps on many ranges', () => {
-    // Ranges from a fixed linear congruential sequence (deterministic, no seed needed).
-    let state = 12345;
-    const next = (): number => {
-      state = (state * 1103515245 + 12345) % 2147483648;
-      return state / 2147483648;
-    };
-    for (let k = 0; k < 300; k++) {
-      const scale = 10 ** Math.floor(next() * 16 - 8);
-      const a = (next() * 2 - 1) * scale;
-      const b = a + next() * scale * 3 + 1e-3 * scale;
-      const target = 3 + Math.floor(next() * 6);
-      const t = niceLinearTicks(a, b, target);
-      const mantissa = t.step / 10 ** Math.floor(Math.log10(t.step) + 1e-9);
-      expect([1, 2, 5].some((m) => Math.abs(mantissa - m) < 1e-9), `step ${t.step}`).toBe(true);
-      expect(t.values[0]!).toBeLessThanOrEqual(a);
-      expect(t.values[t.values.length - 1]!).toBeGreaterThanOrEqual(b);
-      // Tight: no whole empty step at either end.
-      expect(t.values[0]!).toBeGreaterThan(a - t.step);
-      expect(t.values[t.values.length - 1]!).toBeLessThan(b + t.step);
-      expect(t.values.length - 1).toBeLessThanOrEqual(target + 2);
-      expect(t.values.length).toBeGreaterThanOrEqual(2);
-      for (let i = 1; i < t.values.length; i++) {
-        expect(Math.abs(t.values[i]! - t.values[i - 1]! - t.step)).toBeLessThan(1e-9 * t.step);
-      }
-    }
-  });
-
-  it('names the bad argument', () => {
-    expect(() => niceLinearTicks(Number.NaN, 1)).toThrow(/dataMin and dataMax must be finite/);
-    expect(() => niceLinearTicks(2, 1)).toThrow(/dataMin \(2\) must not exceed dataMax \(1\)/);
-  });
-});
-
-describe('niceLogTicks', () => {
-  it('[0.05, 20]: decades 10^-2 .. 10^2 with minor ticks 2..9 in each of the 4 decades', () => {
-    const t = niceLogTicks(0.05, 20);
-    expect(t.exponents).toEqual([-2, -1, 0, 1, 2]);
-    expect(t.values).toEqual([0.01, 0.1, 1, 10, 100]);
-    expect(t.minorValues).toHaveLength(4 * 8);
-    expect(t.minorValues.slice(0, 3)).toEqual([0.02, 0.03, 0.04]);
-  });
-
-  it('[2e-7, 0.3]: 10^-7 .. 10^0 is 7 decades, the most shown one by one', () => {
-    expect(niceLogTicks(2e-7, 0.3).exponents).toEqual([-7, -6, -5, -4, -3, -2, -1, 0]);
-  });
-
-  it('[2e-9, 0.3]: 9 decades > 7, so every second decade, aligned on 10^0 -> 10^-10 .. 10^0', () => {
-    const t = niceLogTicks(2e-9, 0.3);
-    expect(t.exponents).toEqual([-10, -8, -6, -4, -2, 0]);
-    expect(t.minorValues).toEqual([]);
-  });
-
-  it('refuses non-positive limits', () => {
-    expect(() => niceLogTicks(0, 1)).toThrow(/positive/);
-  });
-});
-
 describe('formatNumber (SI Brochure 5.4 conventions)', () => {
   it('formats plain, large, small and special values', () => {
     expect(formatNumber(0.01495)).toBe('0.01495');
@@ -325,10 +232,12 @@ describe('renderLinePlotSvg', () => {
     const svg = renderLinePlotSvg(samplePlot);
     const y = ticksOf(svg, 'y');
     const x = ticksOf(svg, 'x');
-    // Data (with error bars) spans 0 .. 2.1 in y (5 intervals: raw 0.42 -> 0.5) and
-    // 0 .. 4 in x (6 intervals: raw 0.67 -> 1): hand-worked nice ticks.
+    // y: data with error bars spans 0 .. 2.1; the domain is rounded for 5 ticks (raw step
+    // 0.42, mantissa 4.2 >= sqrt 10 -> 0.5) to [0, 2.5], ticked at 0.5.
+    // x: the data range 0 .. 4 plus 2 % for the markers (-0.08 .. 4.08, not rounded); about
+    // one tick per 90 px of the ~560 px axis asks for 6: raw 0.693, mantissa 6.93 < sqrt 50 -> 0.5.
     expect(y.map((t) => t.value)).toEqual([0, 0.5, 1, 1.5, 2, 2.5]);
-    expect(x.map((t) => t.value)).toEqual([0, 1, 2, 3, 4]);
+    expect(x.map((t) => t.value)).toEqual([0, 0.5, 1, 1.5, 2, 2.5, 3, 3.5, 4]);
     // Equal spacing on a linear axis.
     for (let i = 2; i < y.length; i++) {
       expect(Math.abs(y[i]!.position - y[i - 1]!.position - (y[1]!.position - y[0]!.position))).toBeLessThan(0.011);
@@ -403,14 +312,15 @@ describe('renderHistogramSvg', () => {
     expect(svg.match(/<path class="series" /g)).toHaveLength(2);
     expect(svg.match(/<path class="series-fill" /g)).toHaveLength(2);
     expect(svg).toContain('a &lt;1&gt;');
-    // Bars stand on zero; 5 counts plus 4 % headroom = 5.2, 5 intervals: raw 1.04 -> 2.
-    expect(ticksOf(svg, 'y').map((t) => t.value)).toEqual([0, 2, 4, 6]);
+    // Bars stand on zero; 5 counts plus 4 % headroom = 5.2, rounded for 5 ticks (raw 1.04,
+    // mantissa 1.04 < sqrt 2 -> step 1) to [0, 6].
+    expect(ticksOf(svg, 'y').map((t) => t.value)).toEqual([0, 1, 2, 3, 4, 5, 6]);
     // Outline of series 0: up to 3 over bin 0, to 5 over bin 1, to 2 over bin 2, back to 0.
     const y = ticksOf(svg, 'y');
     const at = (v: number): number => y.find((t) => t.value === v)!.position;
     const d = /<path class="series" data-series="0" d="([^"]+)"/.exec(svg)![1]!;
     const levels = [...d.matchAll(/V(-?[\d.]+)/g)].map((m) => Number(m[1]));
-    const expected = [0.5 * (at(2) + at(4)), 0.5 * (at(4) + at(6)), at(2), at(0)];
+    const expected = [at(3), at(5), at(2), at(0)];
     levels.forEach((v, i) => expect(Math.abs(v - expected[i]!)).toBeLessThan(0.011));
   });
 
@@ -429,12 +339,43 @@ describe('renderHistogramSvg', () => {
   });
 });
 
-describe('degenerate axis ranges', () => {
-  it('a range at rounding level is treated as one value (no tick explosion)', async () => {
-    const { niceLinearTicks } = await import('../../src/figures/axisTicks.js');
-    const t = niceLinearTicks(-0.4798347188012912, -0.47983471880129097);
-    expect(t.values.length).toBeLessThan(20);
-    expect(t.min).toBeLessThanOrEqual(-0.4798347188012912);
-    expect(t.max).toBeGreaterThanOrEqual(-0.47983471880129097);
+describe('axis limits a reader can trust', () => {
+  it('a non-negative quantity keeps its axis at zero although error bars reach below (no density axis to -0.5)', () => {
+    const svg = renderLinePlotSvg({
+      xAxis: { label: 'radius', unit: 'sites' },
+      yAxis: { label: 'atoms per site' },
+      series: [{ label: 'density n', x: [0, 1, 2, 3], y: [2, 2, 0.1, 0], yErr: [0.05, 0.05, 0.4, 0.3] }],
+    });
+    const y = ticksOf(svg, 'y').map((t) => t.value);
+    expect(y[0]).toBe(0);
+    expect(y.every((v) => v >= 0)).toBe(true);
+    // A quantity that does go negative still gets its negative axis.
+    const signed = renderLinePlotSvg({ xAxis: { label: 'x' }, yAxis: { label: 'residual' }, series: [{ label: 'r', x: [0, 1], y: [-0.3, 0.4] }] });
+    expect(ticksOf(signed, 'y')[0]!.value).toBeLessThan(0);
+  });
+
+  it('an x axis runs over the data, without an empty stretch before the first point', () => {
+    const svg = renderLinePlotSvg({ xAxis: { label: 'lattice depth', unit: 'E_r' }, yAxis: { label: 'J', log: true }, series: [{ label: 'J', x: [4, 10, 30], y: [100, 30, 1] }] });
+    const x = ticksOf(svg, 'x');
+    expect(x[0]!.value).toBe(5);
+    expect(x[x.length - 1]!.value).toBe(30);
+    const left = Number(/<rect class="plot-area" x="([^"]+)"/.exec(svg)![1]);
+    // The first point (x = 4) sits on the left frame.
+    expect(seriesPoints(svg)[0]!.x).toBeCloseTo(left, 1);
+  });
+});
+
+describe('PNG of a line plot', () => {
+  it('has the size of the SVG, white margins, and the series colour on the data points', () => {
+    const svg = renderLinePlotSvg({ xAxis: { label: 'x' }, yAxis: { label: 'y' }, series: [{ label: 'line', x: [0, 1, 2], y: [0, 1, 2], style: { color: '#c02000' } }] });
+    const img = renderPixels(svg);
+    const { width, height } = rootSize(svg);
+    expect([img.width, img.height]).toEqual([width, height]);
+    expect(img.at(1, 1)).toEqual([255, 255, 255]);
+    const mid = seriesPoints(svg)[1]!;
+    const [r, g, b] = img.at(mid.x, mid.y);
+    expect(r).toBeGreaterThan(150);
+    expect(g).toBeLessThan(100);
+    expect(b).toBeLessThan(100);
   });
 });

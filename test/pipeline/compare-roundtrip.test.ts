@@ -83,6 +83,11 @@ describe('compare round trip', () => {
     for (const file of ['report.html', 'profiles.csv', 'images/side_by_side.png', 'images/residual.png', 'images/residual.npy', 'images/profiles.png', 'images/model.npy']) {
       expect(existsSync(join(out, file)), file).toBe(true);
     }
+    // The report shows the radial profile once (its own section, the figure of images/profiles.png).
+    const html = readFileSync(join(out, 'report.html'), 'utf8');
+    expect(html.match(/radial profiles<\/text>/g)).toHaveLength(1);
+    expect(html.match(/>trap-scaled radius \([^)]+\)<\/text>/g)).toHaveLength(1);
+    expect(html.match(/<img /g)).toBeNull(); // every picture is an inlined figure, none a second raster copy
   });
 });
 

@@ -18,6 +18,13 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { LASER_SAFETY_CAUTION, MEAN_FIELD_CAUTION } from '../../src/report/cautions.js';
 import type { ReportDocument } from '../../src/report/reportModel.js';
 import { renderReportHtml } from '../../src/report/renderReport.js';
+import { renderFieldMapSvg } from '../../src/figures/fieldMapSvg.js';
+
+/** A 12 x 10 site heat map (a checkerboard of two values) as the solve writers make them. */
+function sampleFieldMap(): string {
+  const values = Float64Array.from({ length: 120 }, (_, i) => ((Math.floor(i / 10) + (i % 10)) % 2 === 0 ? 0.2 : 1.8));
+  return renderFieldMapSvg({ values, nx: 12, ny: 10, title: 'checkerboard density', colorBarLabel: 'atoms per site' });
+}
 
 const CHROMIUM_PATH = '/usr/bin/chromium';
 const CHROMIUM_ARGS = [
@@ -111,6 +118,7 @@ function sampleReport(png: Uint8Array): ReportDocument {
         heading: 'Images',
         blocks: [
           { kind: 'image', pngBytes: png, alt: 'Test card image', caption: 'A test card, drawn pixelated at 8x.', displayWidthPx: 384, pixelated: true },
+          { kind: 'figure', svg: sampleFieldMap(), caption: 'A heat map from the figure stack, inlined as SVG.' },
         ],
       },
       {
@@ -231,7 +239,7 @@ describe('report in headless Chromium', () => {
 
     // Plots: one svg per plot block, each with a size and one drawn path per series
     // (gathered in one round trip to the page).
-    const plots = await page.locator('svg.tc-plot').evaluateAll((els) =>
+    const plots = await page.locator('figure > svg.tc-plot:not(.tc-map)').evaluateAll((els) =>
       els.map((el) => {
         const box = el.getBoundingClientRect();
         return {
@@ -255,8 +263,17 @@ describe('report in headless Chromium', () => {
         expect(b.height).toBeGreaterThan(0);
       }
     });
+    // The inlined heat map: its site pixels are drawn without smoothing (the report's CSS),
+    // at the size the figure asks for, and its embedded image decodes.
+    const map = await page.locator('svg.tc-map image.pixels').evaluate((el: any) => ({
+      rendering: (globalThis as any).getComputedStyle(el).imageRendering as string,
+      width: el.getBoundingClientRect().width as number,
+      attribute: Number(el.getAttribute('width')),
+    }));
+    expect(map.rendering).toBe('pixelated');
+    expect(map.width).toBeCloseTo(map.attribute, 0);
     // The label with markup is shown as text, not run.
-    expect(await page.locator('svg.tc-plot').first().textContent()).toContain('variance <script>');
+    expect(await page.locator('svg.tc-plot:not(.tc-map)').first().textContent()).toContain('variance <script>');
     expect(await page.locator('main').textContent()).toContain('</code><b>x</b>');
 
     // Error banner first, visible and red.

@@ -26,6 +26,7 @@ import {
 } from '../../src/report/cautions.js';
 import type { ReportDocument } from '../../src/report/reportModel.js';
 import { pngSize, renderReportHtml } from '../../src/report/renderReport.js';
+import { renderFieldMapSvg } from '../../src/figures/fieldMapSvg.js';
 
 function decodeEntities(text: string): string {
   return text
@@ -186,6 +187,29 @@ describe('renderReportHtml', () => {
     expect(ids).toHaveLength(3);
     expect(new Set(ids).size).toBe(3);
     expect(html).toContain('tolerance 1 \u00D7 10\u207B\u00B3');
+  });
+
+  it('inlines a figure block as the very SVG of its image file, and refuses anything that is not one <svg>', () => {
+    const values = Float64Array.from({ length: 12 }, (_, i) => i);
+    const a = renderFieldMapSvg({ values, nx: 4, ny: 3, title: 'map a' });
+    const b = renderFieldMapSvg({ values: values.map((v) => -v), nx: 4, ny: 3, title: 'map b' });
+    const html = renderReportHtml({
+      title: 't',
+      createdIso: '2025-01-01T00:00:00Z',
+      status: [],
+      sections: [
+        { heading: 'maps', blocks: [{ kind: 'figure', svg: a, caption: 'first' }, { kind: 'figure', svg: b }] },
+        { heading: 'bad', blocks: [{ kind: 'figure', svg: '<img src="x">' }] },
+      ],
+    });
+    expect(html).toContain(a.replace(' xmlns="http://www.w3.org/2000/svg"', ''));
+    expect(html).not.toContain('http://www.w3.org/2000/svg');
+    // Two different figures, two sets of ids (taken from each figure's content).
+    const ids = [...html.matchAll(/<svg class="tc-plot tc-map" id="([^"]+)"/g)].map((m) => m[1]);
+    expect(ids).toHaveLength(2);
+    expect(new Set(ids).size).toBe(2);
+    expect(html).toContain('This figure block could not be drawn: svg: expected one &lt;svg&gt; element');
+    expect(html).not.toContain('<img src="x">');
   });
 });
 
