@@ -23,7 +23,8 @@
 // - shot-to-shot drifts of the total atom number or of the cloud position add variance that
 //   is not thermal: keep them small (post-select, re-centre), and use bins wider than the
 //   imaging resolution, so that atoms blurred across a bin edge do not hide fluctuations.
-// The combined temperature is the ratio of sums kT = sum_b (<dN_b^2> - noise_b) /
+// Bins are used where d<N_b>/dmu exceeds 3 standard errors and the neighbouring bins hold
+// at least `minimumPixelsPerBin` pixels. The combined temperature is the ratio of sums kT = sum_b (<dN_b^2> - noise_b) /
 // sum_b d<N_b>/dmu over the usable bins (no weights that depend on the fluctuating data).
 // Uncertainties: var(s^2) = 2 sigma^4 / (M - 1) for M shots (Gaussian scatter), and the
 // standard errors of the mean profile propagated through the derivative.
@@ -191,7 +192,9 @@ export function fluctuationThermometry(input: FluctuationThermometryInput): Fluc
       slopeSe = P[b] * Math.sqrt(c0 * c0 * nbarSe[b - 1] ** 2 + c1 * c1 * nbarSe[b] ** 2 + c2 * c2 * nbarSe[b + 1] ** 2);
     }
     const thermalVariance = variance[b] - noise[b];
-    const usable = neighboursOk && atomsPerHz > 0 && Number.isFinite(thermalVariance);
+    // A bin is used only where the slope is measured: d<N>/dmu above 3 standard errors (far out
+    // in the wings both numerator and denominator are pure noise and only widen the error).
+    const usable = neighboursOk && atomsPerHz > 3 * slopeSe && Number.isFinite(thermalVariance);
     let kTHz = NaN;
     let kTHzUncertainty = NaN;
     if (usable) {
@@ -230,7 +233,8 @@ export function fluctuationThermometry(input: FluctuationThermometryInput): Fluc
   const warnings: CameraWarning[] = [];
   if (usableBins === 0) warnings.push({ code: 'no-usable-bins', message: 'no radial bin had a positive slope d<N>/dmu and enough pixels: no temperature' });
   if (M < 20) warnings.push({ code: 'few-shots', message: `${M} shots: the variance of each bin is known to only sqrt(2/(M-1)) = ${(100 * Math.sqrt(2 / (M - 1))).toFixed(0)} %` });
-  if (spreadRatioMax > 0.5) {
+  // Using the bin's mean potential for sum_px dn/dmu errs by about (spread / kT)^2 / 24 (classical gas): 4 % at one kT.
+  if (spreadRatioMax > 1) {
     warnings.push({
       code: 'bins-too-wide',
       message: `the trap potential varies by up to ${spreadRatioMax.toFixed(2)} kT inside a bin; narrow the bins (the LDA slope is taken at the bin's mean potential)`,
