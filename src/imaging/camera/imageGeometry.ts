@@ -138,7 +138,7 @@ function clip(src: Float64Array, n: number, dst: Float64Array, axis: number, lim
 
 /** Area of the rotated unit square (corners in `corners`) inside the pixel [x0, x0+1] x [y0, y0+1]. */
 function overlapArea(corners: Float64Array, x0: number, y0: number): number {
-  polyA.set(corners.subarray(0, 8));
+  for (let k = 0; k < 8; k++) polyA[k] = corners[k]; // no subarray view: no allocation per call
   let n = clip(polyA, 4, polyB, 0, x0, -1); // x >= x0
   if (n === 0) return 0;
   n = clip(polyB, n, polyA, 0, x0 + 1, 1); // x <= x0 + 1

@@ -200,3 +200,23 @@ describe('fluctuation thermometry recovers the input temperature', () => {
     expect(biased.kTHz - kTHz).toBeGreaterThan(3 * biased.kTHzUncertainty);
   });
 });
+
+describe('azimuthal average with an aspect ratio and a tilted ellipse', () => {
+  it('a tilted anisotropic Gaussian averages to exp(-r^2 / 2) in the scaled radius; a flat image to its value', () => {
+    const w = 81, h = 71, cx = 40.3, cy = 35.1, a = 9, b = 4, phi = (25 * Math.PI) / 180;
+    const values = new Float64Array(w * h);
+    for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) {
+      const u = Math.cos(phi) * (x - cx) + Math.sin(phi) * (y - cy);
+      const v = -Math.sin(phi) * (x - cx) + Math.cos(phi) * (y - cy);
+      values[y * w + x] = Math.exp(-(u * u) / (2 * a * a) - (v * v) / (2 * b * b));
+    }
+    const p = azimuthalAverage({ width: w, height: h, values }, { centreX: cx, centreY: cy, binWidth: 0.25, scaleU: 1 / a, scaleV: 1 / b, ellipseAngleDeg: 25, binCount: 10 });
+    for (let i = 1; i < 10; i++) {
+      // Within a bin the value varies by about r * binWidth * exp(-r^2/2); compare with the mean of exp(-r^2/2) over the bin's radii (~ at the mean radius).
+      expect(Math.abs(p.mean[i] - Math.exp(-(p.meanRadius[i] ** 2) / 2))).toBeLessThan(0.004);
+    }
+    const flat = azimuthalAverage({ width: w, height: h, values: new Float64Array(w * h).fill(3) }, { centreX: cx, centreY: cy, binWidth: 2 });
+    expect(flat.pixelCount.reduce((s, c) => s + c, 0)).toBe(w * h);
+    for (let i = 0; i < flat.mean.length; i++) if (flat.pixelCount[i] > 0) expect(flat.mean[i]).toBe(3);
+  });
+});

@@ -283,3 +283,38 @@ describe('frame addresses', () => {
     expect(parseFrameAddress('run.h5')).toEqual({ file: 'run.h5' });
   });
 });
+
+describe('.npy files written by numpy itself (skipped only where python3 with numpy is missing)', () => {
+  it('uint16 C order, big-endian float32, Fortran-order float64 stack', async () => {
+    const { spawnSync } = await import('node:child_process');
+    const { mkdtempSync, readFileSync, rmSync } = await import('node:fs');
+    const { tmpdir } = await import('node:os');
+    const { join } = await import('node:path');
+    const probe = spawnSync('python3', ['-c', 'import numpy'], { encoding: 'utf8' });
+    if (probe.status !== 0) return; // no numpy on this machine: the hand-built files above still run
+    const dir = mkdtempSync(join(tmpdir(), 'tiercake-npy-'));
+    try {
+      const script = [
+        'import numpy as np, sys',
+        'd = sys.argv[1]',
+        'a = np.arange(60).reshape(6, 10).astype("<u2"); a[3, 7] = 200; np.save(d + "/u2.npy", a)',
+        'np.save(d + "/bf4.npy", (a.astype(">f4") + 0.5))',
+        'np.save(d + "/f8.npy", np.asfortranarray(np.stack([a, a + 1000]).astype("<f8")))',
+      ].join('\n');
+      const run = spawnSync('python3', ['-c', script, dir], { encoding: 'utf8' });
+      expect(run.status, run.stderr).toBe(0);
+      const u2 = await readFrames(new Uint8Array(readFileSync(join(dir, 'u2.npy'))), 'u2.npy');
+      expect(u2.frames[0][3 * 10 + 7]).toBe(200);
+      expect(u2.frames[0][1 * 10 + 2]).toBe(12);
+      const bf4 = await readFrames(new Uint8Array(readFileSync(join(dir, 'bf4.npy'))), 'bf4.npy');
+      expect(bf4.frames[0][3 * 10 + 7]).toBe(200.5);
+      const f8 = await readFrames(new Uint8Array(readFileSync(join(dir, 'f8.npy'))), 'f8.npy');
+      expect(f8.metadata.fortranOrder).toBe(true);
+      expect(f8.frames.length).toBe(2);
+      expect(f8.frames[1][3 * 10 + 7]).toBe(1200);
+      expect(f8.frames[1][1 * 10 + 2]).toBe(1012);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});
