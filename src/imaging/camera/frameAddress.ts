@@ -1,0 +1,22 @@
+// Where frames come from, as a user writes it: a file name, or for HDF5 a file name and a
+// dataset path joined by a colon, `shots/run7.h5:/shot/atoms` (the path starts with '/').
+// The split is made at the first ':' that follows an HDF5 file extension (.h5, .hdf5, .hdf,
+// .he5, .nxs, .nx5), so Windows drive letters and colons elsewhere in a path are left alone.
+
+export interface FrameAddress {
+  /** The file to read (as given, not resolved). */
+  file: string;
+  /** The HDF5 dataset path inside the file, when one was given. */
+  dataset?: string;
+}
+
+const hdf5Extension = /\.(h5|hdf5|hdf|he5|nxs|nx5):(?=\/)/i;
+
+/** Split `file.h5:/group/name` into file and dataset; any other text is a plain file name. */
+export function parseFrameAddress(text: string): FrameAddress {
+  const m = hdf5Extension.exec(text);
+  if (m === null) return { file: text };
+  const cut = m.index + m[0].length - 1; // position of ':'
+  const dataset = text.slice(cut + 1);
+  return dataset.length > 1 ? { file: text.slice(0, cut), dataset } : { file: text.slice(0, cut) };
+}
