@@ -1,8 +1,9 @@
 // Frequencies of a few oscillations in a sampled time series (dipole mode, small
-// oscillations): y(t) = C + sum_k [a_k cos(w_k t) + b_k sin(w_k t)]. Starting frequencies are
-// the highest local maxima of a periodogram on a grid four times finer than the resolution
-// 2 pi / T (Lomb-style least-squares power of one sinusoid at each w), then all parameters
-// are refined together by Levenberg-Marquardt (observables/leastSquaresFit.ts). For
+// oscillations): y(t) = C + sum_k [a_k cos(w_k t) + b_k sin(w_k t)]. Modes are added one at
+// a time: the strongest peak of the residual's periodogram (least-squares power of one
+// sinusoid, Lomb-style, on a grid four times finer than the resolution 2 pi / T) starts a new
+// mode, then all parameters are refined together by Levenberg-Marquardt
+// (observables/leastSquaresFit.ts). For
 // noise-free data from an undamped linear oscillation the fitted w is limited only by the
 // data; with damping or nonlinearity the residual says how far the model holds.
 
@@ -48,56 +49,12 @@ export function fitOscillation(request: OscillationFitRequest): OscillationFit {
   for (let i = 0; i < n; i++) spread += (values[i] - mean) * (values[i] - mean);
   const resolution = (2 * Math.PI) / span / 4;
   const count = Math.max(8, Math.ceil((wMax - wMin) / resolution) + 1);
-  const power = new Float64Array(count);
-  for (let g = 0; g < count; g++) {
-    const w = wMin + ((wMax - wMin) * g) / (count - 1);
-    let cc = 0;
-    let ss = 0;
-    let cs = 0;
-    let yc = 0;
-    let ys = 0;
-    for (let i = 0; i < n; i++) {
-      const c = Math.cos(w * times[i]);
-      const s = Math.sin(w * times[i]);
-      const v = values[i] - mean;
-      cc += c * c;
-      ss += s * s;
-      cs += c * s;
-      yc += v * c;
-      ys += v * s;
-    }
-    // least-squares power of a cos + b sin: r^T (G^-1) r with the 2x2 Gram matrix G
-    const det = cc * ss - cs * cs;
-    power[g] = det > 1e-12 * cc * ss ? (ss * yc * yc - 2 * cs * yc * ys + cc * ys * ys) / det : 0;
-  }
-  const peaks: number[] = [];
-  for (let g = 0; g < count; g++) {
-    const left = g > 0 ? power[g - 1] : -Infinity;
-    const right = g + 1 < count ? power[g + 1] : -Infinity;
-    if (power[g] >= left && power[g] >= right && power[g] > 0) peaks.push(g);
-  }
-  peaks.sort((a, b) => power[b] - power[a]);
-  const chosen = peaks.slice(0, modes).map((g) => wMin + ((wMax - wMin) * g) / (count - 1));
-  while (chosen.length < modes) chosen.push(wMin + (wMax - wMin) * (chosen.length + 1) / (modes + 1));
-  const initial = [mean];
-  for (const w of chosen) initial.push(w, 0, 0);
-  // linear amplitudes at the starting frequencies from one LM run would be slow to find;
-  // a plain projection is enough to start
-  for (let k = 0; k < modes; k++) {
-    let yc = 0;
-    let ys = 0;
-    for (let i = 0; i < n; i++) {
-      yc += (values[i] - mean) * Math.cos(chosen[k] * times[i]);
-      ys += (values[i] - mean) * Math.sin(chosen[k] * times[i]);
-    }
-    initial[2 + 3 * k] = (2 * yc) / n;
-    initial[3 + 3 * k] = (2 * ys) / n;
-  }
-  const model = (p: Float64Array): Float64Array => {
+  const gridAt = (g: number): number => wMin + ((wMax - wMin) * g) / (count - 1);
+  const model = (p: Float64Array, modeCount: number): Float64Array => {
     const out = new Float64Array(n);
     for (let i = 0; i < n; i++) {
       let v = p[0];
-      for (let k = 0; k < modes; k++) {
+      for (let k = 0; k < modeCount; k++) {
         const w = p[1 + 3 * k];
         v += p[2 + 3 * k] * Math.cos(w * times[i]) + p[3 + 3 * k] * Math.sin(w * times[i]);
       }
@@ -106,21 +63,67 @@ export function fitOscillation(request: OscillationFitRequest): OscillationFit {
     return out;
   };
   const scale = Math.sqrt(spread / n) || 1;
-  const fit = leastSquaresFit(
-    { model, data: values, sigma: scale, initial },
-    { maxIterations: 200, centralDifferences: true, relativeStep: 1e-7, chiSquareTolerance: 1e-14, stepTolerance: 1e-13 },
-  );
-  const best = fit.best;
-  const fitted = model(best);
-  let residual = 0;
-  for (let i = 0; i < n; i++) residual += (values[i] - fitted[i]) * (values[i] - fitted[i]);
+  // One mode at a time: the strongest peak of the residual's periodogram joins the model,
+  // then all modes found so far are refitted together (sidelobes of a strong peak never
+  // count as a second mode, because the strong peak is gone from the residual).
+  let params = Float64Array.of(mean);
+  let fit: ReturnType<typeof leastSquaresFit> | null = null;
+  const residual = Float64Array.from(values, (v) => v - mean);
+  for (let m = 0; m < modes; m++) {
+    let bestPower = -1;
+    let bestW = gridAt(0);
+    for (let g = 0; g < count; g++) {
+      const w = gridAt(g);
+      let cc = 0;
+      let ss = 0;
+      let cs = 0;
+      let yc = 0;
+      let ys = 0;
+      for (let i = 0; i < n; i++) {
+        const c = Math.cos(w * times[i]);
+        const s = Math.sin(w * times[i]);
+        const v = residual[i];
+        cc += c * c;
+        ss += s * s;
+        cs += c * s;
+        yc += v * c;
+        ys += v * s;
+      }
+      // least-squares power of a cos + b sin: r^T G^-1 r with the 2x2 Gram matrix G
+      const det = cc * ss - cs * cs;
+      const power = det > 1e-12 * cc * ss ? (ss * yc * yc - 2 * cs * yc * ys + cc * ys * ys) / det : 0;
+      if (power > bestPower) {
+        bestPower = power;
+        bestW = w;
+      }
+    }
+    let yc = 0;
+    let ys = 0;
+    for (let i = 0; i < n; i++) {
+      yc += residual[i] * Math.cos(bestW * times[i]);
+      ys += residual[i] * Math.sin(bestW * times[i]);
+    }
+    const initial = Float64Array.from([...params, bestW, (2 * yc) / n, (2 * ys) / n]);
+    const modeCount = m + 1;
+    fit = leastSquaresFit(
+      { model: (p) => model(p, modeCount), data: values, sigma: scale, initial },
+      { maxIterations: 200, centralDifferences: true, relativeStep: 1e-7, chiSquareTolerance: 1e-14, stepTolerance: 1e-13 },
+    );
+    params = Float64Array.from(fit.best);
+    const fitted = model(params, modeCount);
+    for (let i = 0; i < n; i++) residual[i] = values[i] - fitted[i];
+  }
+  if (fit === null) throw new RangeError('fitOscillation: modes must be >= 1');
+  const best = params;
+  let residualSq = 0;
+  for (let i = 0; i < n; i++) residualSq += residual[i] * residual[i];
   const order = Array.from({ length: modes }, (_, k) => k).sort((a, b) => best[1 + 3 * a] - best[1 + 3 * b]);
   return {
     angularFrequencies: order.map((k) => best[1 + 3 * k]),
     amplitudes: order.map((k) => Math.hypot(best[2 + 3 * k], best[3 + 3 * k])),
     angularFrequencyUncertainties: order.map((k) => fit.uncertainty[1 + 3 * k]),
     offset: best[0],
-    relativeResidual: spread > 0 ? Math.sqrt(residual / spread) : 0,
+    relativeResidual: spread > 0 ? Math.sqrt(residualSq / spread) : 0,
     converged: fit.converged,
     message: fit.message,
   };
