@@ -3,8 +3,13 @@
 //
 //   excess energy per atom  (E_final - E_ground) / N   (>= 0 up to solver tolerance: the
 //                           ground state minimises the mean-field energy at fixed N)
-//   site infidelity         1 - |<g_i|c_i>|^2, mean and maximum over occupied sites
-//                           (<n_i> of either state > 0.01); independent of each site's phase
+//   site infidelity         1 - |<g_i|c_i(alpha)>|^2, mean and maximum over occupied sites
+//                           (<n_i> of either state > 0.01), with c_{i,n}(alpha) =
+//                           c_{i,n} e^{i n alpha}: the ground state is degenerate under the
+//                           global U(1) rotation of the condensate phase, which the evolution
+//                           turns freely (at the rate mu_final - mu_gauge), so alpha is the
+//                           one that maximises the total fidelity; also independent of each
+//                           site's overall phase
 //   defects per shell       for every Mott filling k of the shell map: sum over the shell
 //                           of 1 - P_i(k), in the final state, in the ground state (nonzero
 //                           by quantum fluctuations), and the excess of the first over the
@@ -55,6 +60,8 @@ export interface AdiabaticityVerdict {
   excessEnergyPerAtomInScale: number;
   meanInfidelity: number;
   maxInfidelity: number;
+  /** the global rotation alpha (radians) of the condensate phase that best matches the ground state */
+  condensatePhaseShift: number;
   shells: ShellDefectCount[];
   finalTotals: EvolutionTotals;
   groundTotals: EvolutionTotals;
@@ -83,14 +90,15 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
   const S = final.states;
   const a = final.amplitudes;
   const g = ground.amplitudes;
-  let infidelitySum = 0;
-  let infidelityMax = 0;
-  let occupied = 0;
+  const siteCount = final.siteCount;
+  // overlaps per site and occupation: o_{i,n} = conj(g_{i,n}) c_{i,n}; the fidelity at alpha is
+  // |sum_n o_{i,n} e^{i n alpha}|^2
+  const overlapRe = new Float64Array(siteCount * S);
+  const overlapIm = new Float64Array(siteCount * S);
+  const occupied = new Uint8Array(siteCount);
   const byFilling = new Map<number, ShellDefectCount>();
-  for (let i = 0; i < final.siteCount; i++) {
+  for (let i = 0; i < siteCount; i++) {
     const base = 2 * i * S;
-    let re = 0;
-    let im = 0;
     let nFinal = 0;
     let nGround = 0;
     const k = shellFilling === null ? 0 : shellFilling[i];
@@ -103,9 +111,8 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
       const ai = a[base + 2 * n + 1];
       const gr = g[base + 2 * n];
       const gi = g[base + 2 * n + 1];
-      // <g|c> = sum conj(g) c
-      re += gr * ar + gi * ai;
-      im += gr * ai - gi * ar;
+      overlapRe[i * S + n] = gr * ar + gi * ai;
+      overlapIm[i * S + n] = gr * ai - gi * ar;
       const p = ar * ar + ai * ai;
       const q = gr * gr + gi * gi;
       nFinal += n * p;
@@ -119,12 +126,7 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
         groundHoles += q;
       }
     }
-    if (nFinal > 0.01 || nGround > 0.01) {
-      const inf = Math.max(0, 1 - (re * re + im * im));
-      infidelitySum += inf;
-      if (inf > infidelityMax) infidelityMax = inf;
-      occupied++;
-    }
+    occupied[i] = nFinal > 0.01 || nGround > 0.01 ? 1 : 0;
     if (k > 0) {
       let shell = byFilling.get(k);
       if (!shell) {
@@ -137,6 +139,75 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
       shell.holes += holes;
       shell.groundHoles += groundHoles;
     }
+  }
+  const fidelitySum = (alpha: number): number => {
+    let total = 0;
+    for (let i = 0; i < siteCount; i++) {
+      if (!occupied[i]) continue;
+      let re = 0;
+      let im = 0;
+      for (let n = 0; n < S; n++) {
+        const c = Math.cos(n * alpha);
+        const s = Math.sin(n * alpha);
+        re += overlapRe[i * S + n] * c - overlapIm[i * S + n] * s;
+        im += overlapRe[i * S + n] * s + overlapIm[i * S + n] * c;
+      }
+      total += re * re + im * im;
+    }
+    return total;
+  };
+  // grid over [0, 2 pi), then golden-section refinement around the best grid point
+  const grid = 64;
+  let bestAlpha = 0;
+  let bestValue = -Infinity;
+  for (let m = 0; m < grid; m++) {
+    const alpha = (2 * Math.PI * m) / grid;
+    const v = fidelitySum(alpha);
+    if (v > bestValue) {
+      bestValue = v;
+      bestAlpha = alpha;
+    }
+  }
+  const golden = (Math.sqrt(5) - 1) / 2;
+  let lo = bestAlpha - (2 * Math.PI) / grid;
+  let hi = bestAlpha + (2 * Math.PI) / grid;
+  let x1 = hi - golden * (hi - lo);
+  let x2 = lo + golden * (hi - lo);
+  let f1 = fidelitySum(x1);
+  let f2 = fidelitySum(x2);
+  for (let iter = 0; iter < 60; iter++) {
+    if (f1 > f2) {
+      hi = x2;
+      x2 = x1;
+      f2 = f1;
+      x1 = hi - golden * (hi - lo);
+      f1 = fidelitySum(x1);
+    } else {
+      lo = x1;
+      x1 = x2;
+      f1 = f2;
+      x2 = lo + golden * (hi - lo);
+      f2 = fidelitySum(x2);
+    }
+  }
+  const alpha = f1 > f2 ? x1 : x2;
+  let infidelitySum = 0;
+  let infidelityMax = 0;
+  let occupiedCount = 0;
+  for (let i = 0; i < siteCount; i++) {
+    if (!occupied[i]) continue;
+    let re = 0;
+    let im = 0;
+    for (let n = 0; n < S; n++) {
+      const c = Math.cos(n * alpha);
+      const s = Math.sin(n * alpha);
+      re += overlapRe[i * S + n] * c - overlapIm[i * S + n] * s;
+      im += overlapRe[i * S + n] * s + overlapIm[i * S + n] * c;
+    }
+    const inf = Math.max(0, 1 - (re * re + im * im));
+    infidelitySum += inf;
+    if (inf > infidelityMax) infidelityMax = inf;
+    occupiedCount++;
   }
   const shells = [...byFilling.values()].sort((x, y) => x.filling - y.filling);
   for (const s of shells) {
@@ -153,7 +224,8 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
     groundEnergy: groundTotals.energy,
     excessEnergyPerAtom: excess,
     excessEnergyPerAtomInScale: excess / request.energyScale,
-    meanInfidelity: occupied > 0 ? infidelitySum / occupied : 0,
+    meanInfidelity: occupiedCount > 0 ? infidelitySum / occupiedCount : 0,
+    condensatePhaseShift: alpha,
     maxInfidelity: infidelityMax,
     shells,
     finalTotals,
