@@ -7,73 +7,21 @@
 //   dphi = sum_m sqrt(m+1) (c0_m a_{m+1} + a_m^* c0_{m+1}),
 // a real-linear map on (Re a, Im a) whose eigenvalues are +-i omega (the Bogoliubov-like
 // spectrum of the Gutzwiller equations: e.g. Krutitsky & Navez, PRA 84, 033602 (2011)). It is
-// built here from this formula, independently of the code under test, and diagonalised with
-// ml-matrix's general EigenvalueDecomposition. The simulation starts from the ground state
+// built in linearisedSpectrum.ts from this formula, independently of the code under test, and
+// diagonalised with ml-matrix's general EigenvalueDecomposition. The simulation starts from the ground state
 // plus 1e-4 cos(k x) times a generic vector; the site-density wave sum_i cos(k x_i) n_i(t) is
 // fitted with four sinusoids in a window below the fifth branch. Tolerance 1e-5 relative:
 // measured 1e-8 to 1e-6 (the weakest branch has 1-3% of the sound wave's amplitude and the
 // branches above the window leave a residual of 1e-3 to 1e-2), nonlinear shifts are ~1e-8 and
 // the integrator runs at 1e-12.
 import { describe, expect, it } from 'vitest';
-import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { uniformPeriodic } from './fixtures.js';
 import { staticGroundState } from '../../src/dynamics/staticGround.js';
 import { frameFromModel } from '../../src/dynamics/dynamicsFrame.js';
 import { evolve } from '../../src/dynamics/evolve.js';
 import { copyState } from '../../src/dynamics/gutzwillerState.js';
 import { fitOscillation } from '../../src/dynamics/oscillationFit.js';
-
-function linearisedFrequencies(c0: Float64Array, U: number, J: number, mu: number, gammaK: number, z: number): number[] {
-  const S = c0.length;
-  let phi0 = 0;
-  for (let m = 0; m + 1 < S; m++) phi0 += Math.sqrt(m + 1) * c0[m] * c0[m + 1];
-  const psi0 = z * J * phi0;
-  const d = (n: number) => 0.5 * U * n * (n - 1) - mu * n;
-  // lambda = <c0|H0|c0>
-  let lambda = 0;
-  for (let n = 0; n < S; n++) {
-    let h = d(n) * c0[n];
-    if (n > 0) h -= psi0 * Math.sqrt(n) * c0[n - 1];
-    if (n + 1 < S) h -= psi0 * Math.sqrt(n + 1) * c0[n + 1];
-    lambda += c0[n] * h;
-  }
-  const M = new Matrix(2 * S, 2 * S);
-  for (let col = 0; col < 2 * S; col++) {
-    const ar = new Float64Array(S);
-    const ai = new Float64Array(S);
-    if (col < S) ar[col] = 1;
-    else ai[col - S] = 1;
-    let dr = 0;
-    let di = 0;
-    for (let m = 0; m + 1 < S; m++) {
-      // c0_m a_{m+1} + conj(a_m) c0_{m+1}
-      dr += Math.sqrt(m + 1) * (c0[m] * ar[m + 1] + ar[m] * c0[m + 1]);
-      di += Math.sqrt(m + 1) * (c0[m] * ai[m + 1] - ai[m] * c0[m + 1]);
-    }
-    for (let n = 0; n < S; n++) {
-      let hr = (d(n) - lambda) * ar[n];
-      let hi = (d(n) - lambda) * ai[n];
-      if (n > 0) {
-        hr -= psi0 * Math.sqrt(n) * ar[n - 1] + J * gammaK * dr * Math.sqrt(n) * c0[n - 1];
-        hi -= psi0 * Math.sqrt(n) * ai[n - 1] + J * gammaK * di * Math.sqrt(n) * c0[n - 1];
-      }
-      if (n + 1 < S) {
-        hr -= psi0 * Math.sqrt(n + 1) * ar[n + 1] + J * gammaK * dr * Math.sqrt(n + 1) * c0[n + 1];
-        hi -= psi0 * Math.sqrt(n + 1) * ai[n + 1] - J * gammaK * di * Math.sqrt(n + 1) * c0[n + 1];
-      }
-      // da/dt = -i h
-      M.set(n, col, hi);
-      M.set(S + n, col, -hr);
-    }
-  }
-  const eig = new EigenvalueDecomposition(M);
-  const re = eig.realEigenvalues;
-  const im = eig.imaginaryEigenvalues;
-  // The two zero modes (site phase, site norm) form a Jordan block whose eigenvalues the
-  // general solver returns as +-1e-8: rounding of a defective pair, not an instability.
-  for (const r of re) if (Math.abs(r) > 1e-6) throw new Error(`unstable mode: real part ${r}`);
-  return im.filter((w) => w > 1e-6).sort((a, b) => a - b);
-}
+import { linearisedFrequencies } from './linearisedSpectrum.js';
 
 describe('small oscillations of a uniform superfluid', () => {
   const cases = [
