@@ -17,7 +17,7 @@
 // fraction's shortfall (here 0.2%, checked below). Measured: omega/omega_D = 0.9985 to 1.0017
 // depending on the record (3 or 4 periods, 72 or 100 sites) and integrator (adaptive at 1e-9,
 // splitting at 0.25 or 0.5 ms): the single-mode fit of a few periods, not the physics, sets
-// the 0.2% spread. The run uses the fourth-order splitting (0.5 ms steps), 3 periods.
+// the 0.2% spread. The run uses the fourth-order splitting (0.5 ms steps), 2.5 periods.
 import { describe, expect, it } from 'vitest';
 import { createLatticeGeometry } from '../../src/lattice/latticeGeometry.js';
 import { uniformModel } from '../../src/lattice/latticeModel.js';
@@ -60,8 +60,8 @@ describe('dipole oscillation in a shallow lattice', () => {
 
     const frame = frameFromModel(centred, { mu: ground.mu, rate: laboratoryRate(1e-3) });
     const ws = createObservableWorkspace(L);
-    const count = 400;
-    const duration = 3 * periodMs;
+    const count = 250;
+    const duration = 2.5 * periodMs;
     const times = Array.from({ length: count }, (_, m) => (m * duration) / (count - 1));
     const position = new Float64Array(count);
     let condensedFraction = 1;
