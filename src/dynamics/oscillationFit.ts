@@ -7,7 +7,7 @@
 // noise-free data from an undamped linear oscillation the fitted w is limited only by the
 // data; with damping or nonlinearity the residual says how far the model holds.
 
-import { leastSquaresFit } from '../observables/leastSquaresFit.js';
+import { leastSquaresFit } from '../numerics/leastSquaresFit.js';
 
 export interface OscillationFitRequest {
   times: Float64Array;

@@ -19,7 +19,7 @@ import { createObservableWorkspace, evolutionTotals } from '../../src/dynamics/d
 import { hamiltonianActionRange, meanFieldRange, orderParameterRange } from '../../src/dynamics/equationsOfMotion.js';
 import { createExponentialWorkspace, propagateColourRange } from '../../src/dynamics/siteExponential.js';
 import { errorNormRange } from '../../src/dynamics/rungeKuttaKernels.js';
-import { seededRandom } from '../../src/lattice/seededRandom.js';
+import { seededRandom } from '../../src/numerics/seededRandom.js';
 
 describe('constants of motion', async () => {
   const model = trappedModel([10, 10], 0.06, 0.04, 7);
