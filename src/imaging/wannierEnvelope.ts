@@ -56,3 +56,23 @@ export function gaussianWannierEnvelope(
   const y = (k: number) => ay * Math.exp(-k * k * ly2);
   return { at: (kx, ky) => x(kx) * y(ky), factors: { x, y } };
 }
+
+/** The minimal view of a site orbital an envelope needs (siteOrbital.ts). */
+export interface OrbitalMomentumDensity {
+  /** |w~(k)|^2 in um, normalised as int |w~|^2 dk / (2 pi) = 1. */
+  momentumDensity(kPerUm: number): number;
+}
+
+/**
+ * The true envelope |w~_x(k_x)|^2 |w~_y(k_y)|^2 of the band-structure Wannier functions (or
+ * of harmonic-oscillator ground states along trapped axes), from the orbitals of the two
+ * image axes (siteOrbital.ts). Unlike the Gaussian of matched width it is not isotropic: a
+ * lattice Wannier function has more weight along the axes than along the diagonals at the
+ * same |k| (4 % at 16 E_r at |k| = 2 pi / a), which the visibility then measures too.
+ */
+export function orbitalEnvelope(orbitals: readonly [OrbitalMomentumDensity, OrbitalMomentumDensity]): MomentumEnvelope {
+  const [ox, oy] = orbitals;
+  const x = (k: number) => ox.momentumDensity(k);
+  const y = (k: number) => oy.momentumDensity(k);
+  return { at: (kx, ky) => x(kx) * y(ky), factors: { x, y } };
+}
