@@ -13,7 +13,10 @@
 //
 // Used only for bonds whose two sites are Mott sites of the same filling n (as classified) and
 // whose potential step |eps_i - eps_j| is below U / 2 (farther from resonance the expansion is
-// not controlled). Wrap-around bonds of periodic boundaries are left out (the two sites are
+// not controlled). Sites at a shell's rim keep a small proximity-induced phi, whose product
+// Re(phi_i^* phi_j) already stands for part of this coherence in the mean-field pictures; when
+// phi is given, only the excess max(0, c - Re(phi_i^* phi_j)) is added, so the bond's total
+// coherence is the larger of the two and nothing is counted twice. Wrap-around bonds of periodic boundaries are left out (the two sites are
 // not neighbours in the picture). Bonds along the imaging axis add nothing to a column
 // picture: integrated over k_z, e^{i k_z a} |w~(k_z)|^2 is the overlap of neighbouring Wannier
 // functions, zero (momentumStructureFactor.ts). Corrections of second order (density shifts,
@@ -37,6 +40,9 @@ export interface ParticleHoleInput {
   interactionU: number | Float64Array;
   /** Site potential (same unit); omit for a flat lattice. */
   sitePotential?: Float64Array;
+  /** Order parameter per site (real and optional imaginary part): only the excess over Re(phi_i^* phi_j) is added. */
+  phiRe?: Float64Array;
+  phiIm?: Float64Array;
   /** Periodic boundary per physical axis; wrap-around bonds are skipped. */
   periodic?: readonly boolean[];
   /** Lattice axis the camera looks along (0, 1 or 2); default 2. */
@@ -64,6 +70,9 @@ export function particleHoleBondCoherence(input: ParticleHoleInput): BondCoheren
   const { mottFilling, hopping, interactionU, sitePotential } = input;
   if (mottFilling.length !== sites) throw new RangeError(`particleHoleBondCoherence: mottFilling must hold ${sites} values`);
   if (hopping.length !== dims) throw new RangeError(`particleHoleBondCoherence: hopping needs one entry per lattice axis (${dims})`);
+  if ((input.phiRe !== undefined && input.phiRe.length !== sites) || (input.phiIm !== undefined && input.phiIm.length !== sites)) {
+    throw new RangeError(`particleHoleBondCoherence: phiRe and phiIm must hold ${sites} values`);
+  }
   if (sitePotential !== undefined && sitePotential.length !== sites) {
     throw new RangeError(`particleHoleBondCoherence: sitePotential must hold ${sites} values`);
   }
@@ -100,7 +109,12 @@ export function particleHoleBondCoherence(input: ParticleHoleInput): BondCoheren
         bondsSkippedNearResonance++;
         continue;
       }
-      const c = filling * (filling + 1) * J * (1 / (U + delta) + 1 / (U - delta));
+      let c = filling * (filling + 1) * J * (1 / (U + delta) + 1 / (U - delta));
+      if (input.phiRe !== undefined) {
+        const meanField = input.phiRe[i] * input.phiRe[j] + (input.phiIm === undefined ? 0 : input.phiIm[i] * input.phiIm[j]);
+        c = Math.max(0, c - meanField);
+        if (c === 0) continue;
+      }
       const cell = coords[kept[0]] * lv + coords[kept[1]];
       if (d === kept[0]) alongU[cell] += c;
       else alongV[cell] += c;

@@ -136,6 +136,13 @@ describe('bond coherences in pictures', () => {
     const tilted = particleHoleBondCoherence({ shape: [2], mottFilling: Int32Array.of(1, 1), hopping: [0.01], interactionU: 1, sitePotential: Float64Array.of(0, 0.6) });
     expect(tilted.bondsUsed).toBe(0);
     expect(tilted.bondsSkippedNearResonance).toBe(1);
+    // With phi given only the excess over the mean-field coherence phi_i phi_j is added:
+    // c = 4 J / U = 0.04; phi_i phi_j = 0.03 leaves 0.01, 0.05 leaves nothing.
+    const rim = (p0: number, p1: number) =>
+      particleHoleBondCoherence({ shape: [2], mottFilling: Int32Array.of(1, 1), hopping: [0.01], interactionU: 1, phiRe: Float64Array.of(p0, p1) });
+    expect(rim(0.1, 0.3).sumU).toBeCloseTo(0.01, 14);
+    expect(rim(0.1, 0.5).sumU).toBe(0);
+    expect(rim(0.1, 0.5).bondsUsed).toBe(0);
   });
 
   it('moves atoms in momentum space without adding any, and the finite-time picture converges to the far-field one', () => {
