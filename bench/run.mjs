@@ -190,4 +190,12 @@ async function wholeSolve(model, atoms, thermal, threads) {
   }
 }
 
+// 8. Time-of-flight pictures ----------------------------------------------------------
+{
+  const { runTofBench } = await import('./tofBench.mjs');
+  for (const r of await runTofBench()) {
+    log('tof', `${r.name}: free expansion (${r.pixels} px, ${r.subSamples}^2 samples)`, r.freeExpansionMs, 'ms', `far field ${r.farFieldMs.toFixed(0)} ms, x${(r.freeExpansionMs / r.farFieldMs).toFixed(1)}`);
+  }
+}
+
 await pool.destroy();

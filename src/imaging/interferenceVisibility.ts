@@ -130,3 +130,94 @@ export function interferenceVisibility(structure: MomentumStructureFactor, optio
     diskRadiusInTwoHbarKl: radius,
   };
 }
+
+/** A picture on a regular grid whose coordinates are measured from the zero-momentum peak. */
+export interface FlightPicture {
+  values: Float64Array;
+  nx: number;
+  ny: number;
+  pixelUm: number;
+  xCentresUm: Float64Array;
+  yCentresUm: Float64Array;
+}
+
+export interface PictureVisibilityOptions {
+  /** Distance of the first-order peaks from the zero-momentum peak, h t / (m a), um. */
+  firstOrderPeakUm: number;
+  /** Disk radius in units of the peak distance (2 hbar k_L); default 0.15. */
+  diskRadiusInTwoHbarKl?: number;
+}
+
+export interface PictureVisibility extends InterferenceVisibility {
+  /** Disks that reach beyond the picture (their atoms are then undercounted). */
+  disksOutsidePicture: number;
+}
+
+/**
+ * The same visibility measured on a picture in real space (a finite-time free expansion, or
+ * any camera picture): atoms in the disks of radius r x_1 around (+-x_1, 0), (0, +-x_1) and
+ * around the four diagonal points at the same distance, pixels weighted by the fraction of
+ * their area inside the disk (8 x 8 sub-samples at the rim). Far from the far field the disks
+ * keep their far-field places, as in an experiment's analysis.
+ */
+export function pictureVisibility(picture: FlightPicture, options: PictureVisibilityOptions): PictureVisibility {
+  const x1 = options.firstOrderPeakUm;
+  if (!(x1 > 0) || !Number.isFinite(x1)) {
+    throw new Error(`pictureVisibility: firstOrderPeakUm must be a positive number of um, got ${x1}`);
+  }
+  const radius = options.diskRadiusInTwoHbarKl ?? 0.15;
+  if (!(radius > 0 && radius < Math.SQRT1_2 / 2)) {
+    throw new Error(`pictureVisibility: disk radius must lie in (0, 0.35) units of 2 hbar k_L, got ${radius}`);
+  }
+  const { values, nx, ny, pixelUm: p, xCentresUm: xs, yCentresUm: ys } = picture;
+  const r = radius * x1;
+  const halfDiagonal = p * Math.SQRT1_2;
+  let outside = 0;
+  const diskAtoms = (angle: number): number => {
+    const cx = Math.cos(angle) * x1;
+    const cy = Math.sin(angle) * x1;
+    if (cx - r < xs[0] - p / 2 || cx + r > xs[nx - 1] + p / 2 || cy - r < ys[0] - p / 2 || cy + r > ys[ny - 1] + p / 2) outside++;
+    let sum = 0;
+    const iLo = Math.max(0, Math.floor((cx - r - xs[0]) / p) - 1);
+    const iHi = Math.min(nx - 1, Math.ceil((cx + r - xs[0]) / p) + 1);
+    const jLo = Math.max(0, Math.floor((cy - r - ys[0]) / p) - 1);
+    const jHi = Math.min(ny - 1, Math.ceil((cy + r - ys[0]) / p) + 1);
+    for (let i = iLo; i <= iHi; i++) {
+      const dx = xs[i] - cx;
+      for (let j = jLo; j <= jHi; j++) {
+        const dy = ys[j] - cy;
+        const d = Math.hypot(dx, dy);
+        let w: number;
+        if (d <= r - halfDiagonal) w = 1;
+        else if (d >= r + halfDiagonal) continue;
+        else {
+          let inside = 0;
+          for (let a = 0; a < subSamples; a++) {
+            const sx = dx + ((a + 0.5) / subSamples - 0.5) * p;
+            for (let b = 0; b < subSamples; b++) {
+              const sy = dy + ((b + 0.5) / subSamples - 0.5) * p;
+              if (sx * sx + sy * sy <= r * r) inside++;
+            }
+          }
+          w = inside / (subSamples * subSamples);
+        }
+        sum += w * values[i * ny + j];
+      }
+    }
+    return sum;
+  };
+  let peakAtoms = 0;
+  let diagonalAtoms = 0;
+  for (let k = 0; k < 4; k++) {
+    peakAtoms += diskAtoms((k * Math.PI) / 2);
+    diagonalAtoms += diskAtoms(Math.PI / 4 + (k * Math.PI) / 2);
+  }
+  const total = peakAtoms + diagonalAtoms;
+  return {
+    visibility: total > 0 ? (peakAtoms - diagonalAtoms) / total : 0,
+    peakAtoms,
+    diagonalAtoms,
+    diskRadiusInTwoHbarKl: radius,
+    disksOutsidePicture: outside,
+  };
+}

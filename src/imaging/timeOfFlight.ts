@@ -1,7 +1,9 @@
-// Time-of-flight picture: after the lattice and trap are switched off and the cloud
-// expands freely for a time t, the density at position x is the momentum distribution
-// at k = m x / (hbar t) (far-field limit, the initial cloud size neglected), DESIGN.md
-// section 4 and Gerbier et al., PRL 95, 050404 (2005):
+// Far-field time-of-flight picture: after the lattice and trap are switched off and the
+// cloud expands freely for a time t, the density at position x tends to the momentum
+// distribution at k = m x / (hbar t) (far-field limit, the initial cloud size neglected),
+// DESIGN.md section 4 and Gerbier et al., PRL 95, 050404 (2005). It is an approximation for
+// t below the far-field time m R^2 / hbar (timeOfFlightScales.ts); the picture at a finite
+// time is freeExpansion.ts, and timeOfFlightPicture.ts chooses between the two:
 //
 //   atoms in pixel around k = n(k) dk_x dk_y / (2 pi)^2,   n(k) = |w~(k)|^2 B(k),
 //
@@ -27,7 +29,7 @@ export interface TimeOfFlightOptions {
   massKg: number;
   /** Free expansion time, ms. */
   flightTimeMs: number;
-  /** |w~(k)|^2, e.g. gaussianWannierEnvelope(width, a). */
+  /** |w~(k)|^2: orbitalEnvelope(orbitals) (true Wannier functions), or gaussianWannierEnvelope(width, a). */
   envelope: MomentumEnvelope;
   /** Number of Brillouin zones spanned per axis, odd integer >= 1; default 3 (shows the first-order peaks). */
   brillouinZones?: number;
@@ -38,7 +40,10 @@ export interface TimeOfFlightImage {
   values: Float64Array;
   nx: number;
   ny: number;
-  /** Pixel spacing in momentum, 1/um, and in the camera plane after the flight, um. */
+  /**
+   * Step of this internal momentum grid, 1/um, and its size in the plane after the flight, um.
+   * Not the camera pixel's momentum once the picture is resampled: use timeOfFlightScales.
+   */
   kStepPerUm: number;
   pixelUm: number;
   /** Pixel centres after the flight, um (axis 0 and axis 1). */

@@ -20,6 +20,10 @@
 //   integral dk_z n(k) / (2 pi) = |w~(k_x, k_y)|^2 [ sum_layers |sum_{i in layer} e^{i k.r_i} phi_i|^2 + sum_i (n_i - |phi_i|^2) ]:
 // each layer along the imaging axis interferes with itself only. That is what we compute.
 //
+// Product states have no connected correlations between sites; the optional strong-coupling
+// correction of Mott bonds (imaging/particleHoleCoherence.ts, withBondCoherence) adds its
+// 2 c cos(k.d) terms to coherentPower afterwards.
+//
 // Numerics: B is sampled on one Brillouin zone with M points per axis,
 // k = 2 pi p / (M a), p = 0 .. M - 1, by a zero-padded 2D FFT (fft.js, M a power of
 // two, M >= lattice length); fft.js computes sum_r x_r e^{-i k r}, which is the sum

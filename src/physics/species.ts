@@ -135,12 +135,16 @@ export const speciesTable: readonly SpeciesRecord[] = [
     massU: 22.98976928,
     massSource:
       'IUPAC standard atomic weight of sodium (monoisotopic), 22.989 769 28(2); recalled from memory',
-    scatteringLengthBohr: 55.4,
+    scatteringLengthBohr: 54.54,
     scatteringLengthSource:
-      'van Abeelen & Verhaar, "Determination of collisional properties of cold Na atoms from analysis of ' +
-      'bound-state photoassociation and Feshbach resonance field data", Phys. Rev. A 59, 578 (1999) (journal ' +
-      'reference recalled from memory): a(|1,-1>, B=0) = 55.4(1.2) a_0',
-    state: '|F=1, mF=-1> (|1,+1> has the same value at low field)',
+      'Knoop, Schuster, Scelle, Trautmann, Appmeier, Oberthaler, Tiesinga, Tiemann, "Feshbach spectroscopy and ' +
+      'analysis of the interaction potentials of ultracold sodium", Phys. Rev. A 83, 042704 (2011), arXiv:1102.0572 ' +
+      '(paper, authors and scope checked: ground-state potentials refitted to Feshbach resonances measured in ' +
+      '|1,1>, scattering lengths derived): a(|1,1>) = 54.54(20) a_0, recalled from memory, not re-read in the paper ' +
+      '(with a_singlet = 18.82(80) a_0 and a_triplet = 64.30(40) a_0, also recalled from memory). At zero field ' +
+      '|1,1> and |1,-1> pairs are both the total-F = 2 channel of two f = 1 atoms, so they share this value. ' +
+      'Replaces 55.4(1.2) a_0 of van Abeelen & Verhaar, Phys. Rev. A 59, 578 (1999), within its error bar (U 1.6 % lower)',
+    state: '|F=1, mF=+1> or |F=1, mF=-1> at low field (the same value at zero field)',
     feshbachTunable: false,
     dLines: {
       d1: { wavelengthNm: 589.7558147, linewidthMHz: 9.765 },

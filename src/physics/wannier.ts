@@ -15,7 +15,8 @@
 // i.e. E_0(q) = const - 2 sum_n J_n cos(n q a). The sum over the uniform grid is the trapezoid
 // rule for a periodic analytic function, exact up to aliasing of J_{M +- n}.
 
-import type { LatticeBand1d } from './bandStructure.js';
+import { planeWaveHamiltonian, type LatticeBand1d } from './bandStructure.js';
+import { tridiagonalEigenvalue, tridiagonalEigenvector } from '../numerics/tridiagonalBisection.js';
 
 /** Hopping J_n to the n-th neighbour (n = 1 nearest, 2 next-nearest) in E_r. */
 export function tunnellingEr(band: LatticeBand1d, distanceSites: number): number {
@@ -161,4 +162,68 @@ export function wannierFunction1d(band: LatticeBand1d, options: WannierOptions =
     spreadSites: Math.sqrt(Math.max(0, second / norm - centreSites * centreSites)),
     integralW4PerSite: fourth,
   };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Momentum-space Wannier function.
+//
+// With w(xi) = (1/M) sum_j sum_l c_l(q_j) exp(i pi (q_j + 2l) xi) (above), the limit M -> infinity
+// turns (1/M) sum_j into (1/2) int_{-1}^{1} dq, so with K = pi (q + 2l) (wavenumber times a):
+//     w(xi) = int dK / (2 pi) W(K) exp(i K xi),    W(pi (q + 2l)) = c_l(q),
+// i.e. the Fourier transform of the Wannier function at wavenumber k = K / a is the plane-wave
+// coefficient of the Bloch state at the quasi-momentum q that K folds back to, in the same smooth
+// gauge (sum_l c_l(q) > 0). Normalisation: int |W|^2 dK / (2 pi) = (1/2) int dq sum_l c_l^2 = 1
+// (Parseval). W is real and even because w is. In physical units w~(k) = sqrt(a) W(k a), so
+// int |w~|^2 dk / (2 pi) = 1 and |w~(k)|^2 is the momentum envelope of a time-of-flight picture.
+// Beyond the plane-wave cutoff (|K| > pi (2L + 1)) W is zero, which is below 1e-13 of its peak
+// (planeWaveCutoffFor).
+
+/** The Fourier transform W(K) of the lowest-band Wannier function, K = k a. */
+export interface MomentumSpaceWannier1d {
+  depthEr: number;
+  planeWaveCutoff: number;
+  /** Largest |K| = |k a| where W can be non-zero: pi (2L + 1). */
+  maxWavenumberTimesSpacing: number;
+  /** W(K) in units of sqrt(a) (real, even); K = k a. */
+  amplitude(wavenumberTimesSpacing: number): number;
+  /**
+   * All 2L + 1 values W(pi (q + 2l)), l = -L .. L, at one quasi-momentum q in [-1, 1] (units
+   * of k), written to out[l + L]: one diagonalisation gives a whole comb of wavenumbers.
+   */
+  comb(qOverK: number, out: Float64Array): void;
+}
+
+/**
+ * W(K) from a fresh diagonalisation at the quasi-momentum q that K folds back to (one
+ * tridiagonal eigenvector of size 2L + 1 per call; scratch arrays are allocated once).
+ */
+export function momentumSpaceWannier1d(band: Pick<LatticeBand1d, 'depthEr' | 'planeWaveCutoff'>): MomentumSpaceWannier1d {
+  const depthEr = band.depthEr;
+  const L = band.planeWaveCutoff;
+  const n = 2 * L + 1;
+  const diag = new Float64Array(n);
+  const off = new Float64Array(n - 1);
+  const vector = new Float64Array(n);
+  const maxK = Math.PI * n;
+  const comb = (q: number, out: Float64Array): void => {
+    if (!(q >= -1 && q <= 1)) throw new RangeError(`momentumSpaceWannier1d: quasi-momentum must lie in [-1, 1], got ${q}`);
+    if (out.length < n) throw new RangeError(`momentumSpaceWannier1d: output needs ${n} entries, got ${out.length}`);
+    planeWaveHamiltonian(depthEr, q, L, diag, off);
+    tridiagonalEigenvector(diag, off, tridiagonalEigenvalue(diag, off, 0), vector);
+    out.set(vector);
+  };
+  const amplitude = (K: number): number => {
+    if (!Number.isFinite(K)) throw new RangeError(`momentumSpaceWannier1d: wavenumber must be finite, got ${K}`);
+    const u = K / Math.PI; // = q + 2 l
+    // q in [-1, 1): the zone edge belongs to q = -1 (as in latticeBand1d).
+    let q = u - 2 * Math.floor((u + 1) / 2);
+    if (q >= 1) q -= 2;
+    const l = Math.round((u - q) / 2);
+    if (l < -L || l > L) return 0;
+    planeWaveHamiltonian(depthEr, q, L, diag, off);
+    const e0 = tridiagonalEigenvalue(diag, off, 0);
+    tridiagonalEigenvector(diag, off, e0, vector); // sign: sum_l c_l >= 0, the gauge of latticeBand1d
+    return vector[l + L]!;
+  };
+  return { depthEr, planeWaveCutoff: L, maxWavenumberTimesSpacing: maxK, amplitude, comb };
 }

@@ -1,6 +1,7 @@
 // Scenario sections for the pictures a camera would record (DESIGN.md section 4):
 // `camera` (in-situ and parity-projected images through the imaging optics) and
-// `timeOfFlight` (the far-field picture after free expansion). Both are optional in a
+// `timeOfFlight` (the picture after free expansion, exact at the flight time or in the
+// far-field approximation; optional strong-coupling correction). Both are optional in a
 // scenario; when absent, cameraOutputs.ts uses the defaults documented below.
 //
 // Lengths: in laboratory mode every `...Um` length is in micrometres. In dimensionless
@@ -75,6 +76,17 @@ export const CameraSchema = z
 export const TimeOfFlightSchema = z
   .strictObject({
     flightTimeMs: positive().max(10_000).default(20).describe('free expansion time after the lattice and trap are switched off, ms'),
+    model: z
+      .enum(['free-expansion', 'far-field'])
+      .default('free-expansion')
+      .describe(
+        "'free-expansion': the density after the flight, exact for a free expansion (interactions neglected during the flight); " +
+          "'far-field': the momentum distribution at k = m x / (hbar t), an approximation below the far-field time m R^2 / hbar",
+      ),
+    strongCouplingCorrection: z
+      .boolean()
+      .default(false)
+      .describe('add the first-order particle-hole coherence 2 n (n + 1) J / U of Mott bonds, which mean field leaves out (raises the visibility of Mott regions)'),
     cameraPixelUm: positive()
       .max(10_000)
       .optional()
