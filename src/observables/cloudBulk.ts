@@ -33,9 +33,8 @@ export function cloudBulk(
   const [n0, n1, n2] = gridSizes(shape, 'cloudBulk');
   const count = n0 * n1 * n2;
   if (density.length !== count) throw new RangeError(`cloudBulk density: expected ${count} sites, got ${density.length}`);
-  const pad = 3 - shape.length;
-  const wrap = [false, false, false];
-  for (let d = 0; d < shape.length; d++) wrap[pad + d] = periodic?.[d] === true;
+  // gridSizes pads with trailing axes of length 1, so physical axis d is grid axis d.
+  const wrap = [0, 1, 2].map((d) => periodic?.[d] === true);
   let peak = 0;
   for (let i = 0; i < count; i++) if (density[i] > peak) peak = density[i];
   const threshold = densityFraction * peak;
@@ -54,13 +53,10 @@ export function cloudBulk(
             continue;
           }
           let keep = 1;
-          const coord0 = x;
-          const coord1 = y;
-          const coord2 = z;
           for (let a = 0; a < 3 && keep === 1; a++) {
             const len = sizes[a];
             if (len === 1) continue;
-            const c = a === 0 ? coord0 : a === 1 ? coord1 : coord2;
+            const c = a === 0 ? x : a === 1 ? y : z;
             const s = strides[a];
             // low neighbour
             if (c > 0) keep &= mask[i - s];

@@ -19,16 +19,19 @@
 // compressibility when it was computed; otherwise 4 (<n^2> - <n>^2), its atomic-limit
 // equivalent (fluctuation-dissipation), and the result says which.
 //
-// Spanning: superfluid clusters are labelled among the bulk sites only (cloudBulk.ts) and
-// a cluster spans when it touches opposite faces of the bulk's bounding box (or wraps a
-// periodic axis; superfluidClusters.ts). Superfluid sites outside the bulk (the dilute rim)
-// are counted apart.
+// Spanning: superfluid clusters are labelled among the bulk sites only (cloudBulk.ts). A
+// cluster spans when it touches opposite faces of the bulk's bounding box or wraps a
+// periodic axis (superfluidClusters.ts), or when it encloses the trap centre: the ring or
+// shell of superfluid between two Mott shells, connected all around the cloud
+// (clusterEnclosure.ts). Superfluid sites outside the bulk (the dilute rim) are counted
+// apart; superfluid sites of the bulk in no spanning cluster are puddles.
 
 import { PhaseCode, phaseNames, type PhaseName } from './phaseCodes.js';
 import { labelSuperfluidClusters, type SuperfluidClusters } from './superfluidClusters.js';
 import { defaultPhaseThresholds, mergeThresholds, type PhaseThresholds } from './phaseThresholds.js';
 import { compressibleLabel, isCoherent, phaseOf, plateauFilling, type PhaseRule } from './phaseRule.js';
 import { cloudBulk } from './cloudBulk.js';
+import { clustersEnclosing } from './clusterEnclosure.js';
 import { plateauCentre } from './atomicLimit.js';
 import {
   compareWithLocalDensity,
@@ -69,6 +72,8 @@ export interface SiteClassificationInput {
   localDensity?: LocalDensityInput;
   /** Fock-space truncation (atomic-limit reference of the shells); default 8. */
   nmax?: number;
+  /** Trap centre per axis in site coordinates (for clusters enclosing it); default the lattice centre. */
+  centre?: readonly number[];
 }
 
 export type PhaseTotals = Record<PhaseName, number>;
@@ -140,11 +145,13 @@ export interface SiteClassification {
   bulk: BulkSummary;
   /** Connected superfluid clusters within the bulk. */
   clusters: SuperfluidClusters;
-  /** Superfluid sites of the bulk that belong to clusters that do not span it. */
+  /** Clusters that enclose the trap centre (rings or shells between Mott shells). */
+  enclosingClusters: number;
+  /** Superfluid sites of the bulk that belong to clusters that neither span it nor enclose the centre. */
   superfluidPuddleSites: number;
   /** Superfluid sites outside the bulk (the dilute rim), not used for spanning. */
   rimSuperfluidSites: number;
-  /** True when some superfluid cluster spans the bulk. */
+  /** True when some superfluid cluster spans the bulk or encloses the trap centre. */
   superfluidSpans: boolean;
   /** LDA labels and where they differ, when the local parameters were given. */
   localDensity?: LocalDensityLabels;
@@ -256,6 +263,13 @@ export function classifySites(input: SiteClassificationInput): SiteClassificatio
     else rimSuperfluidSites++;
   }
   const clusters = labelSuperfluidClusters(superfluidInBulk, { shape, periodic: input.periodic, occupied: bulk.mask });
+  const enclosing = clustersEnclosing(clusters.labels, clusters.count, shape, centreSiteOf(shape, input.centre));
+  let enclosingClusters = 0;
+  let sitesInExtendedClusters = 0;
+  for (let label = 0; label < clusters.count; label++) {
+    if (enclosing[label] === 1) enclosingClusters++;
+    if (enclosing[label] === 1 || clusters.spanningAxes[label] !== 0) sitesInExtendedClusters += clusters.sizes[label];
+  }
 
   let localDensity: LocalDensityLabels | undefined;
   if (input.localDensity !== undefined) {
@@ -278,11 +292,23 @@ export function classifySites(input: SiteClassificationInput): SiteClassificatio
     shellStatistics,
     bulk: { sites: bulk.sites, densityThreshold: bulk.densityThreshold, peakDensity: bulk.peakDensity, erosionSites: thresholds.bulkErosionSites },
     clusters,
-    superfluidPuddleSites: clusters.markedSites - clusters.sitesInSpanningClusters,
+    enclosingClusters,
+    superfluidPuddleSites: clusters.markedSites - sitesInExtendedClusters,
     rimSuperfluidSites,
-    superfluidSpans: clusters.spans,
+    superfluidSpans: clusters.spans || enclosingClusters > 0,
     ...(localDensity !== undefined ? { localDensity } : {}),
   };
+}
+
+/** Flat index of the site nearest to the centre (default: the lattice centre). */
+function centreSiteOf(shape: readonly number[], centre: readonly number[] | undefined): number {
+  let index = 0;
+  for (let d = 0; d < shape.length; d++) {
+    const c = centre?.[d] ?? (shape[d] - 1) / 2;
+    const site = Math.min(shape[d] - 1, Math.max(0, Math.round(c)));
+    index = index * shape[d] + site;
+  }
+  return index;
 }
 
 function shellStatisticsOf(

@@ -58,6 +58,7 @@ export function classifyOutcome(
     disordered: resolved.disorder !== null,
     thresholds: resolved.scenario.phases,
     nmax: outcome.model.nmax,
+    centre: resolved.trapCentre,
     ...(withLocalDensity
       ? {
           localDensity: {

@@ -310,3 +310,75 @@ describe('classifySites', () => {
     expect(r.superfluidPuddleSites).toBe(1);
   });
 });
+
+describe('superfluid rings and shells around the trap centre', () => {
+  const ringRows = (gap: boolean, diagonal: boolean) =>
+    Array.from({ length: 11 }, (_, x) =>
+      Array.from({ length: 11 }, (_, y) => {
+        const onRing = Math.max(Math.abs(x - 5), Math.abs(y - 5)) === 3;
+        if (gap && x === 2 && y === 5) return '0';
+        // Without its corner (2, 2) the ring closes only across the diagonal (2, 3)-(3, 2):
+        // no nearest-neighbour bond, so it is one open chain.
+        if (diagonal && x === 2 && y === 2) return '0';
+        return onRing ? '1' : '0';
+      }).join(''),
+    );
+
+  function classifyRing(rows: string[]) {
+    const sf = maskFromRows(rows);
+    return classifySites({
+      shape: [11, 11],
+      density: new Float64Array(121).fill(1.5),
+      condensateDensity: Float64Array.from(sf, (v) => (v ? 0.2 : 0)),
+      compressibility: new Float64Array(121).fill(0.4),
+      energyScale: 1,
+      temperature: 0,
+      disordered: true,
+      centre: [5, 5],
+    });
+  }
+
+  it('a closed ring of superfluid around the centre spans (a global superfluid between shells)', () => {
+    const r = classifyRing(ringRows(false, false));
+    expect(r.enclosingClusters).toBe(1);
+    expect(r.superfluidSpans).toBe(true);
+    expect(r.superfluidPuddleSites).toBe(0);
+  });
+
+  it('a ring broken by one site, or closed only across a diagonal, is a puddle', () => {
+    for (const rows of [ringRows(true, false), ringRows(false, true)]) {
+      const r = classifyRing(rows);
+      expect(r.enclosingClusters).toBe(0);
+      expect(r.superfluidSpans).toBe(false);
+      expect(r.superfluidPuddleSites).toBe(r.counts.superfluid);
+    }
+  });
+
+  it('a spherical shell of superfluid encloses the centre of a 3D cloud; a central core does not count as enclosing', () => {
+    const n = 9;
+    const shellMask = new Float64Array(n ** 3);
+    const core = new Float64Array(n ** 3);
+    for (let i = 0; i < n ** 3; i++) {
+      const x = Math.floor(i / 81) - 4;
+      const y = (Math.floor(i / 9) % 9) - 4;
+      const z = (i % 9) - 4;
+      const cheb = Math.max(Math.abs(x), Math.abs(y), Math.abs(z));
+      shellMask[i] = cheb === 2 ? 0.2 : 0;
+      core[i] = cheb <= 1 ? 0.2 : 0;
+    }
+    const common = {
+      shape: [n, n, n],
+      density: new Float64Array(n ** 3).fill(1.5),
+      compressibility: new Float64Array(n ** 3).fill(0.4),
+      energyScale: 1,
+      temperature: 0,
+      disordered: true,
+    };
+    const withShell = classifySites({ ...common, condensateDensity: shellMask });
+    expect(withShell.enclosingClusters).toBe(1);
+    expect(withShell.superfluidSpans).toBe(true);
+    const withCore = classifySites({ ...common, condensateDensity: core });
+    expect(withCore.enclosingClusters).toBe(0);
+    expect(withCore.superfluidSpans).toBe(false);
+  });
+});
