@@ -50,11 +50,11 @@ export const thresholdReasons: Readonly<Record<keyof PhaseThresholds, string>> =
   emptyDensityMax:
     'below one atom per hundred sites a site adds nothing visible to an image, and the coherence and fluctuation criteria lose meaning in the thin tail of the cloud',
   condensateFractionMax:
-    'relative to the local density: the superfluid next to a shell induces a small condensate inside it (a few 1e-3 of the density a few sites in), which must not erase the shell; a superfluid site has a condensate fraction of order one',
+    'relative to the local density: the superfluid next to a shell induces a small condensate inside it (a few 10⁻³ of the density near the shell edge), which must not erase the shell; a superfluid site has a condensate fraction of order one',
   condensateMin:
-    'an absolute floor far above the noise of a converged solution (a residual of 1e-8 in phi gives |phi|^2 ~ 1e-16); with the default relative threshold it matters only for very dilute sites',
+    'an absolute floor far above the noise of a converged solution (a residual of 10⁻⁸ in φ gives |φ|² ~ 10⁻¹⁶); with the default relative threshold it matters only for very dilute sites',
   integerTolerance:
-    'the density plateau a physicist reads off a profile: within 0.05 of an integer the density is flat to the eye and to a single-site-resolved image; at T > 0 thermal holes and doublons shift it by about 2 e^{-U/2kT}',
+    'the density plateau a physicist reads off a profile: within 0.05 of an integer the density is flat to the eye and to a single-site-resolved image; at T > 0 the thermal holes and doubly occupied sites of a shell add about 2 exp(−U/2kT) to its variance, not to its mean',
   compressibilityMin:
     'at T > 0 the shell must fluctuate at most half as much as a normal fluid between plateaus at the same kT (variance 1/4); in the atomic limit the plateau centre crosses this at kT = 0.19 U, where the Mott plateau melts (Gerbier, PRL 99, 120405 (2007): about 0.2 U)',
   bulkDensityFraction:

@@ -61,6 +61,11 @@ export interface ReadingWarningInput {
 
 const AXIS = ['x', 'y', 'z'];
 
+/** Three significant digits without an exponent for ordinary sizes (2990, 1.02, 0.00174). */
+export function threeDigits(x: number): string {
+  return String(Number(x.toPrecision(3)));
+}
+
 /** A fraction of the atom number, or null when the cloud is empty (see `empty-cloud`). */
 export function fractionOfAtoms(part: number, atoms: number, emptyAtomsMax = 1e-6): number | null {
   return atoms >= emptyAtomsMax && Number.isFinite(part) ? part / atoms : null;
@@ -130,7 +135,7 @@ function cloudAtEdge(input: ReadingWarningInput, edgeMax: number): ReadingWarnin
     }
     if (!(peak > edgeMax)) continue;
     flagged = true;
-    faces.push(`${AXIS[d]} faces: density up to ${peak.toPrecision(3)}, ${atoms.toPrecision(3)} atoms`);
+    faces.push(`${AXIS[d]} faces: density up to ${threeDigits(peak)}, ${threeDigits(atoms)} atoms`);
     const needed = trap !== undefined ? lengthHoldingCloud(trap, d) : null;
     if (needed !== null && needed > shape[d]) suggested[d] = needed;
     else estimated = false;

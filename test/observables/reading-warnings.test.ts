@@ -15,7 +15,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { solveScenario, type SolveArtifacts } from '../../src/pipeline/solveScenario.js';
-import { fractionOfAtoms, readingWarnings, readingWarningsOfSolve } from '../../src/observables/readingWarnings.js';
+import { fractionOfAtoms, readingWarnings, readingWarningsOfSolve, threeDigits } from '../../src/observables/readingWarnings.js';
 import { resolveScenario } from '../../src/scenario/resolveScenario.js';
 import { loadScenario } from '../../src/scenario/loadScenario.js';
 import { homogeneousPhi } from '../../src/solver/homogeneous.js';
@@ -65,7 +65,7 @@ describe('cloud-at-edge', () => {
     }
     expect(faceAtoms).toBeGreaterThan(1);
     expect(w[0].message).toContain(`x faces: density up to`);
-    expect(w[0].message).toContain(`${faceAtoms.toPrecision(3)} atoms`);
+    expect(w[0].message).toContain(`${threeDigits(faceAtoms)} atoms`);
     const size = /about \[(\d+), (\d+), (\d+)\]/.exec(w[0].message);
     expect(size).not.toBeNull();
     const edge = Math.sqrt((1.3 + 6 * 0.01) / 0.02);
