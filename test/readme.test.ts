@@ -34,3 +34,30 @@ describe('bundled scenarios', () => {
     }
   });
 });
+
+describe('README caution on mean field', () => {
+  // Quantum Monte Carlo critical points of the n = 1 Mott transition:
+  //   2D square lattice (U/J)c = 16.74: Capogrosso-Sansone, Soyler, Prokof'ev, Svistunov, PRA 77, 015602 (2008);
+  //   3D simple cubic  (U/J)c = 29.34: Capogrosso-Sansone, Prokof'ev, Svistunov, PRB 75, 134302 (2007).
+  const qmc = { 2: 16.74, 3: 29.34 } as const;
+
+  it('states the direction the project computes: mean field needs a larger U/J, so it shrinks the Mott region', async () => {
+    const { phaseMap } = await import('../src/solver/phaseMap.js');
+    const map = phaseMap({ zJMax: 0.2, muMin: 0, muMax: 1, columns: 2, rows: 2, temperature: 0, nmax: 6, boundaryPoints: 100 });
+    const tip = map.boundaries.find((b) => b.filling === 1)!;
+    const caution = readme.slice(readme.indexOf('## Cautions'), readme.indexOf('## Scenario reference'));
+    for (const [dims, z] of [[2, 4], [3, 6]] as const) {
+      const meanField = z / tip.tipZJ; // (U/J)c = z / (zJ/U)c
+      expect(meanField).toBeGreaterThan(qmc[dims]);
+      // The numbers quoted in the README are the computed ones (to the digits shown) and the published ones.
+      const shown = dims === 2 ? '23.31' : '34.97';
+      expect(Math.abs(meanField - Number(shown))).toBeLessThan(0.005);
+      expect(caution).toContain(shown);
+      expect(caution).toContain(String(qmc[dims]));
+    }
+    expect(caution).toMatch(/shrinks the Mott insulator/);
+    expect(caution).not.toMatch(/overestimates the Mott/);
+    expect(caution).toContain('PRA 77, 015602 (2008)');
+    expect(caution).toContain('PRB 75, 134302 (2007)');
+  });
+});

@@ -106,9 +106,12 @@ export const ShardHeaderSchema = z.strictObject({
     mode: z.enum(['hubbard', 'laboratory']),
     thresholds: z.strictObject({
       emptyDensityMax: z.number(),
+      condensateFractionMax: z.number(),
       condensateMin: z.number(),
       integerTolerance: z.number(),
       compressibilityMin: z.number(),
+      bulkDensityFraction: z.number(),
+      bulkErosionSites: z.number(),
     }),
   }),
   shard: z.strictObject({ index: z.int().min(0), count: z.int().min(1) }),

@@ -5,6 +5,7 @@
 import type { RunOutcome, RunProgress, RunRequest } from '../solver/runLattice.js';
 import type { SiteFields } from '../observables/siteFields.js';
 import { classifySites, type SiteClassification } from '../observables/siteClassification.js';
+import { localCoordinationHopping } from '../observables/localDensityPhase.js';
 import type { ResolvedScenario } from '../scenario/resolveScenario.js';
 
 /** Highest nmax the automatic truncation guard raises to (unless the scenario starts higher). */
@@ -29,8 +30,18 @@ export function runRequestOf(resolved: ResolvedScenario, observer?: (p: RunProgr
   };
 }
 
-/** Phase labels of a finished run, with the scenario's thresholds. */
-export function classifyOutcome(resolved: ResolvedScenario, outcome: RunOutcome, fields: SiteFields, withEntropy = true): SiteClassification {
+/**
+ * Phase labels of a finished run, with the scenario's thresholds; with `withLocalDensity`
+ * (default: as `withEntropy`, i.e. for single solves, not inside ensembles) also the
+ * local-density-approximation label of every site.
+ */
+export function classifyOutcome(
+  resolved: ResolvedScenario,
+  outcome: RunOutcome,
+  fields: SiteFields,
+  withEntropy = true,
+  withLocalDensity = withEntropy,
+): SiteClassification {
   const geometry = resolved.model.geometry;
   return classifySites({
     shape: geometry.shape,
@@ -38,10 +49,27 @@ export function classifyOutcome(resolved: ResolvedScenario, outcome: RunOutcome,
     density: fields.density,
     condensateDensity: fields.condensateDensity,
     compressibility: fields.compressibility,
+    compressibilityComputed: outcome.compressibility !== null,
+    numberVariance: fields.numberVariance,
+    parityOdd: fields.parityOdd,
     ...(withEntropy ? { entropy: fields.entropy } : {}),
     energyScale: resolved.units.interaction,
-    finiteTemperature: outcome.temperature > 0,
+    temperature: outcome.temperature,
     disordered: resolved.disorder !== null,
     thresholds: resolved.scenario.phases,
+    nmax: outcome.model.nmax,
+    centre: resolved.trapCentre,
+    ...(withLocalDensity
+      ? {
+          localDensity: {
+            chemicalPotential: outcome.solve.mu,
+            sitePotential: fields.sitePotential,
+            interactionU: outcome.model.interactionU,
+            coordinationHopping: localCoordinationHopping(geometry.shape, geometry.periodic, outcome.model.hopping),
+            temperature: outcome.temperature,
+            nmax: outcome.model.nmax,
+          },
+        }
+      : {}),
   });
 }

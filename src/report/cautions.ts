@@ -3,23 +3,23 @@
 // a reader standing between two experimental runs. Published values are cited inline:
 //   Capogrosso-Sansone, Prokof'ev, Svistunov, PRB 75, 134302 (2007)  (3D, (U/J)c = 29.34)
 //   Capogrosso-Sansone, Soyler, Prokof'ev, Svistunov, PRA 77, 015602 (2008)  (2D, 16.74)
-//   mean-field tip of the n = 1 lobe: U/(zJ) = 5.83 (= 3 + 2 sqrt 2), e.g. van Oosten,
+//   mean-field tip of the n = 1 lobe: U/(zJ) = 5.828 (= 3 + 2 sqrt 2), e.g. van Oosten,
 //   van der Straten, Stoof, PRA 63, 053601 (2001); z = 6 in 3D, 4 in 2D.
 //   Gerbier, PRL 99, 120405 (2007)  (Mott shells at finite temperature)
 
 import type { CautionItem } from './reportModel.js';
 
 export const MEAN_FIELD_CAUTION: CautionItem = {
-  title: 'Mean-field theory moves the transition',
+  title: 'Mean-field theory shrinks the Mott insulator',
   text:
     'These results come from Gutzwiller mean-field theory, which puts the superfluid to Mott insulator ' +
-    'transition at too large an interaction. For filling n = 1 in 3D, quantum Monte Carlo gives ' +
-    "(U/J)c = 29.34 (Capogrosso-Sansone, Prokof'ev, Svistunov, PRB 75, 134302 (2007)); mean-field " +
-    'theory gives 34.98 (= 6 \u00D7 5.83). In 2D the values are 16.74 (Capogrosso-Sansone et al., ' +
-    'PRA 77, 015602 (2008)) and 23.3. The theory leaves out quantum fluctuations, which matter most ' +
-    'near the transition and in low dimensions (1D especially, where it is only a rough guide). So ' +
-    'superfluid rings between Mott shells come out too wide, and shell radii near the transition ' +
-    'are approximate.',
+    'transition at too large an interaction, so its Mott regions are too small. For filling n = 1 in 3D, ' +
+    "quantum Monte Carlo gives (U/J)c = 29.34 (Capogrosso-Sansone, Prokof'ev, Svistunov, PRB 75, 134302 " +
+    '(2007)); mean-field theory gives 34.97 (= 6 \u00D7 5.828). In 2D the values are 16.74 ' +
+    '(Capogrosso-Sansone et al., PRA 77, 015602 (2008)) and 23.31. The theory leaves out quantum ' +
+    'fluctuations, which matter most near the transition and in low dimensions (1D especially, where it ' +
+    'is only a rough guide). So Mott shells come out too narrow and the superfluid rings between them ' +
+    'too wide, and shell radii near the transition are approximate.',
 };
 
 export const LASER_SAFETY_CAUTION: CautionItem = {

@@ -99,9 +99,11 @@ export function buildEnsembleReport(o: EnsembleOutcome, images: WrittenImage[], 
           {
             kind: 'paragraph',
             text:
-              `Thresholds: superfluid where |phi|² > ${th.condensateMin}; Mott insulator where |n − round(n)| < ${th.integerTolerance} and U·dn/dmu < ${th.compressibilityMin}; ` +
-              `empty where n < ${th.emptyDensityMax}; compressible sites without condensate are labelled ${s.finiteTemperature ? 'normal fluid' : 'Bose glass'}. ` +
-              'A realisation counts as spanning when one connected superfluid cluster reaches across the cloud.',
+              `Labels: Mott insulator of filling k where |n − k| ≤ ${th.integerTolerance} and the condensate fraction |φ|²/n ≤ ${th.condensateFractionMax}` +
+              `${s.finiteTemperature ? ` and the thermal fluctuations are suppressed (4 kT dn/dmu ≤ ${th.compressibilityMin})` : ''}; superfluid where |φ|²/n > ${th.condensateFractionMax} ` +
+              `(and |φ|² > ${th.condensateMin}); empty where n < ${th.emptyDensityMax}; sites without condensate that are off-integer${s.finiteTemperature ? ' or too compressible' : ''} are labelled ` +
+              `${s.finiteTemperature ? 'normal fluid' : 'Bose glass'}. A realisation counts as spanning when a connected superfluid cluster crosses the bulk of the cloud ` +
+              `(density at least ${th.bulkDensityFraction} of the peak, eroded by ${th.bulkErosionSites} site${th.bulkErosionSites === 1 ? '' : 's'}) or encloses the trap centre (a ring between shells); the dilute rim does not count.`,
           },
         ],
       },

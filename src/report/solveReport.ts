@@ -1,10 +1,12 @@
-// The report document of a `solve` run: parameters in both unit systems, convergence,
-// the pictures, profiles as inline plots, the shell table and the cautions.
+// The report document of a `solve` run: the reading warnings on top, parameters in both
+// unit systems, convergence, the pictures, profiles as inline plots, the shells and phases
+// with the rules that made them (phaseReport.ts) and the cautions.
 
 import type { ReportBlock, ReportDocument, StatusLine, KeyValueRow } from './reportModel.js';
 import { cautionsFor } from './cautions.js';
 import { inAllUnits } from '../scenario/resolveScenario.js';
-import { phaseNames, phaseTitles } from '../observables/phaseCodes.js';
+import { fractionOfAtoms, type ReadingWarning } from '../observables/readingWarnings.js';
+import { phaseReportBlocks, warningStatusLines } from './phaseReport.js';
 import type { SolveArtifacts } from '../pipeline/solveScenario.js';
 import type { WrittenImage } from '../output/solveOutputs.js';
 import { toolVersion } from '../output/toolVersion.js';
@@ -28,6 +30,8 @@ export function buildSolveReport(
   images: WrittenImage[],
   createdIso: string,
   imaging: Record<string, unknown> = {},
+  /** reading warnings (readingWarnings.ts), shown as banners at the top */
+  warnings: readonly ReadingWarning[] = [],
 ): ReportDocument {
   const { outcome, resolved, scenario, classification, shells, profile } = a;
   const totals = outcome.solve.totals;
@@ -47,6 +51,7 @@ export function buildSolveReport(
       text: `Converged in ${outcome.totalSweeps} sweeps; estimated remaining error in phi ${fmt(relax.errorEstimate)} (tolerance ${scenario.solver.tolerance}).`,
     });
   }
+  status.push(...warningStatusLines(warnings));
   for (const w of resolved.laboratory?.warnings ?? []) status.push({ level: 'warning', text: w });
   if (outcome.truncation.nmaxTried.length > 1) {
     status.push({ level: 'warning', text: `Fock space raised automatically: nmax ${outcome.truncation.nmaxTried.join(' -> ')}.` });
@@ -103,15 +108,20 @@ export function buildSolveReport(
   const resultRows: KeyValueRow[] = [
     { label: 'atoms N', value: totals.atoms },
     { label: 'condensed atoms', value: totals.condensedAtoms },
-    { label: 'condensate fraction', value: totals.atoms > 0 ? totals.condensedAtoms / totals.atoms : 0 },
+    { label: 'condensate fraction', value: fractionOfAtoms(totals.condensedAtoms, totals.atoms), ...(fractionOfAtoms(1, totals.atoms) === null ? { note: 'no atoms: undefined' } : {}) },
     energyRow(outcome.temperature > 0 ? 'free energy F' : 'energy E', totals.freeEnergy, a),
     { label: 'entropy S', value: totals.entropy, unit: 'k_B' },
-    { label: 'entropy per atom', value: totals.atoms > 0 ? totals.entropy / totals.atoms : 0, unit: 'k_B' },
+    { label: 'entropy per atom', value: fractionOfAtoms(totals.entropy, totals.atoms), unit: 'k_B' },
     { label: 'superfluid spans the cloud', value: classification.superfluidSpans ? 'yes' : 'no' },
   ];
   const visibility = imaging.visibility as { value?: number; definition?: string } | undefined;
   if (visibility?.value !== undefined) {
-    resultRows.push({ label: 'time-of-flight visibility V', value: visibility.value, note: 'Gerbier et al., PRL 95, 050404 (2005); definition in summary.json' });
+    const empty = fractionOfAtoms(1, totals.atoms) === null;
+    resultRows.push({
+      label: 'time-of-flight visibility V',
+      value: empty ? null : visibility.value,
+      note: empty ? 'no atoms: undefined' : 'Gerbier et al., PRL 95, 050404 (2005); definition in summary.json',
+    });
   }
   const convergenceRows: KeyValueRow[] = [
     { label: 'converged', value: outcome.converged ? 'yes' : 'NO' },
@@ -132,13 +142,14 @@ export function buildSolveReport(
   const radiusUnit = spacing !== null ? 'µm' : 'sites';
   const valid = (arr: ArrayLike<number>) => Array.from(arr, (v, i) => (profile.count[i] > 0 ? v : NaN));
   const shellMarkers = shells.shells.flatMap((s) => [
+    ...(s.innerRadius > 0 ? [{ at: (spacing ?? 1) * s.innerRadius, label: `n=${s.filling} inner` }] : []),
     { at: (spacing ?? 1) * s.outerRadius, label: `n=${s.filling} outer` },
   ]);
   const profileBlocks: ReportBlock[] = [
     {
       kind: 'linePlot',
       title: 'Radial profiles',
-      caption: 'Mean over each annular bin; error bars show the spread of sites in the bin. Vertical lines: outer edges of the Mott shells.',
+      caption: 'Mean over each annular bin; error bars show the spread of sites in the bin. Vertical lines: edges of the Mott shells (where a shell fills half of an annulus).',
       xAxis: { label: radiusLabel, unit: radiusUnit },
       yAxis: { label: 'atoms per site' },
       series: [
@@ -165,18 +176,6 @@ export function buildSolveReport(
     });
   }
 
-  const shellRows = shells.shells.map((s) => [
-    `n = ${s.filling}`,
-    s.sites,
-    s.atoms,
-    spacing !== null ? s.innerRadius * spacing : s.innerRadius,
-    spacing !== null ? s.outerRadius * spacing : s.outerRadius,
-  ]);
-  const phaseRows = phaseNames
-    .filter((n) => shells.byPhase[n].sites > 0)
-    .map((n) => [phaseTitles[n], shells.byPhase[n].sites, shells.byPhase[n].atoms, shells.byPhase[n].atomFraction, shells.byPhase[n].condensedAtoms]);
-
-  const t = classification.thresholds;
   const doc: ReportDocument = {
     title: `tiercake — ${scenario.name}`,
     subtitle: scenario.description ?? `${resolved.geometry.dims}D lattice, ${resolved.mode === 'laboratory' ? 'laboratory' : 'dimensionless'} parameters`,
@@ -205,34 +204,7 @@ export function buildSolveReport(
       { heading: 'Profiles', blocks: profileBlocks },
       {
         heading: 'Shells and phases',
-        blocks: [
-          {
-            kind: 'table',
-            caption: 'Mott shells: sites labelled Mott insulator of each filling, and the trap-scaled radii they span',
-            columns: [
-              { header: 'shell' },
-              { header: 'sites' },
-              { header: 'atoms' },
-              { header: 'inner radius', unit: radiusUnit },
-              { header: 'outer radius', unit: radiusUnit },
-            ],
-            rows: shellRows.length > 0 ? shellRows : [['no Mott shell', 0, 0, null, null]],
-          },
-          {
-            kind: 'table',
-            caption: 'Sites and atoms per phase',
-            columns: [{ header: 'phase' }, { header: 'sites' }, { header: 'atoms' }, { header: 'fraction of atoms' }, { header: 'condensed atoms' }],
-            rows: phaseRows,
-          },
-          {
-            kind: 'paragraph',
-            text:
-              `Phase labels use these thresholds: superfluid where |phi|² > ${t.condensateMin}; Mott insulator where |n − round(n)| < ${t.integerTolerance} ` +
-              `and U·dn/dmu < ${t.compressibilityMin}; empty where n < ${t.emptyDensityMax}; compressible sites without condensate are labelled ` +
-              `${phaseTitles[classification.compressibleWithoutCondensate]}. Superfluid clusters: ${classification.clusters.count}` +
-              `, largest ${classification.clusters.largestSize} sites; ${classification.superfluidSpans ? 'one spans the cloud' : 'none spans the cloud'}.`,
-          },
-        ],
+        blocks: phaseReportBlocks({ classification, shells, latticeSpacingUm: spacing, interaction: resolved.units.interaction }),
       },
       {
         heading: 'Convergence',

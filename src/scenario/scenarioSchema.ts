@@ -139,12 +139,15 @@ export const SolverSchema = z
 
 export const PhasesSchema = z
   .strictObject({
-    condensateMin: positive().default(1e-4).describe('|phi|^2 above this: superfluid'),
-    integerTolerance: positive().max(0.5).default(0.05).describe('|n - round(n)| below this (and incompressible): Mott insulator'),
-    compressibilityMin: positive().default(0.05).describe('U dn/dmu above this: compressible'),
+    condensateFractionMax: positive().max(0.5).default(0.02).describe('local condensate fraction |phi|^2/n above this: superfluid; at or below it a site can be a Mott shell (proximity-induced coherence is reported, not used to erase the shell)'),
+    condensateMin: positive().default(1e-4).describe('absolute floor: |phi|^2 at or below this never counts as a condensate, whatever the fraction'),
+    integerTolerance: positive().max(0.5).default(0.05).describe('|n - round(n)| at or below this (and no condensate of its own): Mott insulator'),
+    compressibilityMin: positive().default(0.5).describe('T > 0: kT dn/dmu above this fraction of 1/4 (the atomic-limit normal fluid between two fillings at the same kT): compressible, not Mott; unused at T = 0'),
     emptyDensityMax: positive().max(0.5).default(0.01).describe('density below this: empty'),
+    bulkDensityFraction: positive().max(0.9).default(0.1).describe('superfluid spanning is tested on the bulk: sites with density above this fraction of the peak density'),
+    bulkErosionSites: z.int().min(0).max(5).default(1).describe('the bulk for the spanning test is eroded by this many sites (removes one-site paths along its border)'),
   })
-  .describe('thresholds for the site-by-site phase labels');
+  .describe('thresholds for the site-by-site phase labels (reasons in the report)');
 
 export const ProfilesSchema = z
   .strictObject({

@@ -185,22 +185,22 @@ describe('site percolation on a 128 x 128 square lattice (Newman & Ziff 2000: p_
 
 describe('classifySites', () => {
   // Eight sites of a chain (T = 0, disordered unless stated), energyScale U = 1:
-  //  site  n      |phi|^2  U dn/dmu   expected
-  //   0    0.0    0        0          empty (n < 0.01)
-  //   1    0.5    0.2      0.8        superfluid
+  //  site  n      |phi|^2  |phi|^2/n  expected
+  //   0    0.0    0        -          empty (n < 0.01)
+  //   1    0.5    0.2      0.4        superfluid
   //   2    1.0    0        0          Mott, filling 1
-  //   3    0.98   0        0.01       Mott, filling 1 (within 0.05 of 1 and stiff)
-  //   4    0.7    1e-6     0.5        compressible, no condensate: Bose glass
-  //   5    2.0    0        0          Mott, filling 2
-  //   6    1.3    0.3      0.9        superfluid
-  //   7    0.005  0        0.1        empty
+  //   3    0.98   0        0          Mott, filling 1 (within 0.05 of 1, no condensate)
+  //   4    0.7    1e-6     1.4e-6     off-integer, no condensate: Bose glass
+  //   5    2.0    0.03     0.015      Mott, filling 2 (a proximity-induced 1.5 %, below 2 %)
+  //   6    1.3    0.3      0.23       superfluid
+  //   7    0.005  0        -          empty
   const density = Float64Array.from([0, 0.5, 1, 0.98, 0.7, 2, 1.3, 0.005]);
-  const condensateDensity = Float64Array.from([0, 0.2, 0, 0, 1e-6, 0, 0.3, 0]);
-  const compressibility = Float64Array.from([0, 0.8, 0, 0.01, 0.5, 0, 0.9, 0.1]);
+  const condensateDensity = Float64Array.from([0, 0.2, 0, 0, 1e-6, 0.03, 0.3, 0]);
+  const compressibility = Float64Array.from([0, 0.8, 0, 0.01, 0.5, 0.02, 0.9, 0.1]);
   const base = { shape: [8], density, condensateDensity, compressibility, energyScale: 1 };
 
-  it('classifies hand-made sites and reports fillings, counts and puddles', () => {
-    const r = classifySites({ ...base, finiteTemperature: false, disordered: true });
+  it('classifies hand-made sites and reports fillings, counts, shell coherence and the bulk', () => {
+    const r = classifySites({ ...base, temperature: 0, disordered: true });
     expect(Array.from(r.codes)).toEqual([
       PhaseCode.empty,
       PhaseCode.superfluid,
@@ -214,100 +214,171 @@ describe('classifySites', () => {
     expect(Array.from(r.mottFilling)).toEqual([0, 0, 1, 1, 0, 2, 0, 0]);
     expect(r.counts).toEqual({ empty: 2, superfluid: 2, mott: 3, boseGlass: 1, normalFluid: 0 });
     expect(r.mottSitesByFilling).toEqual([0, 2, 1]);
-    // Cloud = sites 1..6; the superfluid sites 1 and 6 are two separate puddles, so
-    // nothing spans sites 1 to 6 and both superfluid sites are puddle sites.
-    expect(r.clusters.count).toBe(2);
+    // The proximity-induced condensate of site 5 is reported, not used to erase the shell.
+    const shell2 = r.shellStatistics.find((s) => s.filling === 2)!;
+    expect(shell2.sites).toBe(1);
+    expect(shell2.maxCondensateFraction).toBeCloseTo(0.015, 15);
+    expect(shell2.coherentSites).toBe(1);
+    // Bulk: density >= 0.1 x peak 2 = 0.2 gives sites 1..6, eroded by one site: 2..5.
+    // The superfluid sites 1 and 6 lie on the rim, outside the bulk: nothing spans.
+    expect(r.bulk.sites).toBe(4);
+    expect(r.rimSuperfluidSites).toBe(2);
+    expect(r.clusters.count).toBe(0);
     expect(r.superfluidSpans).toBe(false);
-    expect(r.superfluidPuddleSites).toBe(2);
     expect(r.thresholds).toEqual(defaultPhaseThresholds);
+    expect(r.fluctuationMeasure).toBe('none');
   });
 
-  it('calls the same sites normal fluid at T > 0, and superfluid in a clean T = 0 system', () => {
-    const hot = classifySites({ ...base, finiteTemperature: true, disordered: true });
+  it('calls the off-integer site normal fluid at T > 0, and superfluid in a clean T = 0 system', () => {
+    const hot = classifySites({ ...base, temperature: 0.05, disordered: true });
     expect(hot.codes[4]).toBe(PhaseCode.normalFluid);
     expect(hot.counts.normalFluid).toBe(1);
-    const clean = classifySites({ ...base, finiteTemperature: false, disordered: false });
+    const clean = classifySites({ ...base, temperature: 0, disordered: false });
     expect(clean.codes[4]).toBe(PhaseCode.superfluid);
     expect(clean.superfluidBelowCondensateThreshold).toBe(1);
     expect(clean.compressibleWithoutCondensate).toBe('superfluid');
   });
 
-  it('uses the caller thresholds and energy scale, and sums entropy per phase', () => {
-    // Raising condensateMin to 0.25 turns site 1 (|phi|^2 = 0.2, compressible) into a
-    // Bose glass site. energyScale 0.01 makes site 4 stiff (0.005 < 0.05), but n = 0.7 is
-    // not near an integer, so it stays a Bose glass.
+  it('uses the caller thresholds, and sums entropy per phase', () => {
+    // condensateFractionMax 0.5 turns site 1 (fraction 0.4) into a Bose-glass site and
+    // leaves site 6 (0.23) too; condensateMin 0.04 alone would not touch site 5 (fraction
+    // 1.5 %, already Mott).
     const entropy = Float64Array.from([0, 0.1, 0.01, 0.02, 0.3, 0.04, 0.2, 0]);
     const r = classifySites({
       ...base,
       entropy,
-      energyScale: 0.01,
-      finiteTemperature: false,
+      temperature: 0,
       disordered: true,
-      thresholds: { condensateMin: 0.25 },
+      thresholds: { condensateFractionMax: 0.5 },
     });
     expect(r.codes[1]).toBe(PhaseCode.boseGlass);
-    expect(r.codes[4]).toBe(PhaseCode.boseGlass);
-    expect(r.thresholds.condensateMin).toBe(0.25);
-    expect(r.entropyByPhase?.boseGlass).toBeCloseTo(0.4, 12);
+    expect(r.codes[6]).toBe(PhaseCode.boseGlass);
+    expect(r.thresholds.condensateFractionMax).toBe(0.5);
+    expect(r.entropyByPhase?.boseGlass).toBeCloseTo(0.6, 12);
     expect(r.entropyByPhase?.mott).toBeCloseTo(0.07, 12);
-    expect(() => classifySites({ ...base, finiteTemperature: false, disordered: true, thresholds: { integerTolerance: 0.6 } })).toThrow(/integerTolerance/);
-    expect(() => classifySites({ ...base, energyScale: 0, finiteTemperature: false, disordered: true })).toThrow(/energyScale/);
+    // A stricter coherence threshold erases nothing the density says is a plateau...
+    const strict = classifySites({ ...base, temperature: 0, disordered: true, thresholds: { condensateFractionMax: 0.01 } });
+    // ...except where the site's own condensate is above it: site 5 (1.5 %) becomes superfluid.
+    expect(strict.codes[5]).toBe(PhaseCode.superfluid);
+    expect(() => classifySites({ ...base, temperature: 0, disordered: true, thresholds: { integerTolerance: 0.6 } })).toThrow(/integerTolerance/);
+    expect(() => classifySites({ ...base, energyScale: 0, temperature: 0, disordered: true })).toThrow(/energyScale/);
+    expect(() => classifySites({ ...base, temperature: -1, disordered: true })).toThrow(/temperature/);
   });
 
-  it('finds a spanning superfluid between Bose-glass puddles on a 2D lattice', () => {
-    // 5 x 5, all sites n = 1.2 and compressible; superfluid where the mask is 1, the rest
-    // is Bose glass (T = 0, disordered). Row x = 2 crosses the cloud along y: spanning;
-    // the single superfluid site at (0,0) is a puddle of 1 site.
-    const sf = maskFromRows(['10000', '00000', '11111', '00000', '00000']);
-    const n = 25;
+  it('finds a spanning superfluid between Bose-glass puddles on a 2D lattice, tested on the eroded bulk', () => {
+    // 7 x 7, all sites n = 1.2 and compressible; superfluid where the mask is 1, the rest
+    // is Bose glass (T = 0, disordered). Bulk = the 5 x 5 interior (one layer eroded at the
+    // open faces). Row x = 3 crosses the bulk along y: spanning. The superfluid site
+    // (1,1) inside the bulk is a puddle of 1; the rim row x = 0, all superfluid, is outside
+    // the bulk and does not count.
+    const sf = maskFromRows(['1111111', '0100000', '0000000', '1111111', '0000000', '0000000', '0000000']);
+    const n = 49;
     const r = classifySites({
-      shape: [5, 5],
+      shape: [7, 7],
       density: new Float64Array(n).fill(1.2),
       condensateDensity: Float64Array.from(sf, (v) => (v ? 0.1 : 0)),
       compressibility: new Float64Array(n).fill(0.4),
       energyScale: 1,
-      finiteTemperature: false,
+      temperature: 0,
       disordered: true,
     });
+    expect(r.bulk.sites).toBe(25);
     expect(r.superfluidSpans).toBe(true);
     expect(r.superfluidPuddleSites).toBe(1);
-    expect(r.counts.boseGlass).toBe(19);
+    expect(r.rimSuperfluidSites).toBe(7 + 2);
+    expect(r.counts.boseGlass).toBe(49 - 7 - 1 - 7);
   });
 
-  it('matches the exact atomic limit at finite temperature (J = 0)', () => {
-    // A single Bose-Hubbard site with J = 0 in the grand canonical ensemble:
-    // E_m = U m(m-1)/2 - mu m, p_m ~ exp(-E_m/kT); n = <m>, dn/dmu = Var(m)/kT (exact).
-    // At mu = U/2 (centre of the n = 1 plateau), U dn/dmu = 0.0225 at kT = 0.07 U (Mott)
-    // and 0.133 at kT = 0.1 U (normal fluid), on either side of the default 0.05.
-    const atomicSite = (muOverU: number, kTOverU: number): { n: number; kappaU: number } => {
-      let z = 0;
-      let m1 = 0;
-      let m2 = 0;
-      const energies = Array.from({ length: 12 }, (_, m) => (m * (m - 1)) / 2 - muOverU * m);
-      const eMin = Math.min(...energies);
-      energies.forEach((e, m) => {
-        const w = Math.exp(-(e - eMin) / kTOverU);
-        z += w;
-        m1 += m * w;
-        m2 += m * m * w;
-      });
-      const n = m1 / z;
-      return { n, kappaU: (m2 / z - n * n) / kTOverU };
-    };
-    const sites = [atomicSite(0.5, 0.07), atomicSite(0.5, 0.1), atomicSite(0.05, 0.07)];
+  it('a superfluid that connects the sides only through a one-site rim does not span', () => {
+    // A 9 x 9 cloud: bulk interior of puddles, and a superfluid border ring (the dilute rim).
+    // Counted as cloud, the ring touches all four faces; on the bulk, nothing spans.
+    const rows = Array.from({ length: 9 }, (_, x) =>
+      Array.from({ length: 9 }, (_, y) => (x === 0 || y === 0 || x === 8 || y === 8 || (x === 4 && y === 4) ? '1' : '0')).join(''),
+    );
+    const sf = maskFromRows(rows);
     const r = classifySites({
-      shape: [3],
-      density: Float64Array.from(sites, (s) => s.n),
-      condensateDensity: new Float64Array(3),
-      compressibility: Float64Array.from(sites, (s) => s.kappaU),
+      shape: [9, 9],
+      density: new Float64Array(81).fill(0.8),
+      condensateDensity: Float64Array.from(sf, (v) => (v ? 0.1 : 0)),
+      compressibility: new Float64Array(81).fill(0.4),
       energyScale: 1,
-      finiteTemperature: true,
-      disordered: false,
+      temperature: 0,
+      disordered: true,
     });
-    expect(sites[0].kappaU).toBeCloseTo(0.0225, 3);
-    expect(sites[1].kappaU).toBeCloseTo(0.133, 3);
-    // Site 3 sits near the lower plateau edge (mu = 0.05 U): holes are cheap, so it is a
-    // compressible normal fluid at the same temperature as the Mott site 1.
-    expect(Array.from(r.codes)).toEqual([PhaseCode.mott, PhaseCode.normalFluid, PhaseCode.normalFluid]);
+    expect(r.superfluidSpans).toBe(false);
+    expect(r.rimSuperfluidSites).toBe(32);
+    expect(r.superfluidPuddleSites).toBe(1);
+  });
+});
+
+describe('superfluid rings and shells around the trap centre', () => {
+  const ringRows = (gap: boolean, diagonal: boolean) =>
+    Array.from({ length: 11 }, (_, x) =>
+      Array.from({ length: 11 }, (_, y) => {
+        const onRing = Math.max(Math.abs(x - 5), Math.abs(y - 5)) === 3;
+        if (gap && x === 2 && y === 5) return '0';
+        // Without its corner (2, 2) the ring closes only across the diagonal (2, 3)-(3, 2):
+        // no nearest-neighbour bond, so it is one open chain.
+        if (diagonal && x === 2 && y === 2) return '0';
+        return onRing ? '1' : '0';
+      }).join(''),
+    );
+
+  function classifyRing(rows: string[]) {
+    const sf = maskFromRows(rows);
+    return classifySites({
+      shape: [11, 11],
+      density: new Float64Array(121).fill(1.5),
+      condensateDensity: Float64Array.from(sf, (v) => (v ? 0.2 : 0)),
+      compressibility: new Float64Array(121).fill(0.4),
+      energyScale: 1,
+      temperature: 0,
+      disordered: true,
+      centre: [5, 5],
+    });
+  }
+
+  it('a closed ring of superfluid around the centre spans (a global superfluid between shells)', () => {
+    const r = classifyRing(ringRows(false, false));
+    expect(r.enclosingClusters).toBe(1);
+    expect(r.superfluidSpans).toBe(true);
+    expect(r.superfluidPuddleSites).toBe(0);
+  });
+
+  it('a ring broken by one site, or closed only across a diagonal, is a puddle', () => {
+    for (const rows of [ringRows(true, false), ringRows(false, true)]) {
+      const r = classifyRing(rows);
+      expect(r.enclosingClusters).toBe(0);
+      expect(r.superfluidSpans).toBe(false);
+      expect(r.superfluidPuddleSites).toBe(r.counts.superfluid);
+    }
+  });
+
+  it('a spherical shell of superfluid encloses the centre of a 3D cloud; a central core does not count as enclosing', () => {
+    const n = 9;
+    const shellMask = new Float64Array(n ** 3);
+    const core = new Float64Array(n ** 3);
+    for (let i = 0; i < n ** 3; i++) {
+      const x = Math.floor(i / 81) - 4;
+      const y = (Math.floor(i / 9) % 9) - 4;
+      const z = (i % 9) - 4;
+      const cheb = Math.max(Math.abs(x), Math.abs(y), Math.abs(z));
+      shellMask[i] = cheb === 2 ? 0.2 : 0;
+      core[i] = cheb <= 1 ? 0.2 : 0;
+    }
+    const common = {
+      shape: [n, n, n],
+      density: new Float64Array(n ** 3).fill(1.5),
+      compressibility: new Float64Array(n ** 3).fill(0.4),
+      energyScale: 1,
+      temperature: 0,
+      disordered: true,
+    };
+    const withShell = classifySites({ ...common, condensateDensity: shellMask });
+    expect(withShell.enclosingClusters).toBe(1);
+    expect(withShell.superfluidSpans).toBe(true);
+    const withCore = classifySites({ ...common, condensateDensity: core });
+    expect(withCore.enclosingClusters).toBe(0);
+    expect(withCore.superfluidSpans).toBe(false);
   });
 });

@@ -30,18 +30,53 @@ describe('shellSummary in the atomic limit', () => {
   const summary = shellSummary(density, new Float64Array(size * size), codes, filling, radius);
   const edge = (n: number) => Math.sqrt((mu - U * (n - 1)) / V);
 
-  it('finds the shells n = 1, 2, 3 between the analytic radii', () => {
+  it('finds the shells n = 1, 2, 3 with edges at the analytic radii (to 0.25 site), the central one from 0', () => {
     expect(summary.shells.map((s) => s.filling)).toEqual([1, 2, 3]);
     for (const shell of summary.shells) {
       const n = shell.filling;
-      expect(shell.outerRadius).toBeLessThanOrEqual(edge(n));
-      expect(shell.outerRadius).toBeGreaterThan(edge(n) - 1);
+      expect(shell.radiusFrom).toBe('annulus');
+      expect(Math.abs(shell.outerRadius - edge(n))).toBeLessThan(0.25);
+      // The sites themselves lie inside the edges.
+      expect(shell.maxSiteRadius).toBeLessThanOrEqual(edge(n));
       if (n < 3) {
-        expect(shell.innerRadius).toBeGreaterThanOrEqual(edge(n + 1));
-        expect(shell.innerRadius).toBeLessThan(edge(n + 1) + 1);
+        expect(Math.abs(shell.innerRadius - edge(n + 1))).toBeLessThan(0.25);
+        expect(shell.minSiteRadius).toBeGreaterThanOrEqual(edge(n + 1));
+      } else {
+        // The central shell starts at the trap centre, whatever the nearest site's distance.
+        expect(shell.innerRadius).toBe(0);
       }
       expect(shell.atoms).toBe(n * shell.sites);
     }
+  });
+
+  it('a central shell on an even lattice (trap centre between sites) starts at 0, not at 1/sqrt 2', () => {
+    const even = 40;
+    const r = scaledRadii([even, even], [19.5, 19.5], [1, 1]);
+    const codesEven = new Uint8Array(even * even);
+    const fillingEven = new Int32Array(even * even);
+    for (let i = 0; i < r.length; i++) {
+      if (r[i] < 6.3) {
+        codesEven[i] = PhaseCode.mott;
+        fillingEven[i] = 1;
+      }
+    }
+    const [shell] = shellSummary(new Float64Array(even * even).fill(1), new Float64Array(even * even), codesEven, fillingEven, r).shells;
+    expect(shell.minSiteRadius).toBeCloseTo(Math.SQRT1_2, 12);
+    expect(shell.innerRadius).toBe(0);
+    expect(Math.abs(shell.outerRadius - 6.3)).toBeLessThan(0.25);
+  });
+
+  it('a shell scattered over many bins, none half full, falls back to the extreme site radii', () => {
+    const scattered = new Uint8Array(size * size);
+    const fill = new Int32Array(size * size);
+    for (let i = 0; i < radius.length; i += 7) {
+      scattered[i] = PhaseCode.mott;
+      fill[i] = 1;
+    }
+    const [shell] = shellSummary(new Float64Array(size * size).fill(1), new Float64Array(size * size), scattered, fill, radius).shells;
+    expect(shell.radiusFrom).toBe('sites');
+    expect(shell.innerRadius).toBe(shell.minSiteRadius);
+    expect(shell.outerRadius).toBe(shell.maxSiteRadius);
   });
 
   it('gives the full shells n = 1, 2 the same area pi U / V', () => {

@@ -1,5 +1,6 @@
-// The HTML report opened in a real browser: Debian's Chromium, driven headless by
-// playwright-core. A sample report holding every block kind must load with no console
+// The HTML report opened in a real browser: headless Chromium driven by playwright-core
+// (a system Chromium when installed, else the one bundled in @sparticuz/chromium:
+// test/helpers/headlessBrowser.ts). A sample report holding every block kind must load with no console
 // or page errors and no network traffic beyond the file itself, its images must decode,
 // its plots must have a size and their paths, the error banner must show, and nothing may
 // stick out of a phone-width page. A full-page screenshot is kept for a human to look at
@@ -8,12 +9,13 @@
 // The sample content is an invented experiment; its numbers are display data only (this
 // file tests the renderer, not the physics).
 
-import { copyFileSync, existsSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { copyFileSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { PNG } from 'pngjs';
-import { chromium, type Browser } from 'playwright-core';
+import type { Browser } from 'playwright-core';
+import { launchHeadlessChromium } from '../helpers/headlessBrowser.js';
 import { afterAll, describe, expect, it } from 'vitest';
 import { LASER_SAFETY_CAUTION, MEAN_FIELD_CAUTION } from '../../src/report/cautions.js';
 import type { ReportDocument } from '../../src/report/reportModel.js';
@@ -25,18 +27,6 @@ function sampleFieldMap(): string {
   const values = Float64Array.from({ length: 120 }, (_, i) => ((Math.floor(i / 10) + (i % 10)) % 2 === 0 ? 0.2 : 1.8));
   return renderFieldMapSvg({ values, nx: 12, ny: 10, title: 'checkerboard density', colorBarLabel: 'atoms per site' });
 }
-
-const CHROMIUM_PATH = '/usr/bin/chromium';
-const CHROMIUM_ARGS = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 
 /** A 48 x 32 RGBA test card: a smooth two-colour ramp with a dark square in one corner. */
 function makeTestPng(): Uint8Array {
@@ -189,16 +179,10 @@ describe('report in headless Chromium', () => {
     if (workDir) rmSync(workDir, { recursive: true, force: true });
   });
 
-  /** Chromium, or a failing test (never a skip) when it is not installed. */
+  /** Headless Chromium (system or bundled); a failure to start fails the test, never skips it. */
   async function launch(): Promise<Browser> {
-    if (!existsSync(CHROMIUM_PATH)) {
-      throw new Error(
-        `Chromium not found at ${CHROMIUM_PATH}. This test needs a real browser: install Debian's 'chromium' package ` +
-          '(apt-get install chromium; .ci/run does this in CI).',
-      );
-    }
     workDir = mkdtempSync(join(tmpdir(), 'tiercake-report-'));
-    browser = await chromium.launch({ executablePath: CHROMIUM_PATH, args: CHROMIUM_ARGS });
+    browser = (await launchHeadlessChromium()).browser;
     return browser;
   }
 

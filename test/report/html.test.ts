@@ -10,7 +10,7 @@
 //   emit must give back the caller's text exactly.
 // - Mean-field lobe tip of the n = 1 Mott lobe, zJ/U = 2n + 1 - 2 sqrt(n(n+1)) = 3 - 2 sqrt 2
 //   (van Oosten, van der Straten, Stoof, PRA 63, 053601 (2001)), i.e. U/(zJ) = 3 + 2 sqrt 2
-//   = 5.828; the caution quotes 6 x 5.83 = 34.98 (z = 6) and 4 x 5.83 = 23.3 (z = 4).
+//   = 5.828; the caution quotes 6 x 5.828 = 34.97 (z = 6) and 4 x 5.828 = 23.31 (z = 4).
 // - Quantum Monte Carlo critical points quoted in the caution: 29.34 in 3D
 //   (Capogrosso-Sansone, Prokof'ev, Svistunov, PRB 75, 134302 (2007)) and 16.74 in 2D
 //   (Capogrosso-Sansone et al., PRA 77, 015602 (2008)).
@@ -216,7 +216,7 @@ describe('renderReportHtml', () => {
 describe('standard cautions', () => {
   it('quote the published critical points and the mean-field values they are compared with', () => {
     const text = MEAN_FIELD_CAUTION.text;
-    for (const s of ['29.34', 'PRB 75, 134302 (2007)', '34.98', '16.74', 'PRA 77, 015602 (2008)', '23.3', '1D']) {
+    for (const s of ['29.34', 'PRB 75, 134302 (2007)', '34.97', '16.74', 'PRA 77, 015602 (2008)', '23.31', '1D', 'too small']) {
       expect(text).toContain(s);
     }
     // The mean-field numbers in the text must follow from the lobe tip of van Oosten et
@@ -224,15 +224,17 @@ describe('standard cautions', () => {
     const tip = 3 + 2 * Math.sqrt(2);
     const threeD = /theory gives ([\d.]+) \(= 6 \u00D7 ([\d.]+)\)/.exec(text);
     expect(threeD).not.toBeNull();
-    expect(Number(threeD![2])).toBeCloseTo(tip, 2); // quoted to 2 decimals
-    expect(Number(threeD![1])).toBeCloseTo(6 * Number(threeD![2]), 10); // 6 x 5.83 exactly
+    expect(Number(threeD![2])).toBeCloseTo(tip, 3); // quoted to 3 decimals
+    expect(Number(threeD![1])).toBeCloseTo(6 * tip, 2); // 34.97
     const twoD = /16\.74 \([^)]*\)\) and (\d+\.\d+)/.exec(text);
     expect(twoD).not.toBeNull();
-    expect(Number(twoD![1])).toBeCloseTo(4 * tip, 1); // 23.31, quoted to 1 decimal
+    expect(Number(twoD![1])).toBeCloseTo(4 * tip, 2); // 23.31
     // The Monte Carlo values quoted lie below mean field, as the text claims.
     const qmc3D = Number(/\(U\/J\)c = ([\d.]+)/.exec(text)![1]);
     expect(qmc3D).toBe(29.34);
     expect(qmc3D).toBeLessThan(6 * tip);
+    // A larger critical U/J means a smaller Mott region: the title must say so.
+    expect(MEAN_FIELD_CAUTION.title).toMatch(/shrinks the Mott/);
   });
 
   it('send laser questions to local rules and the lab calibration', () => {

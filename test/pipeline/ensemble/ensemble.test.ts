@@ -71,12 +71,12 @@ function scenarioFile(name: string, body: Record<string, unknown>): string {
 
 /**
  * A small trapped layer with box disorder at small hopping: n = 1 Mott regions and
- * superfluid that the disorder breaks up, so the superfluid spans in some realisations
- * (2 of the 6 used below) and not in others.
+ * superfluid that the disorder breaks up, so the superfluid spans the bulk of the cloud in
+ * some realisations (2 of the 6 used below) and not in others.
  */
 const trappedBody = (seed: string, width = 0.8) => ({
   lattice: { shape: [16, 16], boundary: 'open' },
-  hubbard: { hopping: 0.012 },
+  hubbard: { hopping: 0.022 },
   trap: { coefficient: 0.012 },
   disorder: { kind: 'box', width, seed },
   particles: { chemicalPotential: 1.0 },
