@@ -3,6 +3,7 @@
 // writers (solveOutputs.ts) turn into files. Nothing here prints.
 
 import { availableParallelism, totalmem } from 'node:os';
+import { dirname } from 'node:path';
 import { InputError } from '../scenario/inputError.js';
 import { loadScenario } from '../scenario/loadScenario.js';
 import { estimateMemoryBytes, resolveScenario, type ResolvedScenario } from '../scenario/resolveScenario.js';
@@ -71,7 +72,7 @@ export function prepareScenario(path: string, overrides: readonly string[]): { s
         `more than the ${(limit / 2 ** 30).toFixed(1)} GiB this machine can spare; use a smaller lattice`,
     );
   }
-  const resolved = resolveScenario(scenario);
+  const resolved = resolveScenario(scenario, { scenarioDirectory: dirname(path) });
   checkPhysicalConsistency(resolved);
   return { scenario, raw, resolved };
 }

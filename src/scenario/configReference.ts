@@ -24,7 +24,11 @@ function typeOf(node: JsonSchemaNode): string {
     else if (lo !== undefined) bounds = node.exclusiveMinimum !== undefined ? ` > ${lo}` : ` >= ${lo}`;
     else if (hi !== undefined) bounds = ` <= ${hi}`;
   }
-  if (t === 'array' && node.items) return `list of ${typeOf(node.items)}`;
+  if (t === 'array' && node.items) {
+    const oneOf = (node.items as { oneOf?: JsonSchemaNode[] }).oneOf;
+    if (oneOf?.some((a) => a.properties)) return 'list of groups (keys below)';
+    return `list of ${typeOf(node.items)}`;
+  }
   return `${t}${bounds}`;
 }
 
@@ -57,6 +61,15 @@ function walk(node: JsonSchemaNode, prefix: string, rows: Row[]): void {
       description: (child.description ?? '').replace(/\|/g, '\\|'),
     });
     if (nested) walk(child, path, rows);
+    // A list of tagged groups (the landscape terms): the keys of each alternative, marked with its tag.
+    const items = child.type === 'array' ? child.items : undefined;
+    const alternatives = [...(items?.anyOf ?? []), ...((items as { oneOf?: JsonSchemaNode[] } | undefined)?.oneOf ?? [])].filter((a) => a.properties);
+    for (const alt of alternatives) {
+      const tag = Object.values(alt.properties ?? {}).map((p) => (p as { const?: unknown }).const).find((c) => c !== undefined);
+      const before = rows.length;
+      walk(alt, `${path}[i]`, rows);
+      if (tag !== undefined) for (let r = before; r < rows.length; r++) if (!rows[r].key.endsWith('.kind')) rows[r].description = `(${String(tag)}) ${rows[r].description}`;
+    }
   }
 }
 

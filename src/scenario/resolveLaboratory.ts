@@ -66,8 +66,14 @@ export function resolveLaboratory(scenario: Scenario): LaboratoryParameters {
     if (dims === 3) {
       hubbard = hubbardFromLab({ species, wavelengthNm: lab.wavelengthNm, depthEr: depths });
     } else if (lab.transverse?.depthEr !== undefined) {
-      // The missing axes are deep lattices one site thick: their Wannier functions enter U.
-      hubbard = hubbardFromLab({ species, wavelengthNm: lab.wavelengthNm, depthEr: [...depths, ...Array(3 - dims).fill(lab.transverse.depthEr)] });
+      // The missing axes are deep lattices one site thick: their Wannier functions enter U
+      // (their depth is in the recoil energy of their own wavelength).
+      const transverseNm = lab.transverse.wavelengthNm ?? lab.wavelengthNm;
+      hubbard = hubbardFromLab({
+        species,
+        wavelengthNm: [...Array(dims).fill(lab.wavelengthNm), ...Array(3 - dims).fill(transverseNm)],
+        depthEr: [...depths, ...Array(3 - dims).fill(lab.transverse.depthEr)],
+      });
     } else {
       hubbard = hubbardFromLab({
         species,

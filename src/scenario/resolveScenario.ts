@@ -13,6 +13,7 @@ import type { Scenario } from './scenarioSchema.js';
 import { resolveLaboratory, type LaboratoryParameters } from './resolveLaboratory.js';
 import { boxDisorder } from '../lattice/boxDisorder.js';
 import { grainSitesFromAperture, longitudinalGrainSitesFromAperture, speckleField } from '../lattice/speckle.js';
+import { resolveLandscape, type LandscapeTermRecord } from './resolveLandscape.js';
 
 export interface EnergyUnits {
   /** label of the internal energy unit the solver works in (J, U or Hz) */
@@ -44,6 +45,13 @@ export interface ResolvedScenario {
   laboratory: LaboratoryParameters | null;
   /** the disorder part of eps (internal energy unit), or null */
   disorder: Float64Array | null;
+  /** landscape terms (issue 16): a record per term, its site energies (internal unit) and warnings */
+  landscape: { records: LandscapeTermRecord[]; fields: Float64Array[]; warnings: string[] };
+}
+
+export interface ResolveOptions {
+  /** folder of the scenario file; landscape file paths are relative to it (default: working directory) */
+  scenarioDirectory?: string;
 }
 
 function perAxisValues(v: number | number[] | undefined, dims: number, fallback: number): number[] {
@@ -60,7 +68,7 @@ export function estimateMemoryBytes(siteCount: number, uniform: boolean, thermal
   return siteCount * 8 * (solverArrays + outputCopies + spectrumStore);
 }
 
-export function resolveScenario(scenario: Scenario): ResolvedScenario {
+export function resolveScenario(scenario: Scenario, options: ResolveOptions = {}): ResolvedScenario {
   const dims = scenario.lattice.shape.length;
   const boundary = scenario.lattice.boundary;
   const periodic = (Array.isArray(boundary) ? (boundary.length === 1 ? Array(dims).fill(boundary[0]) : boundary) : Array(dims).fill(boundary)).map(
@@ -116,6 +124,12 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
   const toInternal = energyParser(scenario, units);
   const disorder = scenario.disorder ? disorderField(scenario, geometry, toInternal, latticeSpacingUm, laboratory) : null;
   if (disorder) for (let i = 0; i < eps.length; i++) eps[i] += disorder[i];
+  // --- landscape terms (resolveLandscape.ts): added to eps; a combined superlattice also sets J and U
+  const landscape = resolveLandscape(scenario, { geometry, units, laboratory, scenarioDirectory: options.scenarioDirectory });
+  if (landscape.total) for (let i = 0; i < eps.length; i++) eps[i] += landscape.total[i];
+  if (landscape.hopping) hopping = hopping.map((h, d) => landscape.hopping?.[d] ?? h);
+  if (landscape.interaction) interactionU = landscape.interaction;
+  // --- end of landscape terms
   const chemical: ChemicalPotentialMode =
     scenario.particles.atoms !== undefined
       ? { kind: 'atoms', atoms: scenario.particles.atoms, relativeTolerance: scenario.solver.atomTolerance }
@@ -151,6 +165,7 @@ export function resolveScenario(scenario: Scenario): ResolvedScenario {
     latticeSpacingUm,
     laboratory,
     disorder,
+    landscape: { records: landscape.records, fields: landscape.fields, warnings: landscape.warnings },
   };
 }
 

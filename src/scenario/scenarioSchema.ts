@@ -5,6 +5,7 @@
 
 import * as z from 'zod';
 import { CameraSchema, TimeOfFlightSchema } from './imagingSchema.js';
+import { LandscapeSchema, landscapeIssues } from './landscapeSchema.js';
 
 const finite = (): z.ZodNumber => z.number();
 const positive = (): z.ZodNumber => z.number().positive();
@@ -53,6 +54,7 @@ export const LaboratorySchema = z
       .strictObject({
         trapFrequencyHz: positive().optional().describe('harmonic confinement along the axes the lattice does not resolve, Hz'),
         depthEr: positive().optional().describe('or: lattice depth along those axes, E_r (one site thick)'),
+        wavelengthNm: positive().max(100_000).optional().describe('with depthEr: wavelength of that lattice in nm, if not the lattice wavelength (its depth is in its own E_r)'),
       })
       .optional()
       .describe('for 1D and 2D lattices: what holds the atoms along the missing axes'),
@@ -171,6 +173,7 @@ export const ScenarioSchema = z
     laboratory: LaboratorySchema.optional(),
     trap: TrapSchema.optional(),
     disorder: DisorderSchema.optional().describe('random site potential added to the trap (box or speckle)'),
+    landscape: LandscapeSchema.optional(),
     particles: ParticlesSchema,
     temperature: TemperatureSchema.prefault({}),
     truncation: TruncationSchema.prefault({}),
@@ -237,6 +240,9 @@ export const ScenarioSchema = z
         if ((t.trapFrequencyHz === undefined) === (t.depthEr === undefined)) {
           issue(['laboratory', 'transverse'], 'give exactly one of trapFrequencyHz and depthEr');
         }
+        if (t.wavelengthNm !== undefined && t.depthEr === undefined) {
+          issue(['laboratory', 'transverse', 'wavelengthNm'], 'only used with transverse.depthEr (a transverse lattice)');
+        }
       }
       if (typeof s.laboratory.species !== 'string') {
         const sp = s.laboratory.species;
@@ -275,6 +281,13 @@ export const ScenarioSchema = z
     if (given > 1) issue(['temperature'], 'give at most one of kT, nanokelvin and entropyPerAtom');
     if (t.entropyPerAtom !== undefined && s.particles.atoms === undefined) {
       issue(['temperature', 'entropyPerAtom'], 'fixed entropy per atom needs a fixed atom number: give particles.atoms');
+    }
+    for (const [path, message] of landscapeIssues(s.landscape, {
+      dims,
+      laboratory: s.laboratory !== undefined,
+      envelopeVariesHubbard: s.laboratory?.envelopeVariesHubbard === true,
+    })) {
+      issue(path, message);
     }
   });
 

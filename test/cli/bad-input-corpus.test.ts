@@ -7,7 +7,8 @@
 //
 // The scenario files are in test/bad-scenarios/ (one mistake each, on top of the valid
 // _valid-small.json); files that are awkward to keep in git (binary, 100 000 levels of
-// nesting, over 1 MiB, UTF-16, symbolic-link loops) are written by the test. Most cases
+// nesting, over 1 MiB, UTF-16, symbolic-link loops, bad landscape .npy and PNG files next to
+// scenarios that name them by relative paths) are written by the test. Most cases
 // run in this process through runCli; a handful run as child processes
 // (`node --import test/register-ts.mjs src/main.ts ...`), which is how a user meets them.
 //
@@ -22,6 +23,7 @@ import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { runCli } from '../../src/cli/main.js';
 import { locateJsonProblem } from '../../src/scenario/loadScenario.js';
+import { encodeGray16, encodeRgba8 } from '../../src/formats/pngCodec.js';
 
 const repoRoot = fileURLToPath(new URL('../..', import.meta.url));
 const corpusDir = fileURLToPath(new URL('../bad-scenarios/', import.meta.url));
@@ -146,6 +148,14 @@ const fileCases: Record<string, { names: RegExp; pending?: string }> = {
   'disorder-unknown-kind.json': { names: /disorder\.kind: expected one of "box", "speckle", got the text "gaussian"/ },
   'disorder-missing-kind.json': { names: /disorder\.kind: missing; expected one of "box", "speckle"/ },
   'disorder-negative-width.json': { names: /disorder\.width: expected a number >= 0, got -0\.2/ },
+  // landscape terms (issue 16): the schema's checks and a file that is not there
+  'landscape-missing-file.json': { names: /landscape\[0\]\.file: file not found: .*no-such-potential\.npy \(paths are relative to the scenario file\)/ },
+  'landscape-sites-not-npy.json': { names: /landscape\[0\]\.file: expected an \.npy file of per-site energies/ },
+  'landscape-png-without-scale.json': { names: /landscape\[0\]\.energyPerLevel: required for a PNG picture/ },
+  'landscape-unknown-kind.json': { names: /landscape\[0\]\.kind: expected one of "sites", "image", "gradient", "box", "superlattice", got the text "lens"/ },
+  'landscape-box-missing-radius.json': { names: /landscape\[0\]\.radius: required for shape "disc"/ },
+  'landscape-gradient-direction-length.json': { names: /landscape\[0\]\.direction: expected 2 components \(one per lattice axis\), got 3/ },
+  'landscape-combined-in-hubbard.json': { names: /landscape\[0\]\.tunnelling: tunnelling "combined" needs laboratory mode/ },
   // hostile strings and nesting
   'name-path-traversal.json': { names: /name: letters, digits.*got the text "\.\.\/\.\.\/etc\/passwd"/ },
   'name-very-long.json': { names: /name: letters, digits.*got the text "x+\.\.\./ },
@@ -205,6 +215,80 @@ function writeGenerated(): void {
   generated['loop-a.json'] = loopA;
   mkdirSync(join(dir, 'a-folder.json'));
   generated['a-folder.json'] = join(dir, 'a-folder.json');
+  writeLandscapeFiles(dir, put);
+}
+
+// --- bad landscape files (issue 16): each next to a scenario that names it by a relative path --
+
+/** A .npy file with a hand-written header (NEP 1, version 1.0) and raw little-endian data. */
+function npyBytes(header: string, data: Uint8Array): Uint8Array {
+  let h = header;
+  h += ' '.repeat((64 - ((10 + h.length + 1) % 64)) % 64) + '\n';
+  return Buffer.concat([Buffer.from([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 1, 0, h.length & 0xff, h.length >> 8]), Buffer.from(h, 'latin1'), data]);
+}
+
+function float64Bytes(values: number[]): Uint8Array {
+  return new Uint8Array(Float64Array.from(values).buffer);
+}
+
+const landscapeFiles: Record<string, { term: Record<string, unknown>; file: string; bytes: (() => Uint8Array) | 'folder' }> = {
+  'landscape-wrong-shape': {
+    term: { kind: 'sites', file: 'wrong-shape.npy' },
+    file: 'wrong-shape.npy',
+    bytes: () => npyBytes("{'descr': '<f8', 'fortran_order': False, 'shape': (8, 9), }", float64Bytes(Array(72).fill(0))),
+  },
+  'landscape-nan': {
+    term: { kind: 'sites', file: 'with-nan.npy' },
+    file: 'with-nan.npy',
+    bytes: () => npyBytes("{'descr': '<f8', 'fortran_order': False, 'shape': (8, 8), }", float64Bytes(Array.from({ length: 64 }, (_, i) => (i === 2 * 8 + 5 ? Number.NaN : i === 40 ? Infinity : 0.1)))),
+  },
+  'landscape-complex-dtype': {
+    term: { kind: 'sites', file: 'complex.npy' },
+    file: 'complex.npy',
+    bytes: () => npyBytes("{'descr': '<c16', 'fortran_order': False, 'shape': (8, 8), }", new Uint8Array(64 * 16)),
+  },
+  'landscape-fortran-order': {
+    term: { kind: 'sites', file: 'fortran.npy' },
+    file: 'fortran.npy',
+    bytes: () => npyBytes("{'descr': '<f8', 'fortran_order': True, 'shape': (8, 8), }", float64Bytes(Array(64).fill(0))),
+  },
+  'landscape-truncated': {
+    term: { kind: 'sites', file: 'truncated.npy' },
+    file: 'truncated.npy',
+    bytes: () => npyBytes("{'descr': '<f8', 'fortran_order': False, 'shape': (8, 8), }", float64Bytes(Array(40).fill(0))),
+  },
+  'landscape-not-npy': { term: { kind: 'sites', file: 'garbage.npy' }, file: 'garbage.npy', bytes: () => garbageBytes(600, 11) },
+  'landscape-empty-file': { term: { kind: 'sites', file: 'empty.npy' }, file: 'empty.npy', bytes: () => new Uint8Array(0) },
+  'landscape-folder': { term: { kind: 'sites', file: 'a-folder.npy' }, file: 'a-folder.npy', bytes: 'folder' },
+  'landscape-image-3d': {
+    term: { kind: 'image', file: 'cube.npy', pixelSize: 1 },
+    file: 'cube.npy',
+    bytes: () => npyBytes("{'descr': '<f8', 'fortran_order': False, 'shape': (2, 2, 2), }", float64Bytes(Array(8).fill(1))),
+  },
+  'landscape-image-nan': {
+    term: { kind: 'image', file: 'picture-nan.npy', pixelSize: 1 },
+    file: 'picture-nan.npy',
+    bytes: () => npyBytes("{'descr': '<f4', 'fortran_order': False, 'shape': (3, 4), }", new Uint8Array(Float32Array.from([0, 0, 0, 0, 0, 0, Number.NaN, 0, 0, 0, 0, 0]).buffer)),
+  },
+  'landscape-image-colour': {
+    term: { kind: 'image', file: 'colour.png', pixelSize: 1, energyPerLevel: 0.001 },
+    file: 'colour.png',
+    bytes: () => encodeRgba8(4, 3, new Uint8Array(4 * 3 * 4).fill(200)),
+  },
+  'landscape-image-damaged-png': {
+    term: { kind: 'image', file: 'damaged.png', pixelSize: 1, energyPerLevel: 0.001 },
+    file: 'damaged.png',
+    bytes: () => Buffer.concat([Buffer.from(encodeGray16(4, 3, new Uint16Array(12))).subarray(0, 40), garbageBytes(30, 5)]),
+  },
+};
+
+function writeLandscapeFiles(dir: string, put: (name: string, data: string | Uint8Array) => void): void {
+  const base = JSON.parse(readFileSyncUtf8(validFile)) as Record<string, unknown>;
+  for (const [name, c] of Object.entries(landscapeFiles)) {
+    if (c.bytes === 'folder') mkdirSync(join(dir, c.file));
+    else writeFileSync(join(dir, c.file), c.bytes());
+    put(`${name}.json`, JSON.stringify({ ...base, landscape: [c.term] }));
+  }
 }
 
 const solveFile = (name: () => string, ...extra: string[]) => () => ['solve', name(), ...extra];
@@ -228,6 +312,20 @@ const otherCases: BadCase[] = [
   { title: 'a path through a file', args: solveFile(() => join(validFile, 'inner.json')), names: /_valid-small\.json\/inner\.json: file not found/, withOut: true },
   { title: 'an empty path', args: solveFile(() => ''), names: /scenario: the path is empty/, withOut: true },
   { title: 'a device', args: solveFile(() => '/dev/null'), names: /\/dev\/null: not a regular file/, withOut: true },
+  // landscape files that cannot be used (written by the test next to their scenario)
+  { title: 'landscape: .npy of the wrong shape', args: solveFile(gen('landscape-wrong-shape.json')), names: /landscape\[0\]\.file: wrong-shape\.npy has shape \(8, 9\), the lattice \(8, 8\)/, withOut: true },
+  { title: 'landscape: .npy holding NaN and Infinity', args: solveFile(gen('landscape-nan.json')), names: /landscape\[0\]\.file: with-nan\.npy holds 2 values that are NaN or infinite \(first at index \(2, 5\)\)/, withOut: true, child: true },
+  { title: 'landscape: complex dtype', args: solveFile(gen('landscape-complex-dtype.json')), names: /landscape\[0\]\.file: complex\.npy: \.npy dtype <c16 is not supported/, withOut: true },
+  { title: 'landscape: Fortran order', args: solveFile(gen('landscape-fortran-order.json')), names: /landscape\[0\]\.file: fortran\.npy: .*Fortran order/, withOut: true },
+  { title: 'landscape: truncated data', args: solveFile(gen('landscape-truncated.json')), names: /landscape\[0\]\.file: truncated\.npy: \.npy data is truncated/, withOut: true },
+  { title: 'landscape: not an .npy at all', args: solveFile(gen('landscape-not-npy.json')), names: /landscape\[0\]\.file: garbage\.npy: not a \.npy file/, withOut: true },
+  { title: 'landscape: an empty file', args: solveFile(gen('landscape-empty-file.json')), names: /landscape\[0\]\.file: .*empty\.npy is empty/, withOut: true },
+  { title: 'landscape: a folder', args: solveFile(gen('landscape-folder.json')), names: /landscape\[0\]\.file: .*a-folder\.npy is a folder, not a file/, withOut: true },
+  { title: 'landscape: a 3D picture', args: solveFile(gen('landscape-image-3d.json')), names: /landscape\[0\]\.file: cube\.npy has shape \(2, 2, 2\); a picture needs a 2D array/, withOut: true },
+  { title: 'landscape: a picture holding NaN', args: solveFile(gen('landscape-image-nan.json')), names: /landscape\[0\]\.file: picture-nan\.npy holds 1 value that is NaN or infinite \(first at index \(1, 2\)\)/, withOut: true },
+  { title: 'landscape: a colour PNG', args: solveFile(gen('landscape-image-colour.json')), names: /landscape\[0\]\.file: colour\.png is a colour PNG; save the picture as greyscale/, withOut: true, child: true },
+  { title: 'landscape: a damaged PNG', args: solveFile(gen('landscape-image-damaged-png.json')), names: /landscape\[0\]\.file: damaged\.png: the file is damaged or unsupported/, withOut: true },
+  { title: 'check: landscape file of the wrong shape', args: () => ['check', generated['landscape-wrong-shape.json']], names: /landscape\[0\]\.file: wrong-shape\.npy has shape \(8, 9\)/ },
   // --set: NaN and Infinity, bad syntax, bad paths
   { title: '--set NaN', args: set('particles.chemicalPotential=NaN'), names: /--set particles\.chemicalPotential=NaN: NaN is not allowed/, withOut: true, child: true },
   { title: '--set Infinity', args: set('particles.chemicalPotential=Infinity'), names: /--set particles\.chemicalPotential=Infinity: Infinity is not allowed/, withOut: true },
