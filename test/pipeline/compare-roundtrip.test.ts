@@ -8,10 +8,13 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PNG } from 'pngjs';
+import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { solveScenario } from '../../src/pipeline/solveScenario.js';
-import { cameraPictures, cloudForImaging } from '../../src/output/cameraOutputs.js';
-import { runCompareCommand } from '../../src/cli/compareCommand.js';
-import { replayLeastSquaresFit } from '../../src/pipeline/compareFit.js';
+import { cameraPictureFiles } from '../../src/output/cameraOutputs.js';
+import { cameraPictures } from '../../src/imaging/cameraPictures.js';
+import { cloudForImaging } from '../../src/pipeline/solvePictures.js';
+import { runCompareCommand } from '../../src/cli/commands/compare.js';
+import { replayLeastSquaresFit } from '../../src/pipeline/compareFitReplay.js';
 import { InputError } from '../../src/scenario/inputError.js';
 import { CameraSchema } from '../../src/scenario/imagingSchema.js';
 import { decodeMeasuredImage, orientField, MeasuredImageError } from '../../src/imaging/measuredImage.js';
@@ -47,10 +50,10 @@ describe('compare round trip', () => {
   // sit far outside the noise: a failure means a real error, not bad luck. (Atom shot
   // noise alone, sqrt(N) = 16 atoms, could never pin N to 1 %.)
   it('fits N within 1 % and kT within 10 % from a noisy 16-bit exposure and its sidecar', async () => {
-    const truth = await solveScenario({ scenarioPath, overrides: [], threads: 1 });
+    const truth = await solveScenario(prepareScenario(scenarioPath, []), { threads: 1 });
     expect(Math.abs(truth.outcome.solve.totals.atoms - trueAtoms)).toBeLessThan(1e-3);
     const camera = CameraSchema.parse({ cameraPixelUm: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom: 1000, seed: 'roundtrip' } });
-    const pictures = cameraPictures(cloudForImaging(truth), camera);
+    const pictures = cameraPictureFiles(cameraPictures(cloudForImaging(truth), camera));
     const pngFile = pictures.arrays.find((a) => a.file === 'images/in_situ_shot.gray16.png');
     const sidecar = pictures.texts.find((t) => t.file === 'images/in_situ_shot.json');
     if (pngFile === undefined || sidecar === undefined) throw new Error('the noisy exposure was not written');
