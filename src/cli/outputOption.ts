@@ -12,6 +12,6 @@ export function outputTarget(dir: string, options: { force?: boolean; inputs?: r
 
 /** Tell the user where an earlier folder went (--force) or what could not be cleaned up. */
 export function reportCommit(commit: CommitReport | null): void {
-  if (commit?.movedAsideTo) process.stderr.write(`tiercake: the folder that was at ${commit.path} (not written by tiercake) was moved to ${commit.movedAsideTo}\n`);
+  if (commit?.movedAsideTo) process.stderr.write(`tiercake: the earlier folder at ${commit.path} (with files tiercake did not write) was moved to ${commit.movedAsideTo}; nothing was deleted\n`);
   if (commit?.leftover) process.stderr.write(`tiercake: warning: the earlier results were moved to ${commit.leftover}, which still holds files tiercake did not write; look at it and remove it yourself\n`);
 }

@@ -132,10 +132,11 @@ export function checkOutputTarget(given: string, options: OutputTargetOptions): 
   if (parse(path).root === path) refuse(options, given, 'is the root of the filesystem; give a folder of its own for the results');
 
   // The folder itself: never a link, never a file.
-  const st = lstatOrNull(path);
+  let st = lstatOrNull(path);
   if (st instanceof Error) {
-    if (st.code === 'ENOTDIR') refuse(options, given, 'lies under a file, not a folder, so nothing can be created there; choose a folder path');
-    refuse(options, given, `cannot be examined (${st.code ?? 'unknown error'}); choose another folder`);
+    // ENOTDIR: something above is not a folder; the walk below names it.
+    if (st.code !== 'ENOTDIR') refuse(options, given, `cannot be examined (${st.code ?? 'unknown error'}); choose another folder`);
+    st = null;
   }
   if (st !== null && st.isSymbolicLink()) {
     refuse(options, given, 'is a symbolic link; tiercake neither writes through links nor replaces them, so give the folder it points to or a new name');

@@ -70,6 +70,8 @@ const fileCases: Record<string, { names: RegExp; pending?: string }> = {
   'json-string.json': { names: /json-string\.json: expected a JSON object .*got the string/ },
   'json-null.json': { names: /json-null\.json: expected a JSON object .*got null/ },
   'json-true.json': { names: /json-true\.json: expected a JSON object .*got the boolean true/ },
+  // valid JSON, but a second group of the same name would silently replace the first
+  'duplicate-key.json': { names: /duplicate-key\.json: line 20, column 3: the key "particles" appears a second time in the same group \(first at line 17\)/ },
   // NaN and Infinity written into the file
   'nan-token.json': { names: /nan-token\.json: not valid JSON at line 18, column 26: NaN is not a number in JSON/ },
   'infinity-token.json': { names: /infinity-token\.json: not valid JSON at line 12, column 16: Infinity is not a number in JSON/ },
@@ -213,6 +215,9 @@ const valid = () => validFile;
 const set = (...items: string[]) => solveFile(valid, ...items.flatMap((item) => ['--set', item]));
 
 const otherCases: BadCase[] = [
+  // --set values that start like JSON must be JSON
+  { title: '--set an unclosed list', args: set('lattice.shape=[4,4'), names: /--set lattice\.shape=\[4,4: the value is not valid JSON at character 5/, withOut: true },
+  { title: '--set a group with a key twice', args: set('particles={"atoms":1,"atoms":2}'), names: /--set particles=.*the key "atoms" appears a second time/, withOut: true },
   // files that are not scenario files at all
   { title: 'binary garbage', args: solveFile(gen('binary-garbage.json')), names: /binary-garbage\.json: the file contains binary data/, withOut: true, child: true },
   { title: 'a PNG image', args: solveFile(gen('camera-frame.png')), names: /camera-frame\.png: .*looks like a PNG image/, withOut: true, child: true },

@@ -6,7 +6,6 @@
 // best values did not converge.
 
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
 import { writeOutputFolder } from '../../output/outputFolder.js';
 import { writeCompareFiles, type CompareProvenance } from '../../output/compareOutputs.js';
 import { toolVersion } from '../../output/toolVersion.js';
@@ -54,7 +53,7 @@ export async function runCompareCommand(scenarioPath: string, raw: RawOptions): 
   const rotateDeg = o.rotate ?? 0;
   if (rotateDeg % 90 !== 0) throw new InputError(`--rotate: expected 0, 90, 180 or 270 (degrees counter-clockwise), got "${rotateDeg}"`);
   const fit = parseFitList(o.fit ?? 'atoms');
-  const target = outputTarget(resolve(o.out), { force: o.force ?? false, inputs: [scenarioPath, o.image] });
+  const target = outputTarget(o.out, { force: o.force ?? false, inputs: [scenarioPath, o.image] });
   const { image, sidecar } = readMeasuredImage({
     path: o.image,
     rotateDeg,

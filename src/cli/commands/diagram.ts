@@ -60,7 +60,7 @@ export function parseDiagramOptions(raw: RawOptions): DiagramSettings & { out: s
 export async function runDiagram(raw: RawOptions): Promise<number> {
   const s = parseDiagramOptions(raw);
   const outDir = resolve(s.out);
-  const target = outputTarget(outDir, { force: s.force });
+  const target = outputTarget(s.out, { force: s.force });
   const t0 = performance.now();
   const result = phaseMap({ zJMax: s.zJMax, muMin: s.muMin, muMax: s.muMax, columns: s.columns, rows: s.rows, temperature: s.temperature, nmax: s.nmax, boundaryPoints: 400 });
   const seconds = (performance.now() - t0) / 1000;

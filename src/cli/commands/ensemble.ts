@@ -86,8 +86,9 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
   const blocks = shard ? shardBlocks(plan, shard.index, shard.count) : Array.from({ length: plan.blockCount }, (_, b) => b);
   const siteCount = resolved.geometry.siteCount;
   const parallelOver: ParallelMode = parallelChoice === 'auto' ? (siteCount < PARALLEL_MIN_SITES ? 'realisations' : 'lattice') : (parallelChoice as ParallelMode);
-  const collect = resolve(o.out ?? `out/${scenario.name}-${shard ? 'shards' : 'ensemble'}`);
-  const target = outputTarget(shard ? join(collect, shardFolderName(shard)) : collect, { force: o.force ?? false, inputs: [scenarioPath] });
+  const given = o.out ?? `out/${scenario.name}-${shard ? 'shards' : 'ensemble'}`;
+  const collect = resolve(given);
+  const target = outputTarget(shard ? join(given, shardFolderName(shard)) : given, { force: o.force ?? false, inputs: [scenarioPath] });
 
   const progress = progressFor(o);
   // Where finished blocks go: into the running total (complete run), or straight into the

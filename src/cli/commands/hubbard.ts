@@ -4,7 +4,6 @@
 // caution). Options -> hubbardTable (src/pipeline) -> stdout and files.
 
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
 import { writeOutputFolder } from '../../output/outputFolder.js';
 import { writeHubbardFiles } from '../../output/hubbardOutputs.js';
 import { ParameterError } from '../../physics/parameterError.js';
@@ -57,7 +56,7 @@ export async function runHubbard(raw: RawOptions): Promise<number> {
     throw new InputError(`--confinement-hz: a ${axes}-axis lattice needs the trap frequency along the other ${3 - axes} axis/axes`);
   }
   if (o.powerW !== undefined && o.waistUm === undefined) throw new InputError('--waist-um: required with --power-w; give the beam waist at the atoms in µm');
-  const target = o.out !== undefined ? outputTarget(resolve(o.out), { force: o.force ?? false }) : null;
+  const target = o.out !== undefined ? outputTarget(o.out, { force: o.force ?? false }) : null;
   const confinement = axes < 3 ? Array<number>(3 - axes).fill(o.confinementHz as number) : [];
 
   let rows;

@@ -44,7 +44,7 @@ export async function runMergeCommand(paths: readonly string[], raw: RawOptions)
   const plan = checkShardSet(shards);
   const header = shards[0].header;
   const outDir = resolve(o.out ?? `out/${header.scenarioName}-ensemble`);
-  const target = outputTarget(outDir, { force: o.force ?? false, inputs: [...paths] });
+  const target = outputTarget(o.out ?? outDir, { force: o.force ?? false, inputs: [...paths] });
   const bins = header.bins;
   const entries = shards.flatMap((shard) => shard.header.blocks.map((entry) => ({ shard, entry }))).sort((a, b) => a.entry.block - b.entry.block);
   const total = createEnsembleTotal(header.context.shape.reduce((a, b) => a * b, 1), bins);

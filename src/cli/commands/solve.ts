@@ -41,7 +41,7 @@ export async function runSolveCommand(scenarioPath: string, raw: RawOptions): Pr
   const prepared = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
   const prepareSeconds = (performance.now() - t0) / 1000;
   const outDir = resolve(o.out ?? `out/${prepared.scenario.name}`);
-  const target = outputTarget(outDir, { force: o.force ?? false, inputs: [scenarioPath] });
+  const target = outputTarget(o.out ?? outDir, { force: o.force ?? false, inputs: [scenarioPath] });
   const checkpointDir = typeof o.resume === 'string' ? resolve(o.resume) : checkpointPath(outDir);
   const resumeFrom = o.resume ? readCheckpoint(checkpointDir, prepared.scenario) : null;
   const progress = progressFor(o);
