@@ -7,18 +7,12 @@ import { encodeRgba8 } from '../formats/pngCodec.js';
 import { renderFieldFigure } from '../figures/fieldFigure.js';
 import { renderReportHtml } from '../report/renderReport.js';
 import { MEAN_FIELD_CAUTION } from '../report/cautions.js';
-import type { phaseMap } from '../solver/phaseMap.js';
+import type { phaseMap, PhaseMapRequest } from '../solver/phaseMap.js';
 import type { OutputFolder } from './outputFolder.js';
 import { toolVersion } from './toolVersion.js';
 
-export interface DiagramSettings {
-  zJMax: number;
-  muMin: number;
-  muMax: number;
-  columns: number;
-  rows: number;
-  temperature: number;
-  nmax: number;
+/** The map's grid and what colours it. */
+export interface DiagramSettings extends Omit<PhaseMapRequest, 'boundaryPoints'> {
   shade: 'phi' | 'density';
 }
 

@@ -10,16 +10,17 @@
 //    resampling, PSF) with the scenario's camera section and the measured pixel size.
 // 3. Weighted least squares (Levenberg-Marquardt, src/numerics/leastSquaresFit.ts, replayed
 //    for an asynchronous model: compareFitReplay.ts) over all pixels, weights from
-//    compareFitNoise.ts, repeated with weights from the previous best model (iteratively
-//    reweighted least squares) until the parameters move by less than a tenth of their
-//    uncertainty. Every model evaluation is one warm-started lattice solve of the one
+//    compareFitNoise.ts (first pass: the larger of the estimates from the smoothed data
+//    and from the model at the starting values), repeated with weights from the previous
+//    best model (iteratively reweighted least squares) until the parameters move by less
+//    than a tenth of their uncertainty. Every model evaluation is one warm-started lattice solve of the one
 //    resolved scenario on one sweep pool (compareFitModel.ts); the atom number is fitted
 //    through the chemical potential and reported with its uncertainty carried by dN/dmu.
 // Returns plain data; the files are written by src/output/compareOutputs.ts.
 
 import { findCloudCentre, type CloudCentre } from '../observables/cloudCentre.js';
 import { radialProfile, type RadialProfile } from '../observables/radialProfile.js';
-import { cameraOptics, cameraPicture, type CameraOptics } from '../imaging/cameraOptics.js';
+import { cameraPicture, type CameraOptics } from '../imaging/cameraOptics.js';
 import type { CameraGrid } from '../imaging/cameraResample.js';
 import type { MeasuredImage } from '../imaging/measuredImage.js';
 import { maxInteraction, maxHopping } from '../lattice/latticeModel.js';
@@ -28,7 +29,7 @@ import { energyParser } from '../scenario/resolveScenario.js';
 import { InputError } from '../scenario/inputError.js';
 import { defaultCameraSettings } from '../scenario/imagingSchema.js';
 import type { LeastSquaresOptions } from '../numerics/leastSquaresFit.js';
-import { asInputError, type PreparedScenario } from './prepareScenario.js';
+import { scenarioOptics, type PreparedScenario } from './prepareScenario.js';
 import { threadsFor, type WorkerModule } from './solveScenario.js';
 import { createFitModel, type FitSolution } from './compareFitModel.js';
 import { modelNoiseSigma, pixelNoiseModel } from './compareFitNoise.js';
@@ -133,28 +134,7 @@ export async function runCompareFit(request: CompareFitRequest): Promise<Compare
   const camera = scenario.camera ?? defaultCameraSettings();
 
   // Optics with the measured pixel size; the PSF and the imaging axis from the scenario.
-  let optics: CameraOptics;
-  try {
-    optics = {
-      ...cameraOptics(
-        {
-          name: scenario.name,
-          shape: resolved.geometry.shape,
-          latticeSpacingUm: resolved.latticeSpacingUm,
-          massKg: null,
-          density: new Float64Array(0),
-          parityOdd: new Float64Array(0),
-          orderParameter: new Float64Array(0),
-          trapCentre: resolved.trapCentre,
-          wannierWidthSites: null,
-        },
-        camera,
-      ),
-      pixelUm: measured.pixelUm,
-    };
-  } catch (err) {
-    throw asInputError(err);
-  }
+  const optics: CameraOptics = { ...scenarioOptics(resolved, camera), pixelUm: measured.pixelUm };
 
   // Background, centre and weights of the measured picture.
   const centreFit = findCloudCentre(measured.values, [measured.nx, measured.ny]);
@@ -228,14 +208,20 @@ export async function runCompareFit(request: CompareFitRequest): Promise<Compare
       return s === undefined ? undefined : render(s, params[physicsCount], params[physicsCount + 1]);
     };
 
-    // Pass 1 weights from the smoothed data, then reweighting from the previous best
-    // model until the parameters move by less than a tenth of their uncertainty.
+    // Then reweighting from the previous best model until the parameters move by less
+    // than a tenth of their uncertainty.
     let fit: ReplayedFit | undefined;
     let best: FitSolution | undefined;
     let picture: Float64Array = new Float64Array(0);
     const passes: CompareFit['fit']['weightPasses'] = [];
-    let sigma = noise.sigma;
+    // Pass 1 weights: per pixel the larger of the estimate from the smoothed data and the
+    // one from the model at the starting values (a solve the fit needs anyway). Starting
+    // near the model's weights saves a reweighting pass; taking the larger keeps a poor
+    // start from giving pixels with atoms but no model a weight they do not deserve.
     let start = initial;
+    const startSolution = await model.solveAt(Float64Array.from(initial.slice(0, physicsCount)));
+    const startSigma = modelNoiseSigma(render(startSolution, initial[physicsCount], initial[physicsCount + 1]), noise.backgroundSigma, noise.countsPerAtom);
+    let sigma: Float64Array = Float64Array.from(noise.sigma, (s, i) => Math.max(s, startSigma[i]));
     const options = lmOptions(request.maxIterations);
     for (let pass = 1; ; pass++) {
       const current = await replayLeastSquaresFit({ model: evaluate, modelSync: evaluateNow, data, sigma, initial: start, lower, upper }, options);
@@ -244,7 +230,7 @@ export async function runCompareFit(request: CompareFitRequest): Promise<Compare
       picture = render(best, current.best[physicsCount], current.best[physicsCount + 1]);
       const reported = Array.from(current.best);
       if (fitsAtoms) reported[0] = best.atoms;
-      passes.push({ weights: pass === 1 ? 'smoothed data' : 'previous best model', best: reported, reducedChiSquare: current.reducedChiSquare, solvesSoFar: model.evaluations });
+      passes.push({ weights: pass === 1 ? 'larger of smoothed data and model at the start' : 'previous best model', best: reported, reducedChiSquare: current.reducedChiSquare, solvesSoFar: model.evaluations });
       const moved = current.best.some((v, j) => Math.abs(v - start[j]) > 0.1 * (Number.isFinite(current.uncertaintyFromSigma[j]) ? current.uncertaintyFromSigma[j] : 0));
       if (pass >= maxWeightPasses || (pass > 1 && !moved)) break;
       sigma = modelNoiseSigma(picture, noise.backgroundSigma, noise.countsPerAtom);

@@ -8,7 +8,8 @@
 // and a floor of one count so that an empty noise-free pixel keeps a finite weight.
 // Those weights still carry the data's own fluctuations, which bias a weighted fit of
 // Poisson counts (measured here: kT low by 5 % at 100 counts per atom). So the fit is
-// repeated with weights from the previous best model instead (modelNoiseSigma):
+// repeated with weights from the previous best model instead (modelNoiseSigma; the first
+// pass already takes the larger of the data's and the starting model's, compareFit.ts):
 // iteratively reweighted least squares with var = model converges to the Poisson
 // maximum-likelihood estimate (McCullagh & Nelder, Generalized Linear Models, 2nd ed.
 // (1989), section 2.5), whose bias is of higher order.

@@ -10,7 +10,8 @@ import { loadScenario } from '../scenario/loadScenario.js';
 import { estimateMemoryBytes, resolveScenario, type ResolvedScenario } from '../scenario/resolveScenario.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
 import { ParameterError } from '../physics/parameterError.js';
-import { cameraOptics } from '../imaging/cameraOptics.js';
+import { cameraOptics, type CameraOptics } from '../imaging/cameraOptics.js';
+import type { CameraSettings } from '../scenario/imagingSchema.js';
 import { NMAX_CEILING } from './runRequest.js';
 
 export interface PreparedScenario {
@@ -48,10 +49,13 @@ export function prepareScenario(path: string, overrides: readonly string[] = [],
   return { scenario, raw, resolved };
 }
 
-/** Camera settings are checked against the lattice now, not after the solve. */
-function checkCamera(resolved: ResolvedScenario): void {
+/**
+ * The scenario's camera (or the default one) resolved against its lattice, before any
+ * field exists; a setting that does not fit the lattice is an InputError naming it.
+ */
+export function scenarioOptics(resolved: ResolvedScenario, camera: CameraSettings | undefined = resolved.scenario.camera): CameraOptics {
   try {
-    cameraOptics(
+    return cameraOptics(
       {
         name: resolved.scenario.name,
         shape: resolved.geometry.shape,
@@ -63,11 +67,16 @@ function checkCamera(resolved: ResolvedScenario): void {
         trapCentre: resolved.trapCentre,
         wannierWidthSites: null,
       },
-      resolved.scenario.camera,
+      camera,
     );
   } catch (err) {
     throw asInputError(err);
   }
+}
+
+/** Camera settings are checked against the lattice now, not after the solve. */
+function checkCamera(resolved: ResolvedScenario): void {
+  scenarioOptics(resolved);
 }
 
 /** A ParameterError names a scenario key (e.g. camera.psf): it becomes an InputError; anything else is a bug. */
