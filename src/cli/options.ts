@@ -9,6 +9,7 @@ import type { Command } from 'commander';
 import { InputError } from '../scenario/inputError.js';
 import { parseInteger, parseReal, type IntegerRange, type RealRange } from './numberText.js';
 import { MAX_REALISATIONS } from '../pipeline/ensemble/blockPlan.js';
+import { DEFAULT_BINS_PER_ATOM } from '../pipeline/ensemble/histogramBins.js';
 
 type Spec =
   | { flags: string; help: string; kind: 'integer'; range: IntegerRange }
@@ -107,7 +108,7 @@ export const OPTION_TABLE = {
     kind: 'choice',
     values: ['auto', 'realisations', 'lattice'],
   },
-  binsPerAtom: { flags: '--bins-per-atom <b>', help: 'histogram bins per atom per site (default 10)', kind: 'integer', range: { min: 1, max: 10_000 } },
+  binsPerAtom: { flags: '--bins-per-atom <b>', help: `histogram bins per atom per site (default ${DEFAULT_BINS_PER_ATOM})`, kind: 'integer', range: { min: 1, max: 10_000 } },
 } as const satisfies Record<string, Spec>;
 
 export type OptionName = keyof typeof OPTION_TABLE;
