@@ -29,7 +29,7 @@ describe('the option table', () => {
   });
 
   it('every option of every command comes from the table', () => {
-    const known = new Set(Object.values(OPTION_TABLE).map((spec) => spec.flags));
+    const known = new Set<string>(Object.values(OPTION_TABLE).map((spec) => spec.flags));
     const program = buildProgram({ exitCode: 0 });
     for (const command of program.commands) {
       for (const option of command.options) expect(known.has(option.flags), `${command.name()} ${option.flags}`).toBe(true);
