@@ -15,6 +15,10 @@ import { solveHomogeneous } from '../dist/solver/homogeneous.js';
 import { phaseMap } from '../dist/solver/phaseMap.js';
 
 const large = process.argv.includes('--large');
+// `npm run bench -- --only compare,ensemble` runs only the named sections.
+const onlyAt = process.argv.indexOf('--only');
+const only = onlyAt > 0 ? new Set(process.argv[onlyAt + 1].split(',')) : null;
+const want = (section) => only === null || only.has(section);
 const rows = [];
 const log = (section, label, value, unit, note = '') => {
   rows.push({ section, label, value, unit, note });
@@ -30,7 +34,7 @@ const now = () => performance.now();
 process.stdout.write(`tiercake benchmarks: node ${process.version}, ${availableParallelism()} cores (sweep rates: best of three blocks)\n\n`);
 
 // 1. Site problem throughput, nmax = 6 --------------------------------------------------
-{
+if (want('site')) {
   const ws = createSiteWorkspace(6);
   const out = createSiteObservables();
   const N = 2_000_000;
@@ -85,7 +89,7 @@ async function sweepRate(model, mu, temperature, threads, sweeps) {
   }
   return (sweeps * model.geometry.siteCount) / best;
 }
-{
+if (want('sweep')) {
   const cloud2d = trapped([256, 256], 0.01, 0.00004);
   const cloud3d = trapped([64, 64, 64], 0.008, 0.0012);
   const r2d0 = await sweepRate(cloud2d, 1.6, 0, 1, 20);
@@ -103,7 +107,7 @@ async function sweepRate(model, mu, temperature, threads, sweeps) {
 }
 
 // 3. Sweeps to converge ---------------------------------------------------------------
-{
+if (want('converge')) {
   const run = async (model, mu, accelerate, phi0, tolerance = 1e-8) => {
     const state = createSolverState(model, phi0 ?? initialOrderParameter(model, mu));
     const r = await solveLattice(model, state, createSweepExecutor(state, null, 1), { mode: { kind: 'mu', mu }, temperature: 0, tolerance, maxSweeps: 200000, accelerate });
@@ -147,7 +151,7 @@ async function wholeSolve(model, atoms, thermal, threads) {
   );
   return { seconds: (now() - t) / 1000, out };
 }
-{
+if (want('whole')) {
   const cloud = trapped([64, 64, 64], 0.0065, 0.0035);
   const z1 = await wholeSolve(cloud, 120000, { kind: 'temperature', kT: 0 }, 1);
   const z2 = await wholeSolve(cloud, 120000, { kind: 'temperature', kT: 0 }, 2);
@@ -165,7 +169,7 @@ async function wholeSolve(model, atoms, thermal, threads) {
 }
 
 // 5. Phase map ---------------------------------------------------------------------------
-{
+if (want('diagram')) {
   const t = now();
   phaseMap({ zJMax: 0.25, muMin: -0.2, muMax: 3, columns: 400, rows: 400, temperature: 0, nmax: 10, boundaryPoints: 400 });
   log('diagram', '400 x 400 homogeneous phase map, T = 0', (now() - t) / 1000, 's');
@@ -175,23 +179,73 @@ async function wholeSolve(model, atoms, thermal, threads) {
 }
 
 // 6. Disorder ensemble ----------------------------------------------------------------
-{
+if (want('ensemble')) {
   const { runEnsembleBench } = await import('./ensembleBench.mjs');
   const r = await runEnsembleBench({ realisations: 64 });
   log('ensemble', '64x64 speckle layer, 1 thread', r.oneThread.realisationsPerMinute, 'real./min');
   log('ensemble', '64x64 speckle layer, 2 threads (realisations side by side)', r.twoThreads.realisationsPerMinute, 'real./min', `x${r.speedUp.toFixed(2)}${r.identical ? '' : ' NOT IDENTICAL'}`);
 }
 
-// 7. Figures of a solve ---------------------------------------------------------------
-{
+// 7. Compare fit against one solve ---------------------------------------------------------
+if (want('compare')) {
+  const { mkdtempSync, writeFileSync, rmSync } = await import('node:fs');
+  const { tmpdir } = await import('node:os');
+  const { join } = await import('node:path');
+  const { prepareScenario } = await import('../dist/pipeline/prepareScenario.js');
+  const { solveScenario } = await import('../dist/pipeline/solveScenario.js');
+  const { solvePictures } = await import('../dist/pipeline/solvePictures.js');
+  const { runCompareFit } = await import('../dist/pipeline/compareFit.js');
+  const { decodeMeasuredImage } = await import('../dist/imaging/measuredImage.js');
+  const { encodeNpy } = await import('../dist/formats/npy.js');
+  const dir = mkdtempSync(join(tmpdir(), 'tiercake-bench-'));
+  const path = join(dir, 'layer84.json');
+  const countsPerAtom = 100;
+  writeFileSync(
+    path,
+    JSON.stringify({
+      name: 'layer84',
+      energyUnit: 'U',
+      lattice: { shape: [84, 84] },
+      hubbard: { hopping: 0.015 },
+      trap: { coefficient: 0.0015 },
+      particles: { atoms: 6000 },
+      truncation: { nmax: 6 },
+      camera: { cameraPixelUm: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom, seed: 'bench' } },
+    }),
+  );
+  // The measured image: one noisy exposure of the scenario itself, as counts in a .npy.
+  const truth = await solveScenario(prepareScenario(path), { threads: 1 });
+  const shot = solvePictures(truth).pictures.find((p) => p.name === 'in_situ_shot').picture;
+  const counts = Float64Array.from(shot.values, (v) => Math.round(v * countsPerAtom));
+  const measured = decodeMeasuredImage(encodeNpy(counts, [shot.nx, shot.ny]), 'shot.npy', { pixelUm: shot.pixelUm, countsPerAtom });
+  let solveBest = Infinity;
+  let fitBest = Infinity;
+  let fit;
+  // Best of five, solve and fit taken in turn: on a shared machine the minimum is the stable figure.
+  for (let rep = 0; rep < 5; rep++) {
+    let t = now();
+    await solveScenario(prepareScenario(path), { threads: 1 });
+    solveBest = Math.min(solveBest, (now() - t) / 1000);
+    t = now();
+    fit = await runCompareFit({ prepared: prepareScenario(path), measured, fit: ['atoms'], maxIterations: 30, threads: 1 });
+    fitBest = Math.min(fitBest, (now() - t) / 1000);
+  }
+  rmSync(dir, { recursive: true, force: true });
+  const atoms = fit.parameters.find((p) => p.name === 'atoms');
+  log('compare', '84x84 layer, one solve (fixed N = 6000, 1 thread)', solveBest, 's');
+  log('compare', '84x84 layer, fit of N and the centre to a noisy exposure', fitBest, 's', `ratio fit/solve ${(fitBest / solveBest).toFixed(2)}; ${fit.fit.solves} solves, ${fit.fit.sweeps} sweeps; N = ${atoms.best.toFixed(1)} ± ${atoms.uncertainty.toFixed(1)}`);
+}
+
+// 8. Figures of a solve ---------------------------------------------------------------
+if (want('figures')) {
   const { runFigureBench } = await import('./figureBench.mjs');
   for (const r of await runFigureBench()) {
     log('figures', `${r.name}: all ${r.images} images of a solve, SVG -> PNG`, r.milliseconds, 'ms', `${(r.pngBytes / 1024).toFixed(0)} KiB of PNG`);
   }
 }
 
-// 8. Time-of-flight pictures ----------------------------------------------------------
-{
+// 9. Time-of-flight pictures ----------------------------------------------------------
+if (want('tof')) {
   const { runTofBench } = await import('./tofBench.mjs');
   for (const r of await runTofBench()) {
     log('tof', `${r.name}: free expansion (${r.pixels} px, ${r.subSamples}^2 samples)`, r.freeExpansionMs, 'ms', `far field ${r.farFieldMs.toFixed(0)} ms, x${(r.freeExpansionMs / r.farFieldMs).toFixed(1)}`);

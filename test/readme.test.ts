@@ -24,7 +24,7 @@ describe('README', () => {
 describe('bundled scenarios', () => {
   it('every file in configs/ is a valid scenario', async () => {
     const { readdirSync } = await import('node:fs');
-    const { prepareScenario } = await import('../src/pipeline/solveScenario.js');
+    const { prepareScenario } = await import('../src/pipeline/prepareScenario.js');
     const dir = new URL('../configs/', import.meta.url);
     const files = readdirSync(dir).filter((f) => f.endsWith('.json'));
     expect(files.length).toBeGreaterThanOrEqual(4);

@@ -1,7 +1,15 @@
-// NumPy .npy format, version 1.0 (NumPy Enhancement Proposal 1, "A simple file format for
-// NumPy arrays"): magic "\x93NUMPY", version bytes, little-endian u16 header length, a
-// Python-dict header padded with spaces to a multiple of 64 bytes and ended by "\n",
-// then the raw data. We write float64 ('<f8'), int32 ('<i4') or uint8 ('|u1'), C order.
+// NumPy .npy format (NumPy Enhancement Proposal 1, "A simple file format for NumPy
+// arrays", and numpy.lib.format): magic "\x93NUMPY", major and minor version bytes, the
+// header length (little-endian u16 for version 1.0, u32 for 2.0 and 3.0), a Python-dict
+// header `{'descr': '<f8', 'fortran_order': False, 'shape': (2, 3), }` padded with spaces
+// and ended by "\n" (latin-1 for 1.0 and 2.0, UTF-8 for 3.0), then the raw data.
+// We write float64 ('<f8'), int32 ('<i4') or uint8 ('|u1'), C order, version 1.0.
+//
+// Reading validates the whole header before touching the data: magic, version, header
+// length within the file, the dict syntax (exactly the three keys, Python literals only),
+// a supported numeric dtype, fortran_order False, a shape of non-negative integers, and a
+// data section of exactly shape x itemsize bytes. Every problem is an NpyFormatError whose
+// message names the file, so a caller can turn it into an input error as it is.
 
 export type NpyArray = Float64Array | Int32Array | Uint8Array;
 
@@ -33,38 +41,198 @@ export function encodeNpy(data: NpyArray, shape: readonly number[]): Uint8Array 
   return out;
 }
 
+/** A .npy file that cannot be read; the message names the file and what is wrong. */
+export class NpyFormatError extends Error {
+  readonly file: string;
+  constructor(file: string, problem: string) {
+    super(`${file}: ${problem}`);
+    this.name = 'NpyFormatError';
+    this.file = file;
+  }
+}
+
+export interface NpyHeader {
+  /** format version [major, minor] */
+  version: [number, number];
+  /** dtype string as written, e.g. '<f8' */
+  descr: string;
+  /** byte order: true for little-endian (or single-byte types) */
+  littleEndian: boolean;
+  /** dtype kind and size, e.g. 'f8' */
+  kind: string;
+  itemSize: number;
+  shape: number[];
+  /** values in the array (product of the shape) */
+  count: number;
+  /** offset of the first data byte */
+  dataOffset: number;
+}
+
 export interface DecodedNpy {
   data: Float64Array;
   shape: number[];
 }
 
-/** Decode a C-order .npy of float64/float32/int/uint into float64 values. */
-export function decodeNpy(bytes: Uint8Array): DecodedNpy {
-  const magic = [0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59];
-  if (bytes.length < 10 || magic.some((m, i) => bytes[i] !== m)) throw new Error('not a .npy file (bad magic bytes)');
+const MAGIC = [0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59];
+const ITEM_SIZES: Record<string, number> = { f8: 8, f4: 4, i8: 8, u8: 8, i4: 4, u4: 4, i2: 2, u2: 2, i1: 1, u1: 1, b1: 1 };
+
+/** A tiny reader of the Python literals a header may hold: strings, True/False, tuples of integers. */
+class HeaderScanner {
+  private at = 0;
+  constructor(
+    private readonly text: string,
+    private readonly fail: (problem: string) => never,
+  ) {}
+
+  private space(): void {
+    while (this.at < this.text.length && /\s/.test(this.text[this.at])) this.at++;
+  }
+
+  peek(): string {
+    this.space();
+    return this.text[this.at] ?? '';
+  }
+
+  expect(c: string, what: string): void {
+    if (this.peek() !== c) this.fail(`the header dict is malformed: expected ${what} at character ${this.at + 1}`);
+    this.at++;
+  }
+
+  string(): string {
+    const quote = this.peek();
+    if (quote !== "'" && quote !== '"') this.fail(`the header dict is malformed: expected a quoted name at character ${this.at + 1}`);
+    const end = this.text.indexOf(quote, this.at + 1);
+    if (end < 0) this.fail('the header dict is malformed: a quoted name is not closed');
+    const value = this.text.slice(this.at + 1, end);
+    this.at = end + 1;
+    return value;
+  }
+
+  word(): string {
+    this.space();
+    const m = /^[A-Za-z_][A-Za-z0-9_]*/.exec(this.text.slice(this.at));
+    if (!m) this.fail(`the header dict is malformed: expected True or False at character ${this.at + 1}`);
+    this.at += m[0].length;
+    return m[0];
+  }
+
+  /** A Python tuple of integers: (), (3,), (2, 3) or (2, 3,). */
+  shape(): number[] {
+    this.expect('(', "'(' to open the shape");
+    const out: number[] = [];
+    for (;;) {
+      if (this.peek() === ')') {
+        this.at++;
+        break;
+      }
+      const m = /^[+-]?[0-9A-Za-z_.]+/.exec(this.text.slice(this.at));
+      const token = m ? m[0] : (this.text[this.at] ?? 'the end of the header');
+      if (!/^\d+$/.test(token)) this.fail(`the shape holds ${JSON.stringify(token)}; every axis length must be a non-negative integer`);
+      const n = Number(token);
+      if (!Number.isSafeInteger(n)) this.fail(`the axis length ${token} is too large`);
+      out.push(n);
+      this.at += token.length;
+      const next = this.peek();
+      if (next === ',') this.at++;
+      else if (next !== ')') this.fail(`the shape is malformed: expected ',' or ')' at character ${this.at + 1}`);
+    }
+    if (out.length === 1 && !/,\s*\)\s*$/.test(this.text.slice(0, this.at))) {
+      // (3) is the integer 3 in Python, not a tuple; numpy always writes (3,).
+      this.fail("the shape (n) is not a tuple; a one-axis shape is written (n,)");
+    }
+    return out;
+  }
+
+  done(): boolean {
+    this.space();
+    return this.at >= this.text.length;
+  }
+}
+
+/** Parse and check the header of a .npy file (see the file header); `file` names it in messages. */
+export function readNpyHeader(bytes: Uint8Array, file = '.npy file'): NpyHeader {
+  const fail = (problem: string): never => {
+    throw new NpyFormatError(file, problem);
+  };
+  if (bytes.length < 10 || MAGIC.some((m, i) => bytes[i] !== m)) fail('not a NumPy .npy file (it does not start with the bytes \\x93NUMPY)');
   const major = bytes[6];
-  const headerLength = major === 1 ? bytes[8] | (bytes[9] << 8) : bytes[8] | (bytes[9] << 8) | (bytes[10] << 16) | (bytes[11] << 24);
-  const start = major === 1 ? 10 : 12;
-  const header = new TextDecoder('latin1').decode(bytes.subarray(start, start + headerLength));
-  const descr = /'descr':\s*'([^']+)'/.exec(header)?.[1];
-  const fortran = /'fortran_order':\s*True/.test(header);
-  const shapeText = /'shape':\s*\(([^)]*)\)/.exec(header)?.[1];
-  if (!descr || shapeText === undefined) throw new Error('.npy header is missing descr or shape');
-  if (fortran) throw new Error('.npy in Fortran order is not supported; save with C order');
-  const shape = shapeText.split(',').map((s) => s.trim()).filter((s) => s.length > 0).map(Number);
-  const count = shape.reduce((a, b) => a * b, 1);
-  const offset = start + headerLength;
-  const view = new DataView(bytes.buffer, bytes.byteOffset + offset, bytes.byteLength - offset);
-  const little = descr[0] !== '>';
-  const kind = descr.slice(1);
-  const sizes: Record<string, number> = { f8: 8, f4: 4, i4: 4, u4: 4, i2: 2, u2: 2, i1: 1, u1: 1, i8: 8, u8: 8 };
-  const size = sizes[kind];
-  if (!size) throw new Error(`.npy dtype ${descr} is not supported (use float64, float32 or an integer type)`);
-  if (view.byteLength < count * size) throw new Error(`.npy data is truncated: expected ${count * size} bytes`);
-  const data = new Float64Array(count);
-  for (let i = 0; i < count; i++) {
+  const minor = bytes[7];
+  if (major !== 1 && major !== 2 && major !== 3) fail(`.npy format version ${major}.${minor} is not known (1.0, 2.0 and 3.0 are)`);
+  const lengthBytes = major === 1 ? 2 : 4;
+  const start = 8 + lengthBytes;
+  if (bytes.length < start) fail('the file ends inside the .npy preamble');
+  const headerLength = major === 1 ? bytes[8] | (bytes[9] << 8) : (bytes[8] | (bytes[9] << 8) | (bytes[10] << 16)) + bytes[11] * 2 ** 24;
+  if (start + headerLength > bytes.length) {
+    fail(`the .npy header length ${headerLength} runs past the end of the file (${bytes.length} bytes); the file is truncated or damaged`);
+  }
+  const headerBytes = bytes.subarray(start, start + headerLength);
+  let header: string;
+  try {
+    header = new TextDecoder(major === 3 ? 'utf-8' : 'latin1', { fatal: true }).decode(headerBytes);
+  } catch {
+    return fail('the .npy header is not valid UTF-8 text');
+  }
+  if (!header.endsWith('\n')) fail('the .npy header does not end with a newline; the file is damaged');
+
+  const scan = new HeaderScanner(header, fail);
+  const entries = new Map<string, unknown>();
+  scan.expect('{', "'{' to open the header dict");
+  for (;;) {
+    if (scan.peek() === '}') break;
+    const key = scan.string();
+    if (entries.has(key)) fail(`the header dict names '${key}' twice`);
+    scan.expect(':', "':' after a key");
+    if (key === 'descr') {
+      if (scan.peek() === '[') fail('structured dtypes (a list in descr) are not supported; save a plain numeric array');
+      entries.set(key, scan.string());
+    } else if (key === 'fortran_order') entries.set(key, scan.word());
+    else if (key === 'shape') entries.set(key, scan.shape());
+    else fail(`the header dict has the unknown key '${key}' (expected descr, fortran_order and shape)`);
+    const next = scan.peek();
+    if (next === ',') scan.expect(',', "','");
+    else if (next !== '}') fail("the header dict is malformed: expected ',' or '}' after a value");
+  }
+  scan.expect('}', "'}' to close the header dict");
+  if (!scan.done()) fail('the header has text after the closing }');
+  for (const key of ['descr', 'fortran_order', 'shape']) if (!entries.has(key)) fail(`the header dict has no '${key}'`);
+
+  const fortran = entries.get('fortran_order');
+  if (fortran === 'True') fail('the array is stored in Fortran order; save it in C order (numpy.ascontiguousarray) and try again');
+  if (fortran !== 'False') fail(`fortran_order is ${String(fortran)}; expected True or False`);
+
+  const descr = entries.get('descr') as string;
+  const m = /^([<>|=])([fiub])(\d+)$/.exec(descr);
+  const kind = m ? `${m[2]}${m[3]}` : '';
+  const itemSize = ITEM_SIZES[kind];
+  if (!m || itemSize === undefined) fail(`dtype ${JSON.stringify(descr)} is not supported (use float64, float32 or an integer type)`);
+  const order = (m as RegExpExecArray)[1];
+  if (order === '|' && itemSize !== 1) fail(`dtype ${JSON.stringify(descr)} has no byte order; multi-byte types need '<' or '>'`);
+
+  const shape = entries.get('shape') as number[];
+  let count = 1;
+  for (const n of shape) count *= n;
+  if (!Number.isSafeInteger(count * itemSize)) fail(`the shape (${shape.join(', ')}) is too large`);
+  const dataOffset = start + headerLength;
+  const dataBytes = bytes.length - dataOffset;
+  if (dataBytes !== count * itemSize) {
+    fail(
+      `the header's shape (${shape.join(', ')}) of ${descr} needs ${count * itemSize} data bytes, the file holds ${dataBytes}; ` +
+        `the file is ${dataBytes < count * itemSize ? 'truncated' : 'damaged'}`,
+    );
+  }
+  return { version: [major, minor], descr, littleEndian: order !== '>', kind, itemSize, shape, count, dataOffset };
+}
+
+/** Decode a C-order .npy of float64/float32/integers/bool into float64 values; `file` names it in messages. */
+export function decodeNpy(bytes: Uint8Array, file = '.npy file'): DecodedNpy {
+  const h = readNpyHeader(bytes, file);
+  const view = new DataView(bytes.buffer, bytes.byteOffset + h.dataOffset, h.count * h.itemSize);
+  const little = h.littleEndian;
+  const data = new Float64Array(h.count);
+  const size = h.itemSize;
+  for (let i = 0; i < h.count; i++) {
     const p = i * size;
-    switch (kind) {
+    switch (h.kind) {
       case 'f8': data[i] = view.getFloat64(p, little); break;
       case 'f4': data[i] = view.getFloat32(p, little); break;
       case 'i4': data[i] = view.getInt32(p, little); break;
@@ -72,10 +240,10 @@ export function decodeNpy(bytes: Uint8Array): DecodedNpy {
       case 'i2': data[i] = view.getInt16(p, little); break;
       case 'u2': data[i] = view.getUint16(p, little); break;
       case 'i1': data[i] = view.getInt8(p); break;
-      case 'u1': data[i] = view.getUint8(p); break;
+      case 'u1': case 'b1': data[i] = view.getUint8(p); break;
       case 'i8': data[i] = Number(view.getBigInt64(p, little)); break;
       case 'u8': data[i] = Number(view.getBigUint64(p, little)); break;
     }
   }
-  return { data, shape };
+  return { data, shape: h.shape };
 }

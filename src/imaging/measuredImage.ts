@@ -16,7 +16,7 @@
 // Orientation is applied after reading, in this order: mirror x -> -x (flipX), then
 // rotate counter-clockwise by rotateDeg as seen with x right and y up.
 
-import { decodeNpy } from '../formats/npy.js';
+import { decodeNpy, NpyFormatError } from '../formats/npy.js';
 import { decodePng, pngSignature } from '../formats/pngCodec.js';
 import type { PlanarField } from './planarField.js';
 import { ParameterError } from '../physics/parameterError.js';
@@ -117,9 +117,10 @@ export function decodeMeasuredImage(bytes: Uint8Array, fileName: string, options
   if (format === 'npy') {
     let decoded;
     try {
-      decoded = decodeNpy(bytes);
+      decoded = decodeNpy(bytes, fileName);
     } catch (err) {
-      throw new MeasuredImageError('--image', `${fileName}: ${(err as Error).message}`);
+      if (err instanceof NpyFormatError) throw new MeasuredImageError('--image', err.message);
+      throw err;
     }
     const axes = decoded.shape.filter((n) => n !== 1);
     if (decoded.shape.length < 1 || axes.length > 2) {
@@ -156,6 +157,13 @@ export function decodeMeasuredImage(bytes: Uint8Array, fileName: string, options
   for (let i = 0; i < raw.values.length; i++) if (!Number.isFinite(raw.values[i])) bad++;
   if (bad > 0) {
     throw new MeasuredImageError('--image', `${fileName} has ${bad} pixels that are NaN or infinite; replace them (e.g. by the background level) before comparing`);
+  }
+  // A frame in which every pixel has the same value (all zero: a dark frame, a blank
+  // export) holds no cloud to centre on or fit.
+  let constant = true;
+  for (let i = 1; i < raw.values.length && constant; i++) if (raw.values[i] !== raw.values[0]) constant = false;
+  if (constant) {
+    throw new MeasuredImageError('--image', `${fileName} holds no image: every pixel is ${raw.values[0]}; check that this is the exposure of the cloud`);
   }
   if (countsPerAtom !== 1) {
     const scaled = new Float64Array(raw.values.length);

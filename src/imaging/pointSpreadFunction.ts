@@ -157,13 +157,20 @@ export function gaussianBlur(image: PlanarField, options: GaussianBlurOptions): 
       }
     }
   } else {
+    // The folded index only differs from j + e within ry of an edge; away from the edges
+    // the plain index is used (the same additions in the same order, so the same bits).
     for (let p = 0; p < outNx; p++) {
       const rowIn = p * ny;
       const rowOut = p * outNy;
       for (let j = 0; j < ny; j++) {
         const v = tmp[rowIn + j];
         if (v === 0) continue;
-        for (let e = -ry; e <= ry; e++) values[rowOut + reflectIndex(j + e, ny)] += wy[e + ry] * v;
+        if (j >= ry && j + ry < ny) {
+          const base = rowOut + j - ry;
+          for (let e = 0; e <= 2 * ry; e++) values[base + e] += wy[e] * v;
+        } else {
+          for (let e = -ry; e <= ry; e++) values[rowOut + reflectIndex(j + e, ny)] += wy[e + ry] * v;
+        }
       }
     }
   }

@@ -15,24 +15,16 @@ import { sideBySideSvg } from '../figures/composeSvg.js';
 import type { HistogramSpec } from '../figures/plotSpec.js';
 import { phaseNames, PhaseCode } from '../observables/phaseCodes.js';
 import { inAllUnits } from '../scenario/resolveScenario.js';
-import type { Scenario } from '../scenario/scenarioSchema.js';
-import type { BlockPlan } from '../pipeline/ensemble/blockPlan.js';
 import type { EnsembleAccumulation } from '../pipeline/ensemble/blockPartial.js';
-import { binEdges, type HistogramBins } from '../pipeline/ensemble/histogramBins.js';
+import { binEdges } from '../pipeline/ensemble/histogramBins.js';
 import type { EnsembleStatistics } from '../pipeline/ensemble/ensembleStatistics.js';
 import type { EnsembleContext } from '../pipeline/ensemble/solveRealisation.js';
 import { centralPlane, figureImage, jsonReplacer, type WrittenImage } from './solveOutputs.js';
-import { seedRuleText } from './ensembleShard.js';
+import { seedRuleText, type EnsembleIdentity } from './ensembleShard.js';
 import { toolVersion } from './toolVersion.js';
 
 /** Everything the final files are made from. */
-export interface EnsembleOutcome {
-  scenario: Scenario;
-  scenarioHash: string;
-  baseSeed: string;
-  plan: BlockPlan;
-  bins: HistogramBins;
-  context: EnsembleContext;
+export interface EnsembleOutcome extends EnsembleIdentity {
   total: EnsembleAccumulation;
   stats: EnsembleStatistics;
   /** how the result was produced (not part of the reproducible content) */

@@ -15,15 +15,12 @@
 // back as the same double. That is what lets `tiercake merge` reproduce a single run bit
 // for bit (src/ensemble/blockPlan.ts).
 //
-// Scenario hash: SHA-256 (FIPS 180-4) of the validated scenario (defaults filled in,
-// overrides applied) written as JSON with object keys sorted, so key order in the file
-// does not matter but any change of a value does.
+// Scenario hash: scenarioHash() of src/scenario/scenarioHash.ts (the whole scenario).
 
-import { createHash } from 'node:crypto';
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import * as z from 'zod';
-import { decodeNpy, encodeNpy } from '../formats/npy.js';
+import { decodeNpy, encodeNpy, NpyFormatError } from '../formats/npy.js';
 import type { OutputFolder } from './outputFolder.js';
 import type { BlockPlan } from '../pipeline/ensemble/blockPlan.js';
 import { phaseCount, type BlockPartial } from '../pipeline/ensemble/blockPartial.js';
@@ -35,21 +32,6 @@ import { InputError } from '../scenario/inputError.js';
 export const SHARD_FORMAT = 'tiercake-ensemble-shard';
 export const SHARD_FORMAT_VERSION = 1;
 export const SHARD_HEADER_FILE = 'shard.json';
-
-function canonical(value: unknown): unknown {
-  if (Array.isArray(value)) return value.map(canonical);
-  if (value !== null && typeof value === 'object') {
-    const out: Record<string, unknown> = {};
-    for (const key of Object.keys(value as Record<string, unknown>).sort()) out[key] = canonical((value as Record<string, unknown>)[key]);
-    return out;
-  }
-  return value;
-}
-
-/** SHA-256 (hex) of the scenario written as JSON with sorted keys. */
-export function scenarioHash(scenario: Scenario): string {
-  return createHash('sha256').update(JSON.stringify(canonical(scenario))).digest('hex');
-}
 
 const RecordSchema = z.strictObject({
   index: z.int().min(0),
@@ -220,7 +202,7 @@ export function findShardFolders(paths: readonly string[]): string[] {
       continue;
     }
     const inner = readdirSync(p, { withFileTypes: true })
-      .filter((d) => d.isDirectory() && !d.name.startsWith('../cli') && existsSync(join(p, d.name, SHARD_HEADER_FILE)))
+      .filter((d) => d.isDirectory() && !d.name.startsWith('.') && existsSync(join(p, d.name, SHARD_HEADER_FILE)))
       .map((d) => join(p, d.name))
       .sort();
     if (inner.length === 0) {
@@ -248,18 +230,25 @@ export function readShardHeader(path: string): LoadedShard {
   const result = ShardHeaderSchema.safeParse(parsed);
   if (!result.success) {
     const first = result.error.issues[0];
-    throw new InputError(`merge ${JSON.stringify(file)}: not a tiercake ensemble shard header (${first.path.join('../cli') || 'top level'}: ${first.message})`);
+    throw new InputError(`merge ${JSON.stringify(file)}: not a tiercake ensemble shard header (${first.path.join('.') || 'top level'}: ${first.message})`);
   }
   return { path, header: result.data };
 }
 
 function readArray(path: string, file: string, expectedShape: readonly number[]): Float64Array {
   const full = join(path, file);
+  let bytes: Uint8Array;
+  try {
+    bytes = new Uint8Array(readFileSync(full));
+  } catch (err) {
+    throw new InputError(`merge ${JSON.stringify(full)}: cannot be read (${(err as NodeJS.ErrnoException).code ?? 'unknown error'}); the shard is incomplete, run it again`);
+  }
   let decoded;
   try {
-    decoded = decodeNpy(new Uint8Array(readFileSync(full)));
+    decoded = decodeNpy(bytes, JSON.stringify(full));
   } catch (err) {
-    throw new InputError(`merge ${JSON.stringify(full)}: ${(err as Error).message}; the shard is incomplete or damaged, run it again`);
+    if (err instanceof NpyFormatError) throw new InputError(`merge ${err.message}; the shard is damaged, run it again`);
+    throw err;
   }
   if (decoded.shape.length !== expectedShape.length || decoded.shape.some((n, k) => n !== expectedShape[k])) {
     throw new InputError(`merge ${JSON.stringify(full)}: shape (${decoded.shape.join(', ')}), expected (${expectedShape.join(', ')}); the shard does not match its header`);

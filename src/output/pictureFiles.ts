@@ -1,7 +1,7 @@
 // The files of one camera picture: the quantitative float image (.npy, atoms per pixel),
 // a 16-bit greyscale PNG with its scale in a JSON sidecar, and a colour PNG for viewing
 // (colour bar, scale bar, title). Writers only: the picture itself comes from
-// cameraOutputs.ts or compareCommand.ts.
+// the camera model (src/imaging/cameraPictures.ts) or the compare fit.
 //
 // Orientation, the same in every file: the .npy has shape (nx, ny) with axis 0 = image x
 // (the project's grid convention); both PNGs show x to the right and y upwards, so array
@@ -18,31 +18,8 @@ import { encodeNpy } from '../formats/npy.js';
 import { encodeGray16 } from '../formats/pngCodec.js';
 import { renderFieldMapSvg } from '../figures/fieldMapSvg.js';
 import { svgToPng } from '../figures/svgToPng.js';
-import type { PlanarField } from '../imaging/planarField.js';
+import type { LengthUnit, PixelPicture } from '../imaging/pixelPicture.js';
 import type { WrittenImage } from './solveOutputs.js';
-
-/** A picture on a regular pixel grid with its coordinates. */
-export interface PixelPicture extends PlanarField {
-  /** Pixel size in the plane the coordinates refer to (object plane, or the plane after the flight). */
-  pixelUm: number;
-  /** Pixel-centre coordinates along image axes 0 and 1. */
-  xCentresUm: Float64Array;
-  yCentresUm: Float64Array;
-}
-
-/** How lengths are labelled: micrometres, or lattice spacings in dimensionless mode. */
-export interface LengthUnit {
-  /** Short unit for axis labels, e.g. 'µm' or 'sites'. */
-  short: string;
-  /** Sentence for sidecars and summaries. */
-  note: string;
-}
-
-export const micrometres: LengthUnit = { short: 'µm', note: 'micrometres' };
-export const latticeSites: LengthUnit = {
-  short: 'sites',
-  note: 'lattice spacings (dimensionless mode: no lattice spacing is known, so 1 site = 1 length unit)',
-};
 
 export interface PictureDescription {
   /** File stem under images/, e.g. 'in_situ'. */

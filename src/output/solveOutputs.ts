@@ -1,6 +1,6 @@
 // Files of a `solve` run: summary.json, fields/*.npy, profiles.csv, images/*.png and
 // report.html, all staged in an OutputFolder and committed together. Writers take the
-// plain results of solveRun.ts and compute no physics.
+// plain results of src/pipeline/solveScenario.ts and compute no physics.
 
 import { encodeNpy } from '../formats/npy.js';
 import { toCsv } from '../formats/csv.js';
@@ -14,7 +14,7 @@ import { inAllUnits } from '../scenario/resolveScenario.js';
 import { phaseNames } from '../observables/phaseCodes.js';
 import type { SolveArtifacts } from '../pipeline/solveScenario.js';
 import { toolVersion } from './toolVersion.js';
-import { cameraPictures, cloudForImaging } from './cameraOutputs.js';
+import type { CameraPictureFiles } from './cameraOutputs.js';
 
 export interface WrittenImage {
   file: string;
@@ -288,6 +288,7 @@ function scaleBarFor(extentUm: number): { length: number; label: string } {
 /** Stage every file of a solve run in `folder` (the caller commits it). */
 export function writeSolveFiles(
   a: SolveArtifacts,
+  camera: CameraPictureFiles,
   folder: OutputFolder,
   reportHtml: (images: WrittenImage[], imaging: Record<string, unknown>) => string,
 ): string[] {
@@ -304,7 +305,6 @@ export function writeSolveFiles(
     files.push(img.file);
   }
   // Camera pictures (in situ, parity, time of flight): .npy + 16-bit PNG + sidecar + colour PNG.
-  const camera = cameraPictures(cloudForImaging(a), a.scenario.camera, a.scenario.timeOfFlight);
   for (const f of camera.arrays) {
     folder.write(f.file, f.bytes);
     files.push(f.file);

@@ -1,38 +1,44 @@
-// The `solve` pipeline without the command-line parsing: scenario -> model -> parallel
-// solve -> per-site fields, phases, shells and profiles. Returns plain data that the
-// writers (solveOutputs.ts) turn into files. Nothing here prints.
+// Stage 2 of `solve`: a prepared scenario (prepareScenario.ts) -> parallel lattice solve
+// (runLattice, with the request every command shares, runRequest.ts) -> per-site fields,
+// phases, shells and radial profiles. Returns plain data that the writers
+// (src/output/solveOutputs.ts) turn into files. Nothing here prints, writes or reads the
+// clock: progress goes to the observer, timings to an injected clock.
 
-import { availableParallelism, totalmem } from 'node:os';
-import { dirname } from 'node:path';
-import { InputError } from '../scenario/inputError.js';
-import { loadScenario } from '../scenario/loadScenario.js';
-import { estimateMemoryBytes, resolveScenario, type ResolvedScenario } from '../scenario/resolveScenario.js';
-import type { Scenario } from '../scenario/scenarioSchema.js';
 import { runLattice, type RunOutcome, type RunProgress } from '../solver/runLattice.js';
 import { createSweepExecutor, createSweepPool, type SweepPool } from '../solver/sweepExecutor.js';
 import { siteFieldsOf, type SiteFields } from '../observables/siteFields.js';
 import type { SiteClassification } from '../observables/siteClassification.js';
-import { classifyOutcome, NMAX_CEILING, runRequestOf } from './runRequest.js';
+import { classifyOutcome, runRequestOf } from './runRequest.js';
 import { scaledRadii, shellSummary, type ShellSummary } from '../observables/shellSummary.js';
 import { radialProfile, type RadialProfile } from '../observables/radialProfile.js';
+import type { PreparedScenario } from './prepareScenario.js';
+import type { ResolvedScenario } from '../scenario/resolveScenario.js';
+import type { Scenario } from '../scenario/scenarioSchema.js';
 
 /** Below this many sites the worker round trips cost more than they save. */
 export const PARALLEL_MIN_SITES = 8192;
 
+/** Where the sweep workers' module lives (tests pass the TypeScript source and a loader). */
+export interface WorkerModule {
+  filename: string;
+  execArgv?: string[];
+}
 
-export interface SolveRunOptions {
-  scenarioPath: string;
-  overrides: string[];
+export interface SolveOptions {
+  /** compute threads, the calling thread included */
   threads: number;
+  /** progress after each sweep; 'stop' interrupts (the outcome says stopped) */
   observer?: (p: RunProgress) => void | 'stop';
-  /** starting order parameter (resume) */
-  initialPhi?: Float64Array;
-  /** worker module override (tests) */
-  pool?: { filename: string; execArgv: string[] };
-  /** an already prepared scenario (skips loading it again) */
-  prepared?: { scenario: Scenario; raw: Record<string, unknown>; resolved: ResolvedScenario };
-  /** continue from an interrupted run */
+  /** a sweep pool owned by the caller (kept alive); by default one is made and destroyed here */
+  sweepPool?: SweepPool;
+  /** worker module override for the pool made here (tests) */
+  workerModule?: WorkerModule;
+  /** continue from an interrupted run (checkpoint) */
   resume?: { phi: Float64Array; mu: number; nmax: number };
+  /** milliseconds of some monotonic clock, for the timings in the summary; default: no timings (0) */
+  clock?: () => number;
+  /** seconds the caller spent preparing the scenario, echoed in the timings */
+  prepareSeconds?: number;
 }
 
 export interface SolveArtifacts {
@@ -51,89 +57,35 @@ export interface SolveArtifacts {
   timings: { resolveSeconds: number; solveSeconds: number; analysisSeconds: number };
 }
 
-export function parseThreads(text: string | undefined): number {
-  if (text === undefined) return Math.max(1, Math.min(availableParallelism(), 64));
-  const n = Number(text);
-  if (!Number.isInteger(n) || n < 1 || n > 256) throw new InputError(`--threads: expected a whole number from 1 to 256, got ${JSON.stringify(text)}`);
-  return n;
+/** Threads a lattice of this size uses: below PARALLEL_MIN_SITES one. */
+export function threadsFor(siteCount: number, threads: number): number {
+  return siteCount >= PARALLEL_MIN_SITES ? Math.max(1, threads) : 1;
 }
 
-/** Validate, resolve and refuse what cannot run; allocates only the model arrays. */
-export function prepareScenario(path: string, overrides: readonly string[]): { scenario: Scenario; raw: Record<string, unknown>; resolved: ResolvedScenario } {
-  const { scenario, raw } = loadScenario(path, overrides);
-  const sites = scenario.lattice.shape.reduce((a, b) => a * b, 1);
-  const t = scenario.temperature;
-  const thermal = (t.kT ?? 0) > 0 || (t.nanokelvin ?? 0) > 0 || (t.entropyPerAtom ?? 0) > 0;
-  const bytes = estimateMemoryBytes(sites, true, thermal, scenario.truncation.nmax);
-  const limit = 0.6 * totalmem();
-  if (bytes > limit) {
-    throw new InputError(
-      `lattice.shape: ${scenario.lattice.shape.join(' x ')} = ${sites} sites needs about ${(bytes / 2 ** 30).toFixed(1)} GiB, ` +
-        `more than the ${(limit / 2 ** 30).toFixed(1)} GiB this machine can spare; use a smaller lattice`,
-    );
-  }
-  const resolved = resolveScenario(scenario, { scenarioDirectory: dirname(path) });
-  checkPhysicalConsistency(resolved);
-  return { scenario, raw, resolved };
-}
-
-/** Inputs that validate but cannot give a meaningful answer. */
-function checkPhysicalConsistency(resolved: ResolvedScenario): void {
-  const { scenario, model, chemical } = resolved;
-  const nmax = scenario.truncation.nmax;
-  if (chemical.kind === 'atoms') {
-    const capacity = model.geometry.siteCount * nmax;
-    if (chemical.atoms >= capacity) {
-      throw new InputError(
-        `particles.atoms: ${chemical.atoms} atoms cannot fit on ${model.geometry.siteCount} sites with at most nmax = ${nmax} per site; ` +
-          `raise truncation.nmax or enlarge lattice.shape`,
-      );
-    }
-  } else {
-    const u = typeof model.interactionU === 'number' ? model.interactionU : Math.min(...model.interactionU);
-    let minEps = Infinity;
-    for (let i = 0; i < model.eps.length; i++) if (model.eps[i] < minEps) minEps = model.eps[i];
-    const expectedFilling = Math.ceil((chemical.mu - minEps) / u);
-    const ceiling = Math.max(nmax, NMAX_CEILING);
-    if (expectedFilling >= 60) {
-      throw new InputError(
-        `particles.chemicalPotential: gives about ${expectedFilling} atoms per site at the trap centre, beyond what a Gutzwiller ` +
-          `truncation can hold (nmax <= 60); lower particles.chemicalPotential`,
-      );
-    }
-    if (expectedFilling >= ceiling && scenario.truncation.automatic) {
-      throw new InputError(
-        `truncation.nmax: the chemical potential gives about ${expectedFilling} atoms per site at the trap centre, above the ` +
-          `automatic limit nmax = ${ceiling}; set truncation.nmax to at least ${expectedFilling + 3}`,
-      );
-    }
-    if (expectedFilling >= nmax && !scenario.truncation.automatic) {
-      throw new InputError(
-        `truncation.nmax: the chemical potential gives about ${expectedFilling} atoms per site at the trap centre, ` +
-          `but nmax = ${nmax}; raise truncation.nmax above ${expectedFilling} or set truncation.automatic to true`,
-      );
-    }
-  }
-}
-
-function trapAxisScale(coefficients: readonly number[]): number[] {
+/** Per-axis factors that make the trap round: sqrt(k_d / k_ref), 1 on untrapped axes. */
+export function trapAxisScale(coefficients: readonly number[]): number[] {
   const nonZero = coefficients.filter((k) => k > 0);
   if (nonZero.length === 0) return coefficients.map(() => 1);
   const reference = coefficients[0] > 0 ? coefficients[0] : nonZero[0];
   return coefficients.map((k) => (k > 0 ? Math.sqrt(k / reference) : 1));
 }
 
-export async function solveScenario(options: SolveRunOptions): Promise<SolveArtifacts> {
-  const t0 = performance.now();
-  const { scenario, raw, resolved } = options.prepared ?? prepareScenario(options.scenarioPath, options.overrides);
-  const t1 = performance.now();
+export async function solveScenario(prepared: PreparedScenario, options: SolveOptions): Promise<SolveArtifacts> {
+  const clock = options.clock ?? (() => 0);
+  const { scenario, raw, resolved } = prepared;
+  const t1 = clock();
   const model = options.resume ? { ...resolved.model, nmax: options.resume.nmax } : resolved.model;
   const chemical =
     options.resume && resolved.chemical.kind === 'atoms' ? { ...resolved.chemical, muGuess: options.resume.mu } : resolved.chemical;
-  const threads = model.geometry.siteCount >= PARALLEL_MIN_SITES ? options.threads : 1;
+  const threads = threadsFor(model.geometry.siteCount, options.threads);
+  let ownPool: SweepPool | null = null;
   let pool: SweepPool | null = null;
   if (threads > 1) {
-    pool = createSweepPool({ workers: threads - 1, ...(options.pool ? { filename: options.pool.filename, execArgv: options.pool.execArgv } : {}) });
+    pool = options.sweepPool ?? null;
+    if (pool === null) {
+      ownPool = createSweepPool({ workers: threads - 1, ...(options.workerModule ?? {}) });
+      pool = ownPool;
+    }
   }
   let outcome: RunOutcome;
   try {
@@ -142,15 +94,14 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
         ...runRequestOf(resolved, options.observer),
         model,
         chemical,
-        ...(options.initialPhi ? { initialPhi: options.initialPhi } : {}),
         ...(options.resume ? { initialPhi: options.resume.phi } : {}),
       },
       (state) => createSweepExecutor(state, pool, threads),
     );
   } finally {
-    if (pool) await pool.destroy();
+    if (ownPool) await ownPool.destroy();
   }
-  const t2 = performance.now();
+  const t2 = clock();
   const fields = siteFieldsOf(outcome.state, outcome.compressibility);
   const geometry = model.geometry;
   const classification = classifyOutcome(resolved, outcome, fields);
@@ -173,7 +124,7 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
       localChemicalPotential: { mu: outcome.solve.mu, siteEnergy: fields.sitePotential },
     },
   );
-  const t3 = performance.now();
+  const t3 = clock();
   return {
     scenario,
     raw,
@@ -186,6 +137,6 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
     shells,
     profile,
     threadsUsed: threads,
-    timings: { resolveSeconds: (t1 - t0) / 1000, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000 },
+    timings: { resolveSeconds: options.prepareSeconds ?? 0, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000 },
   };
 }

@@ -65,13 +65,24 @@ function wordAt(text: string, offset: number): string {
   return m ? m[0] : (text[offset] ?? '');
 }
 
+export interface JsonScanOptions {
+  /**
+   * Also report a key that appears twice in the same group. RFC 8259 (section 4) only says
+   * names SHOULD be unique, and JSON.parse keeps the last value silently; in a scenario a
+   * second "particles" group would quietly replace the first, so the loader refuses it.
+   */
+  refuseDuplicateKeys?: boolean;
+}
+
 /**
  * Scans `text` against the JSON grammar (RFC 8259) and returns the first problem, or null
  * when the text is valid JSON. Iterative, so any nesting depth is safe.
  */
-export function locateJsonProblem(text: string): JsonProblem | null {
+export function locateJsonProblem(text: string, options: JsonScanOptions = {}): JsonProblem | null {
   const n = text.length;
   const stack: Array<'{' | '['> = [];
+  /** keys seen so far in each open group (with their offsets), innermost last */
+  const keysSeen: Array<Map<string, number>> = [];
   type Want = 'value' | 'firstValue' | 'key' | 'firstKey' | 'colon' | 'next';
   let want: Want = 'value';
   let lastComma = -1;
@@ -132,6 +143,7 @@ export function locateJsonProblem(text: string): JsonProblem | null {
         if (c === ',') return problem(i, "a value is missing before ','");
         if (c === '{') {
           stack.push('{');
+          keysSeen.push(new Map());
           i++;
           want = 'firstKey';
           break;
@@ -180,13 +192,29 @@ export function locateJsonProblem(text: string): JsonProblem | null {
         if (c === '}') {
           if (want === 'key') return problem(lastComma, "a comma before '}' with nothing after it; remove that comma");
           stack.pop();
+          keysSeen.pop();
           i++;
           want = 'next';
           break;
         }
         if (c === '"') {
+          const keyStart = i;
           const p = scanString();
           if (p) return p;
+          if (options.refuseDuplicateKeys) {
+            const key = JSON.parse(text.slice(keyStart, i)) as string;
+            const seen = keysSeen[keysSeen.length - 1];
+            const first = seen.get(key);
+            if (first !== undefined) {
+              const at = lineAndColumn(text, first);
+              return problem(
+                keyStart,
+                `the key "${shorten(printable(key), 30)}" appears a second time in the same group (first at line ${at.line}); ` +
+                  'JSON keeps only the last one, so remove or merge the duplicate',
+              );
+            }
+            seen.set(key, keyStart);
+          }
           want = 'colon';
           break;
         }
@@ -210,6 +238,7 @@ export function locateJsonProblem(text: string): JsonProblem | null {
         }
         if (c === closer(open)) {
           stack.pop();
+          if (open === '{') keysSeen.pop();
           i++;
           want = 'next';
           break;
@@ -273,6 +302,11 @@ export function parseScenarioJson(text: string, source: string): Record<string, 
     throw new InputError(`${source}: expected a JSON object {...} describing a scenario, got ${got}`);
   }
   refuseDeepNesting(value, source);
+  const duplicate = locateJsonProblem(text, { refuseDuplicateKeys: true });
+  if (duplicate) {
+    const { line, column } = lineAndColumn(text, duplicate.offset);
+    throw new InputError(`${source}: line ${line}, column ${column}: ${duplicate.problem}`);
+  }
   return value as Record<string, unknown>;
 }
 
@@ -368,8 +402,20 @@ function parseOverrideValue(text: string, item: string): unknown {
   try {
     value = JSON.parse(text);
   } catch {
+    // A value that starts like a list, a group or a quoted text was meant as JSON: say
+    // where it breaks instead of passing it on as a plain text the schema then refuses.
+    if (/^[[{"]/.test(trimmed)) {
+      const found = locateJsonProblem(trimmed);
+      const problem = found ? found.problem.replace(/^the file ends/, 'the value ends').replace(/; is it cut short\?$/, '') : '';
+      const where = found ? ` at character ${found.offset + 1} (${problem})` : '';
+      throw new InputError(
+        `--set ${quoted(item)}: the value is not valid JSON${where}; write a list like [4, 4], a group like {"atoms": 5000} or a text in double quotes`,
+      );
+    }
     return text;
   }
+  const duplicate = locateJsonProblem(text, { refuseDuplicateKeys: true });
+  if (duplicate) throw new InputError(`--set ${quoted(item)}: ${duplicate.problem}`);
   if (typeof value === 'number' && !Number.isFinite(value)) {
     throw new InputError(`--set ${quoted(item)}: ${shorten(trimmed, 40)} is too large to represent; give a finite number`);
   }

@@ -9,6 +9,7 @@ import type { LatticeModel } from '../lattice/latticeModel.js';
 import type { ChemicalPotentialMode } from '../solver/latticeSolve.js';
 import type { ThermalMode } from '../solver/runLattice.js';
 import { InputError } from './inputError.js';
+import { ParameterError } from '../physics/parameterError.js';
 import type { Scenario } from './scenarioSchema.js';
 import { resolveLaboratory, type LaboratoryParameters } from './resolveLaboratory.js';
 import { boxDisorder } from '../lattice/boxDisorder.js';
@@ -74,12 +75,8 @@ export function resolveScenario(scenario: Scenario, options: ResolveOptions = {}
   const periodic = (Array.isArray(boundary) ? (boundary.length === 1 ? Array(dims).fill(boundary[0]) : boundary) : Array(dims).fill(boundary)).map(
     (b: string) => b === 'periodic',
   );
-  let geometry: LatticeGeometry;
-  try {
-    geometry = createLatticeGeometry(scenario.lattice.shape, periodic);
-  } catch (err) {
-    throw new InputError((err as Error).message);
-  }
+  // The schema has checked the shape and the periodic axes: a failure here is a bug, not input.
+  const geometry: LatticeGeometry = createLatticeGeometry(scenario.lattice.shape, periodic);
 
   let units: EnergyUnits;
   let hopping: Array<number | Float64Array>;
@@ -205,9 +202,25 @@ function disorderField(
       seed: d.seed,
     });
   } catch (err) {
-    if (err instanceof InputError) throw err;
-    throw new InputError(`disorder: ${(err as Error).message}`);
+    throw disorderInputError(err);
   }
+}
+
+/** Scenario keys of the disorder generators' parameters, where the names differ. */
+const disorderKeyOf: Record<string, string> = { widthW: 'width' };
+
+/**
+ * The disorder generators check their parameters and throw a RangeError that starts with
+ * the generator and the parameter ("speckle grainSites: ..."). Those (and ParameterErrors)
+ * are values from the scenario the schema cannot judge alone: report them as input errors
+ * naming the disorder key. Anything else is a bug and stays what it is.
+ */
+function disorderInputError(err: unknown): unknown {
+  if (err instanceof ParameterError) return new InputError(`disorder.${err.parameter}: ${err.message.slice(err.parameter.length + 2)}`);
+  if (!(err instanceof RangeError)) return err;
+  const m = /^(?:speckle|boxDisorder) ([A-Za-z]+)(\[\d+\])?: ([^]*)$/.exec(err.message);
+  if (!m) return err;
+  return new InputError(`disorder.${disorderKeyOf[m[1]] ?? m[1]}${m[2] ?? ''}: ${m[3]}`);
 }
 
 /** Converts an energy written in the scenario's unit into the internal unit. */

@@ -27,7 +27,23 @@ export interface RunRequest {
   compressibility: boolean;
   /** starting order parameter (e.g. from a checkpoint); default: atomic-limit guess */
   initialPhi?: Float64Array;
+  /**
+   * The solver state of an earlier run of the same model (a fit evaluates one model many
+   * times): reused, with its eigenvalue bounds, when the truncation and the thermal storage
+   * match; its phi is replaced by initialPhi (or the atomic-limit guess).
+   */
+  warm?: WarmState;
   observer?: (progress: RunProgress) => void | 'stop';
+}
+
+/** A solver state and its executor kept between runs of one model (RunOutcome.warm). */
+export interface WarmState {
+  state: SolverState;
+  executor: SweepExecutor;
+  /** the site potential the state was made for (the model's eps array itself) */
+  eps: Float64Array;
+  /** chemical potential of the last relaxation on the state */
+  mu: number;
 }
 
 export interface RunProgress extends SolveProgress {
@@ -57,6 +73,8 @@ export interface RunOutcome {
   converged: boolean;
   stopped: boolean;
   totalSweeps: number;
+  /** the state of this run, for RunRequest.warm of a later run of the same model */
+  warm: WarmState;
 }
 
 export type ExecutorFactory = (state: SolverState) => SweepExecutor;
@@ -74,8 +92,32 @@ export async function runLattice(request: RunRequest, makeExecutor: ExecutorFact
   for (;;) {
     tried.push(model.nmax);
     const thermal = request.thermal.kind === 'entropy' || request.thermal.kT > 0;
-    const state = createSolverState(model, phiStart, { thermal });
-    const executor = makeExecutor(state);
+    const warm = request.warm;
+    let state: SolverState;
+    let executor: SweepExecutor;
+    if (
+      warm !== undefined &&
+      warm.eps === model.eps &&
+      warm.state.layout.nmax === model.nmax &&
+      (warm.state.fields.spectrum !== null) === thermal &&
+      warm.state.fields.phi.length === phiStart.length
+    ) {
+      state = warm.state;
+      executor = warm.executor;
+      state.fields.phi.set(phiStart);
+      // The stored bounds hold at the last mu; a change of mu widens them (Weyl), an
+      // unknown first mu (a fixed-N search without a guess) drops them.
+      const firstMu = request.chemical.kind === 'mu' ? request.chemical.mu : request.chemical.muGuess;
+      if (firstMu === undefined) {
+        state.fields.lowerEnergy.fill(NaN);
+        state.fields.spectrum?.fill(NaN);
+      } else {
+        shiftLowerBounds(state, firstMu - warm.mu);
+      }
+    } else {
+      state = createSolverState(model, phiStart, { thermal });
+      executor = makeExecutor(state);
+    }
     const stageObserver = (stage: RunProgress['stage'], temperature: number) => (p: SolveProgress) =>
       request.observer?.({ ...p, stage, nmax: model.nmax, temperature, totalSweeps: sweepsUsed + p.totalSweeps });
 
@@ -172,6 +214,7 @@ export async function runLattice(request: RunRequest, makeExecutor: ExecutorFact
       converged: solve.converged && truncationOk && (temperatureSearch?.converged ?? true),
       stopped: solve.stopped,
       totalSweeps: sweepsUsed,
+      warm: { state, executor, eps: model.eps, mu: solve.mu },
     };
   }
 }

@@ -44,6 +44,7 @@ export function createSweepPool(options: PoolOptions): SweepPool {
   return pool;
 }
 
+/** Layouts made in this thread; workers belong to the pools of this process, so a count is unique. */
 let layoutCounter = 0;
 
 /** Contiguous, nearly equal row ranges. */
@@ -63,7 +64,7 @@ export function createSweepExecutor(state: SolverState, pool: SweepPool | null, 
   const rowCount = state.layout.inner[0] * state.layout.inner[1];
   const useThreads = pool === null ? 1 : Math.max(1, Math.min(threads, rowCount));
   const ranges = rowRanges(rowCount, useThreads);
-  const layoutId = `${process.pid}-${++layoutCounter}`;
+  const layoutId = `layout-${++layoutCounter}`;
 
   if (useThreads === 1 || pool === null) {
     return {

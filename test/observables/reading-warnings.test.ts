@@ -15,6 +15,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { solveScenario, type SolveArtifacts } from '../../src/pipeline/solveScenario.js';
+import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { fractionOfAtoms, readingWarnings, readingWarningsOfSolve, threeDigits } from '../../src/observables/readingWarnings.js';
 import { resolveScenario } from '../../src/scenario/resolveScenario.js';
 import { loadScenario } from '../../src/scenario/loadScenario.js';
@@ -40,7 +41,7 @@ function warningsOf(a: SolveArtifacts) {
   );
 }
 
-const solve = (path: string, overrides: string[] = []) => solveScenario({ scenarioPath: path, overrides, threads: 1 });
+const solve = (path: string, overrides: string[] = []) => solveScenario(prepareScenario(path, overrides), { threads: 1 });
 
 describe('cloud-at-edge', () => {
   // 3D, small J: mu = 1.3 U, trap 0.02 U per site^2: the cloud edge (mu_loc = -zJ) lies at

@@ -1,4 +1,5 @@
-// Camera pictures written with every solve (src/cli/cameraOutputs.ts): atom number
+// Camera pictures written with every solve (src/imaging/cameraPictures.ts, written by
+// src/output/cameraOutputs.ts): atom number
 // conservation, the 16-bit PNG + sidecar scale, the parity-projected wedding cake, and
 // the time-of-flight picture and visibility. Each check names its outside reference.
 
@@ -7,8 +8,14 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PNG } from 'pngjs';
-import { cameraPictures, cloudForImaging, type CloudForImaging } from '../../src/output/cameraOutputs.js';
+import { cameraPictureFiles } from '../../src/output/cameraOutputs.js';
+import { cameraPictures as cameraPictureSet } from '../../src/imaging/cameraPictures.js';
+import type { CloudForImaging } from '../../src/imaging/cameraOptics.js';
+import type { CameraSettings, TimeOfFlightSettings } from '../../src/scenario/imagingSchema.js';
+import { cloudForImaging } from '../../src/pipeline/solvePictures.js';
+import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { solveScenario } from '../../src/pipeline/solveScenario.js';
+import { ParameterError } from '../../src/physics/parameterError.js';
 import { CameraSchema, TimeOfFlightSchema } from '../../src/scenario/imagingSchema.js';
 import { decodeNpy } from '../../src/formats/npy.js';
 import { seededRandom } from '../../src/numerics/seededRandom.js';
@@ -42,6 +49,11 @@ function syntheticCloud(shape: number[], seed: string, extra: Partial<CloudForIm
     wannierWidthSites: null,
     ...extra,
   };
+}
+
+/** The pictures of a cloud as the files a solve writes. */
+function cameraPictures(cloud: CloudForImaging, camera?: CameraSettings, tof?: TimeOfFlightSettings) {
+  return cameraPictureFiles(cameraPictureSet(cloud, camera, tof));
 }
 
 function arrayOf(pictures: ReturnType<typeof cameraPictures>, file: string): Uint8Array {
@@ -164,7 +176,7 @@ describe('parity-projected wedding cake', () => {
         truncation: { nmax: 5 },
       }),
     );
-    const solved = await solveScenario({ scenarioPath: path, overrides: ['solver.compressibility=false'], threads: 1 });
+    const solved = await solveScenario(prepareScenario(path, ['solver.compressibility=false']), { threads: 1 });
     // One pixel per site, no blur: pixel (i + 1, j + 1) is site (i, j) (one-pixel margin).
     const camera = CameraSchema.parse({ cameraPixelUm: 1, psf: { sigmaSites: 0 } });
     const pictures = cameraPictures(cloudForImaging(solved), camera);
@@ -267,7 +279,15 @@ describe('time of flight and visibility', () => {
   it('refuses a PSF from wavelength and NA in dimensionless mode, naming the setting', () => {
     const cloud = syntheticCloud([8, 8], 'psf');
     const camera = CameraSchema.parse({ psf: { wavelengthNm: 780, numericalAperture: 0.7 } });
-    expect(() => cameraPictures(cloud, camera)).toThrow(InputError);
+    expect(() => cameraPictures(cloud, camera)).toThrow(ParameterError);
     expect(() => cameraPictures(cloud, camera)).toThrow(/camera\.psf/);
+    // In a scenario the same setting is an input error, found before anything is solved.
+    const path = join(workDir, 'psf-optics.json');
+    writeFileSync(
+      path,
+      JSON.stringify({ name: 'psf-optics', energyUnit: 'U', lattice: { shape: [8, 8] }, hubbard: { hopping: 0.02 }, particles: { chemicalPotential: 0.5 }, camera: { psf: { wavelengthNm: 780, numericalAperture: 0.7 } } }),
+    );
+    expect(() => prepareScenario(path)).toThrow(InputError);
+    expect(() => prepareScenario(path)).toThrow(/camera\.psf/);
   });
 });

@@ -2,7 +2,6 @@
 // experiment, the deep-lattice formula for U, harmonic-oscillator limits, unit conversions,
 // the trap and envelope confinement, the species table and the optional dipole estimate.
 import { describe, expect, it } from 'vitest';
-import { depthRangeEr, formatHubbardTable, hubbardCsv, hubbardTable } from '../../src/pipeline/hubbardTable.js';
 import { latticeBand1d, meanBandEnergyEr } from '../../src/physics/bandStructure.js';
 import { envelopeTrapFrequencyHz, localDepthEr } from '../../src/physics/beamEnvelope.js';
 import { atomicUnitPolarisabilitySI, speedOfLightMPerS, vacuumPermittivityFPerM } from '../../src/physics/constants.js';
@@ -339,45 +338,5 @@ describe('lattice depth from laser power (estimate, Grimm et al. 2000)', () => {
     expect(laserSafetyCaution).toMatch(/Kapitza-Dirac/);
     expect(() => estimateLatticeDepth({ species: '174Yb', wavelengthNm: 1064, powerW: 1, waistUm: 100 })).toThrow(/D-line/);
     expect(() => estimateLatticeDepth({ species: '87Rb', wavelengthNm: 780.3, powerW: 1, waistUm: 100 })).toThrow(/wavelengthNm/);
-  });
-});
-
-describe('hubbard table for the command line', () => {
-  it('rows, aligned text and a CSV with units in the header', () => {
-    const depths = depthRangeEr(5, 25, 5);
-    expect(depths).toEqual([5, 10, 15, 20, 25]);
-    const rows = hubbardTable({ species: '87Rb', wavelengthNm: 852, depthsEr: depths });
-    expect(rows).toHaveLength(5);
-    for (let i = 1; i < rows.length; i++) {
-      expect(rows[i]!.JHz).toBeLessThan(rows[i - 1]!.JHz);
-      expect(rows[i]!.UHz).toBeGreaterThan(rows[i - 1]!.UHz);
-    }
-    const direct = hubbardFromLab({ species: '87Rb', wavelengthNm: 852, depthEr: 15 });
-    expect(rows[2]!.UoverJ).toBe(direct.uOverJ);
-    expect(rows[2]!.UoverZJRelativeToCritical).toBe(direct.uOverZJRelativeToCritical);
-
-    const csv = hubbardCsv(rows).trimEnd().split('\n');
-    expect(csv[0]).toBe(
-      'depth_Er,recoil_Hz,J_Hz,U_Hz,U_over_J,U_over_zJ_relative_to_mean_field_critical,wannier_rms_width_nm,band_gap_Er,nnn_over_nn,nnn_resolved',
-    );
-    expect(csv).toHaveLength(6);
-    expect(Number(csv[3]!.split(',')[2])).toBe(rows[2]!.JHz);
-
-    const text = formatHubbardTable(rows).trimEnd().split('\n');
-    const tableLines = text.slice(0, 2 + rows.length);
-    for (const line of tableLines) expect(line.length).toBe(tableLines[0]!.length);
-    expect(text[1]).toContain('[Hz]');
-  });
-
-  it('2D layer rows', () => {
-    const rows = hubbardTable({
-      species: { name: '39K', scatteringLengthBohr: 120 },
-      wavelengthNm: 1064,
-      depthsEr: [10],
-      latticeDimension: 2,
-      confinementFrequencyHz: [10000],
-    });
-    expect(rows[0]!.UHz).toBeGreaterThan(0);
-    expect(() => hubbardTable({ species: '87Rb', wavelengthNm: 1064, depthsEr: [] })).toThrow(/depthsEr/);
   });
 });

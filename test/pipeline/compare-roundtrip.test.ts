@@ -1,6 +1,7 @@
 // `tiercake compare` end to end: an image synthesised by tiercake with known N and T and
 // seeded shot noise is fitted back (the round trip asked for in issue 7), plus the pieces
-// it rests on: the measured-image loader, the replayed Levenberg-Marquardt fit, and
+// it rests on: the measured-image loader (the replayed Levenberg-Marquardt fit has its own
+// file, compareFitReplay.test.ts), and
 // bad input that must stop with a message naming the option and leave no output behind.
 
 import { afterAll, describe, expect, it } from 'vitest';
@@ -8,16 +9,17 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PNG } from 'pngjs';
+import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { solveScenario } from '../../src/pipeline/solveScenario.js';
-import { cameraPictures, cloudForImaging } from '../../src/output/cameraOutputs.js';
-import { runCompareCommand } from '../../src/cli/compareCommand.js';
-import { replayLeastSquaresFit } from '../../src/pipeline/compareFit.js';
+import { cameraPictureFiles } from '../../src/output/cameraOutputs.js';
+import { cameraPictures } from '../../src/imaging/cameraPictures.js';
+import { cloudForImaging } from '../../src/pipeline/solvePictures.js';
+import { runCompareCommand } from '../../src/cli/commands/compare.js';
 import { InputError } from '../../src/scenario/inputError.js';
 import { CameraSchema } from '../../src/scenario/imagingSchema.js';
 import { decodeMeasuredImage, orientField, MeasuredImageError } from '../../src/imaging/measuredImage.js';
 import { encodeNpy } from '../../src/formats/npy.js';
 import type { PlanarField } from '../../src/imaging/planarField.js';
-import { leastSquaresFit } from '../../src/numerics/leastSquaresFit.js';
 
 const workDir = mkdtempSync(join(tmpdir(), 'tiercake-compare-test-'));
 afterAll(() => rmSync(workDir, { recursive: true, force: true }));
@@ -47,10 +49,10 @@ describe('compare round trip', () => {
   // sit far outside the noise: a failure means a real error, not bad luck. (Atom shot
   // noise alone, sqrt(N) = 16 atoms, could never pin N to 1 %.)
   it('fits N within 1 % and kT within 10 % from a noisy 16-bit exposure and its sidecar', async () => {
-    const truth = await solveScenario({ scenarioPath, overrides: [], threads: 1 });
+    const truth = await solveScenario(prepareScenario(scenarioPath, []), { threads: 1 });
     expect(Math.abs(truth.outcome.solve.totals.atoms - trueAtoms)).toBeLessThan(1e-3);
     const camera = CameraSchema.parse({ cameraPixelUm: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom: 1000, seed: 'roundtrip' } });
-    const pictures = cameraPictures(cloudForImaging(truth), camera);
+    const pictures = cameraPictureFiles(cameraPictures(cloudForImaging(truth), camera));
     const pngFile = pictures.arrays.find((a) => a.file === 'images/in_situ_shot.gray16.png');
     const sidecar = pictures.texts.find((t) => t.file === 'images/in_situ_shot.json');
     if (pngFile === undefined || sidecar === undefined) throw new Error('the noisy exposure was not written');
@@ -148,31 +150,6 @@ describe('measured image loader', () => {
     fail(() => decodeMeasuredImage(npy, 'counts.npy', { pixelUm: 0 }), '--pixel-um');
     fail(() => decodeMeasuredImage(encodeNpy(new Float64Array([1, NaN, 2, 3, 4, 5, 6, 7, 8]), [3, 3]), 'nan.npy', { pixelUm: 1 }), '--image');
     fail(() => decodeMeasuredImage(new TextEncoder().encode('hello, not an image'), 'notes.txt', { pixelUm: 1 }), '--image');
-  });
-});
-
-describe('replayed least-squares fit', () => {
-  // A straight line y = a + b x has the closed-form least-squares solution of the normal
-  // equations (Bevington & Robinson, 3rd ed., eq. 6.12): the asynchronous replay must
-  // reach it and agree bit for bit with the synchronous fit it replays.
-  it('matches the synchronous fit and the closed-form straight line', async () => {
-    const x = Float64Array.from({ length: 9 }, (_, i) => i);
-    const y = Float64Array.from(x, (v, i) => 1.5 + 0.7 * v + (i % 3 === 0 ? 0.1 : -0.05));
-    const line = (p: Float64Array) => Float64Array.from(x, (v) => p[0] + p[1] * v);
-    const problem = { data: y, sigma: 0.1, initial: [0, 0] };
-    const sync = leastSquaresFit({ ...problem, model: line });
-    const replay = await replayLeastSquaresFit({ ...problem, model: async (p) => line(p) });
-    expect(Array.from(replay.best)).toEqual(Array.from(sync.best));
-    expect(replay.chiSquare).toBe(sync.chiSquare);
-    const n = x.length;
-    const sx = x.reduce((s, v) => s + v, 0);
-    const sy = y.reduce((s, v) => s + v, 0);
-    const sxx = x.reduce((s, v) => s + v * v, 0);
-    const sxy = x.reduce((s, v, i) => s + v * y[i], 0);
-    const delta = n * sxx - sx * sx;
-    expect(replay.best[0]).toBeCloseTo((sxx * sy - sx * sxy) / delta, 8);
-    expect(replay.best[1]).toBeCloseTo((n * sxy - sx * sy) / delta, 8);
-    expect(replay.distinctEvaluations).toBeLessThanOrEqual(sync.modelEvaluations);
   });
 });
 

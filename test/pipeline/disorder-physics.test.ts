@@ -11,6 +11,7 @@ import { describe, expect, it } from 'vitest';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { solveScenario } from '../../src/pipeline/solveScenario.js';
 import { PhaseCode } from '../../src/observables/phaseCodes.js';
 
@@ -29,7 +30,7 @@ async function compressibilityAt(hopping: number, width: number, mu: number) {
     disorder: { kind: 'box', width, seed: 'inclusions' },
     truncation: { nmax: 5 },
   });
-  const a = await solveScenario({ scenarioPath: path, overrides: [], threads: 1 });
+  const a = await solveScenario(prepareScenario(path, []), { threads: 1 });
   let dNdmu = 0;
   for (const k of a.fields.compressibility) dNdmu += k;
   return { a, dNdmu };

@@ -4,7 +4,8 @@ import { describe, expect, it } from 'vitest';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { prepareScenario, solveScenario } from '../../src/pipeline/solveScenario.js';
+import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
+import { solveScenario } from '../../src/pipeline/solveScenario.js';
 import { buildSummary } from '../../src/output/solveOutputs.js';
 import { latticeAxisParameters } from '../../src/physics/latticeAxis.js';
 import { atomicMassUnitKg, boltzmannJPerK, planckJs } from '../../src/physics/constants.js';
@@ -45,7 +46,7 @@ describe('laboratory mode', () => {
   });
 
   it('summary.json echoes J, U, mu and kT in Hz, nK, J and U, and shell radii in µm', async () => {
-    const a = await solveScenario({ scenarioPath: scenarioFile('summary', layer), overrides: [], threads: 1 });
+    const a = await solveScenario(prepareScenario(scenarioFile('summary', layer), []), { threads: 1 });
     const s = buildSummary(a, []) as Record<string, any>;
     for (const key of ['hopping', 'interaction', 'chemicalPotential', 'kT']) {
       const e = s.parameters[key];

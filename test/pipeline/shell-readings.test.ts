@@ -17,6 +17,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { solveScenario, type SolveArtifacts } from '../../src/pipeline/solveScenario.js';
+import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { PhaseCode } from '../../src/observables/phaseCodes.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tiercake-shells-'));
@@ -31,7 +32,7 @@ function scenario(name: string, body: Record<string, unknown>): string {
 }
 
 async function solve(path: string): Promise<SolveArtifacts> {
-  return solveScenario({ scenarioPath: path, overrides: [], threads: 1 });
+  return solveScenario(prepareScenario(path, []), { threads: 1 });
 }
 
 /** Bin mean radius (µm or sites), density and condensate fraction of the radial profile. */

@@ -9,6 +9,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { solveScenario } from '../../src/pipeline/solveScenario.js';
+import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { buildSolveReport } from '../../src/report/solveReport.js';
 import { renderReportHtml } from '../../src/report/renderReport.js';
 import { readingWarningsOfSolve } from '../../src/observables/readingWarnings.js';
@@ -24,7 +25,7 @@ function scenario(name: string, body: Record<string, unknown>): string {
 }
 
 async function report(path: string) {
-  const a = await solveScenario({ scenarioPath: path, overrides: [], threads: 1 });
+  const a = await solveScenario(prepareScenario(path, []), { threads: 1 });
   const warnings = readingWarningsOfSolve(
     a.outcome,
     a.fields.density,

@@ -95,7 +95,6 @@ export async function solveRealisation(
   const resolved = resolveScenario(scenario);
   const outcome = await runLattice(runRequestOf(resolved, observer), makeExecutor);
   const fields = siteFieldsOf(outcome.state, outcome.compressibility);
-  const geometry = resolved.model.geometry;
   const classification = classifyOutcome(resolved, outcome, fields, false);
   const record: RealisationRecord = {
     index,

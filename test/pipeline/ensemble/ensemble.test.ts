@@ -29,9 +29,11 @@ import { join } from 'node:path';
 import { CommanderError } from 'commander';
 import { buildProgram, type CommandContext } from '../../../src/cli/main.js';
 import { ExitCode, InputError } from '../../../src/scenario/inputError.js';
-import { registerEnsemble, runEnsembleCommand, type EnsembleHooks } from '../../../src/cli/ensembleCommand.js';
-import { registerMerge } from '../../../src/cli/mergeCommand.js';
-import { resolveShard, parseShardOption, shardFolderName } from '../../../src/cli/ensembleOptions.js';
+import { registerEnsemble, runEnsembleCommand, type EnsembleHooks } from '../../../src/cli/commands/ensemble.js';
+import { registerMerge } from '../../../src/cli/commands/merge.js';
+import { resolveShard, parseShardOption } from '../../../src/cli/shardOption.js';
+import { shardFolderName } from '../../../src/output/shardSet.js';
+import { prepareScenario } from '../../../src/pipeline/prepareScenario.js';
 import { solveScenario } from '../../../src/pipeline/solveScenario.js';
 import { decodeNpy } from '../../../src/formats/npy.js';
 import { PhaseCode, phaseNames } from '../../../src/observables/phaseCodes.js';
@@ -142,7 +144,7 @@ describe('ensemble: shards merged equal the single run', () => {
     const seeds = Array.from({ length: 6 }, (_, r) => `wobble/${r}`);
     const solved: Awaited<ReturnType<typeof solveScenario>>[] = [];
     // The documented way to reproduce one realisation alone: `solve --set disorder.seed=<seed>/r`.
-    for (const seed of seeds) solved.push(await solveScenario({ scenarioPath: trapped, overrides: [`disorder.seed=${seed}`], threads: 1 }));
+    for (const seed of seeds) solved.push(await solveScenario(prepareScenario(trapped, [`disorder.seed=${seed}`]), { threads: 1 }));
     const n = solved[0].fields.density.length;
     const R = solved.length;
     const twoPass = (pick: (k: number) => Float64Array) => {
@@ -275,7 +277,7 @@ describe('ensemble limits', () => {
     const body = { ...trappedBody('zero', 0), hubbard: { hopping: 0.2 }, particles: { chemicalPotential: 1.0 } };
     const out = join(dir, 'w0');
     expect((await tiercake(['ensemble', scenarioFile('w0', body), '--realisations', '5', '--block-size', '2', '--threads', '1', '--quiet', '--out', out])).code).toBe(0);
-    const clean = await solveScenario({ scenarioPath: scenarioFile('w0-clean', { ...body, disorder: undefined }), overrides: [], threads: 1 });
+    const clean = await solveScenario(prepareScenario(scenarioFile('w0-clean', { ...body, disorder: undefined }), []), { threads: 1 });
     const mean = npy(out, 'density_mean').data;
     for (let i = 0; i < mean.length; i++) expect(mean[i]).toBe(clean.fields.density[i]);
     expect(npy(out, 'density_spread').data.every((s) => s === 0)).toBe(true);

@@ -1,40 +1,17 @@
-// `tiercake merge SHARD_DIR... --out DIR`: combines the partial results of ensemble
-// shards into exactly the files a single `tiercake ensemble` run writes. Refuses (exit
-// code 2, nothing written) shards of different scenarios, realisation counts, block sizes,
-// bins or tool versions, and sets of shards that do not hold every block exactly once,
-// naming the missing and the duplicated blocks.
+// Which shards `tiercake merge` may combine: the same tool version, scenario (hash),
+// realisation count, block size and histogram bins, and together every block of the
+// ensemble exactly once, each block holding its realisations in order. Every refusal is an
+// InputError naming the shards (and the missing or duplicated blocks) and what to do.
 
-import type { Command } from 'commander';
 import { resolve } from 'node:path';
-import { OutputFolder } from '../output/outputFolder.js';
-import { renderReportHtml } from '../report/renderReport.js';
 import { blockCoverage, formatBlockList, planBlocks, shardBlocks } from '../pipeline/ensemble/blockPlan.js';
-import { absorbBlock, createEnsembleTotal } from '../pipeline/ensemble/blockPartial.js';
-import { ensembleStatistics } from '../pipeline/ensemble/ensembleStatistics.js';
-import type { EnsembleContext } from '../pipeline/ensemble/solveRealisation.js';
-import type { Scenario } from '../scenario/scenarioSchema.js';
-import { ExitCode, InputError } from '../scenario/inputError.js';
-import type { CommandContext } from './main.js';
-import { findShardFolders, readShardBlock, readShardHeader, type LoadedShard } from '../output/ensembleShard.js';
-import { writeEnsembleFiles, type EnsembleOutcome } from '../output/ensembleOutputs.js';
-import { buildEnsembleReport } from '../report/ensembleReport.js';
-import { shardFolderName } from './ensembleOptions.js';
+import { InputError } from '../scenario/inputError.js';
+import type { LoadedShard } from './ensembleShard.js';
 
-export interface MergeCommandOptions {
-  out?: string;
-  quiet?: boolean;
-}
-
-export function registerMerge(program: Command, context: CommandContext): void {
-  program
-    .command('merge')
-    .description('combine ensemble shards into the result a single run gives (bit for bit)')
-    .argument('<shards...>', 'shard folders, or folders that collect them (e.g. the --out folder of the shards)')
-    .option('-o, --out <dir>', 'output folder (default out/<name>-ensemble)')
-    .option('-q, --quiet', 'no summary on stdout')
-    .action(async (shards: string[], options: MergeCommandOptions) => {
-      context.exitCode = await runMergeCommand(shards, options);
-    });
+/** Folder name of shard k of K inside the collecting folder: shard-03-of-16. */
+export function shardFolderName(shard: { index: number; count: number }): string {
+  const width = String(shard.count - 1).length;
+  return `shard-${String(shard.index).padStart(width, '0')}-of-${shard.count}`;
 }
 
 /** The fields that must agree between shards, with how to describe them. */
@@ -120,59 +97,4 @@ export function checkShardSet(shards: readonly LoadedShard[]): ReturnType<typeof
     }
   }
   return plan;
-}
-
-export async function runMergeCommand(paths: readonly string[], options: MergeCommandOptions): Promise<number> {
-  if (paths.length === 0) throw new InputError('merge: give at least one shard folder');
-  const folders = findShardFolders(paths);
-  const shards = folders.map(readShardHeader);
-  const plan = checkShardSet(shards);
-  const header = shards[0].header;
-  const bins = header.bins;
-  // One block in memory at a time, absorbed in block order: the same additions a single run makes.
-  const entries = shards.flatMap((shard) => shard.header.blocks.map((entry) => ({ shard, entry }))).sort((a, b) => a.entry.block - b.entry.block);
-  const total = createEnsembleTotal(header.context.shape.reduce((a, b) => a * b, 1), bins);
-  for (const { shard, entry } of entries) absorbBlock(total, readShardBlock(shard, entry));
-  const stats = ensembleStatistics(total);
-  const used = shards.filter((s) => s.header.blocks.length > 0);
-  const outcome: EnsembleOutcome = {
-    scenario: header.scenario as unknown as Scenario,
-    scenarioHash: header.scenarioHash,
-    baseSeed: header.baseSeed,
-    plan,
-    bins,
-    context: header.context as EnsembleContext,
-    total,
-    stats,
-    provenance: {
-      kind: 'merged shards',
-      shards: shards.map((s) => ({
-        folder: s.path,
-        shard: `${s.header.shard.index}/${s.header.shard.count}`,
-        blocks: formatBlockList(s.header.blocks.map((b) => b.block)),
-        threads: s.header.run.threads,
-        parallelOver: s.header.run.parallelOver,
-        seconds: s.header.run.seconds,
-      })),
-    },
-  };
-  const outDir = resolve(options.out ?? `out/${header.scenarioName}-ensemble`);
-  const folder = new OutputFolder(outDir);
-  try {
-    const createdIso = new Date().toISOString();
-    const line = `merge of ${used.length} shard${used.length === 1 ? '' : 's'} (${shards.length} given); compute time ${used.reduce((t, s) => t + s.header.run.seconds, 0).toFixed(1)} s in total`;
-    writeEnsembleFiles(outcome, folder, (images) => renderReportHtml(buildEnsembleReport(outcome, images, createdIso, [line])));
-    folder.commit();
-  } catch (err) {
-    folder.discard();
-    throw err;
-  }
-  if (!options.quiet) {
-    process.stdout.write(
-      `${header.scenarioName}: merged ${shards.length} shard${shards.length === 1 ? '' : 's'}, ${stats.realisations} realisations in ${plan.blockCount} blocks` +
-        `${stats.notConverged.length > 0 ? `, ${stats.notConverged.length} NOT CONVERGED` : ''}\n` +
-        `  superfluid spans the cloud in ${stats.spanningRealisations} of ${stats.realisations}\n  results in ${outDir}\n`,
-    );
-  }
-  return stats.notConverged.length > 0 ? ExitCode.notConverged : ExitCode.done;
 }

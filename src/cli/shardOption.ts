@@ -1,6 +1,5 @@
-// Parsing of the `ensemble` options that need more than a number: which shard this
-// process is, and how threads are used. Pure (the environment is passed in), so it is
-// tested on plain strings.
+// The `ensemble` option that needs more than a number: which shard this process is. Pure
+// (the environment is passed in), so it is tested on plain strings.
 //
 // Shards count from 0. `--shard k/K` names the shard directly. `--shard-from-env [VAR]`
 // takes k from the environment variable VAR (default SLURM_ARRAY_TASK_ID, which a SLURM
@@ -8,10 +7,9 @@
 // `--shards K`, which is required with it.
 
 import { InputError } from '../scenario/inputError.js';
-import type { ParallelMode } from '../pipeline/ensemble/runEnsemble.js';
+import { parseInteger } from './numberText.js';
 
 export const DEFAULT_SHARD_VARIABLE = 'SLURM_ARRAY_TASK_ID';
-export const DEFAULT_BLOCK_SIZE = 4;
 
 export interface ShardChoice {
   index: number;
@@ -20,19 +18,8 @@ export interface ShardChoice {
   source: string;
 }
 
-export function parseWholeNumber(text: string | undefined, option: string, min: number, max: number, fallback?: number): number {
-  if (text === undefined) {
-    if (fallback !== undefined) return fallback;
-    throw new InputError(`${option}: required; give a whole number from ${min} to ${max}`);
-  }
-  const trimmed = text.trim();
-  const n = /^\d+$/.test(trimmed) ? Number(trimmed) : NaN;
-  if (!Number.isSafeInteger(n) || n < min || n > max) throw new InputError(`${option}: expected a whole number from ${min} to ${max}, got ${JSON.stringify(text)}`);
-  return n;
-}
-
 export function parseShardOption(text: string): ShardChoice {
-  const m = /^\s*(\d+)\s*\/\s*(\d+)\s*$/.exec(text);
+  const m = /^(\d+)\/(\d+)$/.exec(text);
   if (!m) throw new InputError(`--shard: expected k/K (shard k of K, k counted from 0), e.g. --shard 0/4; got ${JSON.stringify(text)}`);
   const index = Number(m[1]);
   const count = Number(m[2]);
@@ -74,7 +61,7 @@ export function resolveShard(
     );
   }
   if (shards === undefined) throw new InputError(`--shards: required with --shard-from-env; give the number of shards K (the array size, 0..K-1)`);
-  const count = parseWholeNumber(shards, '--shards', 1, 1_000_000);
+  const count = parseInteger(shards, '--shards', { min: 1, max: 1_000_000 });
   const value = env[variable];
   if (value === undefined || value.trim() === '') {
     throw new InputError(
@@ -92,18 +79,4 @@ export function resolveShard(
     );
   }
   return { index, count, source: variable };
-}
-
-export type ParallelChoice = 'auto' | ParallelMode;
-
-export function parseParallelOver(text: string | undefined): ParallelChoice {
-  const v = (text ?? 'auto').trim();
-  if (v === 'auto' || v === 'realisations' || v === 'lattice') return v;
-  throw new InputError(`--parallel-over: expected auto, realisations or lattice, got ${JSON.stringify(text)}`);
-}
-
-/** Folder name of shard k of K inside the collecting folder: shard-03-of-16. */
-export function shardFolderName(shard: { index: number; count: number }): string {
-  const width = String(shard.count - 1).length;
-  return `shard-${String(shard.index).padStart(width, '0')}-of-${shard.count}`;
 }

@@ -1,6 +1,7 @@
 // Progress on stderr for long runs: a single self-overwriting line on a terminal, nothing
 // when stderr is not a terminal or --quiet is given, or one JSON object per line with
-// --json-progress (for scripts). The solver core only calls `update`; it never prints.
+// --json-progress (for scripts). The solver core only calls its observer; what it shows
+// is decided here.
 
 export interface ProgressFields {
   stage: string;
@@ -72,5 +73,45 @@ export function createProgressReporter(style: ProgressStyle, stream: NodeJS.Writ
       if (drawn) stream.write('\r\x1b[K');
       if (message) stream.write(`${message}\n`);
     },
+  };
+}
+
+/** The reporter a command's --quiet / --json-progress options ask for. */
+export function progressFor(options: { quiet?: boolean; jsonProgress?: boolean }): ProgressReporter {
+  return createProgressReporter(options.quiet ? 'quiet' : options.jsonProgress ? 'json' : 'auto');
+}
+
+/**
+ * A solver observer that shows the progress of a lattice run and stops it when
+ * `interrupted()` turns true. The remaining time of a relaxation comes from the
+ * contraction rate: the error shrinks by r per sweep, so about ln(tol/err)/ln(r) sweeps remain.
+ */
+export function solveObserver(
+  progress: ProgressReporter,
+  tolerance: number,
+  interrupted: () => boolean,
+): (p: { stage: string; totalSweeps: number; change: number; rate: number; errorEstimate: number; atoms: number; mu: number; nmax: number }) => 'stop' | undefined {
+  let lastTick = Date.now();
+  let lastSweeps = 0;
+  return (p) => {
+    const now = Date.now();
+    const sweepSeconds = (now - lastTick) / 1000 / Math.max(1, p.totalSweeps - lastSweeps);
+    lastTick = now;
+    lastSweeps = p.totalSweeps;
+    let eta = '';
+    if (p.rate > 0 && p.rate < 1 && p.errorEstimate > tolerance && Number.isFinite(p.errorEstimate)) {
+      const remaining = Math.log(tolerance / p.errorEstimate) / Math.log(p.rate);
+      eta = `, ~${Math.ceil(remaining * sweepSeconds)} s to converge at this mu`;
+    }
+    progress.update({
+      stage: p.stage === 'solve' ? 'solving' : p.stage === 'temperature' ? 'finding T' : 'dn/dmu',
+      sweep: p.totalSweeps,
+      residual: p.change,
+      errorEstimate: p.errorEstimate,
+      atoms: p.atoms,
+      mu: p.mu,
+      detail: `nmax ${p.nmax}${eta}`,
+    });
+    return interrupted() ? 'stop' : undefined;
   };
 }

@@ -1,0 +1,202 @@
+// The one table of command-line options. Every option any command takes is declared here
+// once, with its flags, its help text and how its value is read (numberText.ts for every
+// number, with the option's range and unit). Commands pick the options they use by name
+// (`declare`) and read them back checked and converted (`readOptions`); commander only
+// splits the command line, so values arrive as text and are converted in one place, and a
+// command called directly (as the tests do) goes through the same checks.
+
+import type { Command } from 'commander';
+import { InputError } from '../scenario/inputError.js';
+import { parseInteger, parseReal, type IntegerRange, type RealRange } from './numberText.js';
+import { MAX_REALISATIONS } from '../pipeline/ensemble/blockPlan.js';
+import { DEFAULT_BINS_PER_ATOM } from '../pipeline/ensemble/histogramBins.js';
+
+type Spec =
+  | { flags: string; help: string; kind: 'integer'; range: IntegerRange }
+  | { flags: string; help: string; kind: 'real'; range: RealRange }
+  | { flags: string; help: string; kind: 'text' }
+  | { flags: string; help: string; kind: 'choice'; values: readonly string[] }
+  | { flags: string; help: string; kind: 'flag' }
+  | { flags: string; help: string; kind: 'repeatable' }
+  /** `--name [value]`: true when given without a value */
+  | { flags: string; help: string; kind: 'optionalText' };
+
+const positive = (unit?: string, what?: string): RealRange => ({ min: 0, minOpen: true, ...(unit ? { unit } : {}), ...(what ? { what } : {}) });
+
+export const OPTION_TABLE = {
+  // output and run control (every command that writes)
+  out: { flags: '-o, --out <dir>', help: 'output folder', kind: 'text' },
+  force: {
+    flags: '--force',
+    help: 'if the output folder exists and was not written by tiercake, move it aside to <name>.replaced-<time> (nothing is deleted)',
+    kind: 'flag',
+  },
+  set: { flags: '-s, --set <path=value>', help: 'override a scenario field by its dotted path, e.g. particles.atoms=5000 (repeatable)', kind: 'repeatable' },
+  threads: { flags: '-t, --threads <n>', help: 'compute threads, the main thread included (default: all cores)', kind: 'integer', range: { min: 1, max: 256 } },
+  quiet: { flags: '-q, --quiet', help: 'no progress output', kind: 'flag' },
+  jsonProgress: { flags: '--json-progress', help: 'progress as one JSON object per line on stderr', kind: 'flag' },
+  resume: { flags: '--resume [checkpoint]', help: 'continue an interrupted run from its checkpoint (default: <out>.checkpoint)', kind: 'optionalText' },
+  // compare
+  image: { flags: '-i, --image <file>', help: 'measured image: .npy (atoms per pixel, axis 0 = x) or greyscale PNG (grey levels = counts)', kind: 'text' },
+  countsPerAtom: {
+    flags: '--counts-per-atom <x>',
+    help: 'detected counts per atom (required for PNG; for .npy: values are counts)',
+    kind: 'real',
+    range: positive(undefined, 'the detected counts per atom'),
+  },
+  pixelUm: {
+    flags: '--pixel-um <x>',
+    help: 'pixel size in the object plane, µm (camera pixel / magnification; lattice spacings in dimensionless mode)',
+    kind: 'real',
+    range: positive('µm', 'the object-plane pixel size'),
+  },
+  rotate: { flags: '--rotate <deg>', help: 'rotate the measured image counter-clockwise by 0, 90, 180 or 270 degrees', kind: 'integer', range: { min: -270, max: 270 } },
+  flipX: { flags: '--flip-x', help: 'mirror the measured image left-right (before rotating)', kind: 'flag' },
+  fit: { flags: '--fit <list>', help: 'parameters to fit: atoms or atoms,temperature', kind: 'text' },
+  maxIterations: { flags: '--max-iterations <n>', help: 'Levenberg-Marquardt steps at most (default 30)', kind: 'integer', range: { min: 1, max: 1000 } },
+  binUm: { flags: '--bin-um <x>', help: 'radial bin width, µm (default: one pixel)', kind: 'real', range: positive('µm', 'the radial bin width') },
+  // diagram
+  zjMax: { flags: '--zj-max <x>', help: 'largest zJ/U shown', kind: 'real', range: { min: 0, minOpen: true, max: 10 } },
+  mu: { flags: '--mu <from:to>', help: 'range of mu/U', kind: 'text' },
+  grid: { flags: '--grid <cols>x<rows>', help: 'grid points along zJ/U and mu/U', kind: 'text' },
+  kt: { flags: '--kt <x>', help: 'temperature k_B T/U (0: ground state)', kind: 'real', range: { min: 0, max: 100 } },
+  nmax: { flags: '--nmax <n>', help: 'highest occupation kept per site', kind: 'integer', range: { min: 2, max: 40 } },
+  shade: { flags: '--shade <field>', help: "colour by 'phi' (order parameter) or 'density'", kind: 'choice', values: ['phi', 'density'] },
+  // hubbard
+  species: { flags: '--species <name>', help: 'isotope from the built-in table, e.g. 87Rb', kind: 'text' },
+  massU: { flags: '--mass-u <u>', help: 'or: atomic mass in u (with --scattering-bohr)', kind: 'real', range: positive('u', 'the atomic mass') },
+  scatteringBohr: {
+    flags: '--scattering-bohr <a0>',
+    help: 's-wave scattering length in Bohr radii (overrides the table value)',
+    kind: 'real',
+    range: positive('Bohr radii', 'the scattering length'),
+  },
+  wavelengthNm: { flags: '--wavelength-nm <nm>', help: 'lattice laser wavelength in nm', kind: 'real', range: positive('nm', 'the lattice wavelength') },
+  depth: { flags: '--depth <from:to:count | s>', help: 'lattice depths in E_r: one value or a range', kind: 'text' },
+  axes: { flags: '--axes <n>', help: 'lattice axes: 3 (cubic), 2 (layer) or 1 (tubes)', kind: 'integer', range: { min: 1, max: 3 } },
+  confinementHz: {
+    flags: '--confinement-hz <f>',
+    help: 'trap frequency along the axes without lattice (layer or tubes), Hz',
+    kind: 'real',
+    range: positive('Hz', 'the trap frequency'),
+  },
+  powerW: { flags: '--power-w <P>', help: 'also estimate the depth of one retro-reflected beam of this power (W)', kind: 'real', range: positive('W', 'the beam power') },
+  waistUm: { flags: '--waist-um <w>', help: 'waist of that beam at the atoms, µm (with --power-w)', kind: 'real', range: positive('µm', 'the beam waist') },
+  // ensemble
+  realisations: {
+    flags: '-n, --realisations <N>',
+    help: 'number of disorder realisations (realisation r uses the seed "<disorder.seed>/r")',
+    kind: 'integer',
+    range: { min: 1, max: MAX_REALISATIONS },
+  },
+  blockSize: {
+    flags: '--block-size <B>',
+    help: 'realisations per block, the fixed grouping of the sums (default 4); shards hold whole blocks',
+    kind: 'integer',
+    range: { min: 1, max: MAX_REALISATIONS },
+  },
+  shard: { flags: '--shard <k/K>', help: 'run only shard k of K (k counted from 0) and write a partial result for `tiercake merge`', kind: 'text' },
+  shardFromEnv: {
+    flags: '--shard-from-env [variable]',
+    help: 'take the shard index k from an environment variable (default SLURM_ARRAY_TASK_ID); needs --shards',
+    kind: 'optionalText',
+  },
+  shards: { flags: '--shards <K>', help: 'number of shards, with --shard-from-env', kind: 'integer', range: { min: 1, max: 1_000_000 } },
+  parallelOver: {
+    flags: '--parallel-over <mode>',
+    help: 'auto | realisations | lattice (auto: realisations side by side on small lattices, else one at a time on all threads)',
+    kind: 'choice',
+    values: ['auto', 'realisations', 'lattice'],
+  },
+  binsPerAtom: { flags: '--bins-per-atom <b>', help: `histogram bins per atom per site (default ${DEFAULT_BINS_PER_ATOM})`, kind: 'integer', range: { min: 1, max: 10_000 } },
+} as const satisfies Record<string, Spec>;
+
+export type OptionName = keyof typeof OPTION_TABLE;
+
+type ValueOf<S> = S extends { kind: 'integer' | 'real' }
+  ? number
+  : S extends { kind: 'flag' }
+    ? boolean
+    : S extends { kind: 'repeatable' }
+      ? string[]
+      : S extends { kind: 'optionalText' }
+        ? string | true
+        : string;
+
+/** The values of the options `N`, checked and converted; undefined where not given. */
+export type OptionValues<N extends OptionName> = { [K in N]?: ValueOf<(typeof OPTION_TABLE)[K]> };
+
+/** What commander hands over: text, true for flags, a list for repeatable options. */
+export type RawOptions = Readonly<Record<string, string | boolean | string[] | undefined>>;
+
+const collect = (value: string, previous: string[] | undefined): string[] => [...(previous ?? []), value];
+
+export interface DeclareOverrides {
+  /** help text used instead of the table's */
+  help?: string;
+  /** default value as it would be typed (shown in --help) */
+  default?: string;
+  required?: boolean;
+}
+
+/** Add the named options of the table to a command. */
+export function declare(command: Command, names: readonly OptionName[], overrides: Partial<Record<OptionName, DeclareOverrides>> = {}): Command {
+  for (const name of names) {
+    const spec: Spec = OPTION_TABLE[name];
+    const o = overrides[name] ?? {};
+    const help = o.help ?? spec.help;
+    if (spec.kind === 'repeatable') command.option(spec.flags, help, collect, []);
+    else if (o.required) command.requiredOption(spec.flags, help, o.default);
+    else if (o.default !== undefined) command.option(spec.flags, help, o.default);
+    else command.option(spec.flags, help);
+  }
+  return command;
+}
+
+/** 'a', 'a or b', 'a, b or c'. */
+function oneOf(values: readonly string[]): string {
+  return values.length <= 1 ? (values[0] ?? '') : `${values.slice(0, -1).join(', ')} or ${values[values.length - 1]}`;
+}
+
+function optionLabel(spec: Spec): string {
+  const long = spec.flags.split(/[ ,]+/).find((f) => f.startsWith('--'));
+  return long ?? spec.flags;
+}
+
+/** Read the named options from commander's raw values, every number through numberText.ts. */
+export function readOptions<N extends OptionName>(raw: RawOptions, names: readonly N[]): OptionValues<N> {
+  const out: Record<string, unknown> = {};
+  for (const name of names) {
+    const spec: Spec = OPTION_TABLE[name];
+    const value = raw[name];
+    if (value === undefined || value === false) continue;
+    const label = optionLabel(spec);
+    switch (spec.kind) {
+      case 'flag':
+        out[name] = value === true;
+        break;
+      case 'repeatable':
+        out[name] = Array.isArray(value) ? [...value] : [String(value)];
+        break;
+      case 'optionalText':
+        out[name] = value === true ? true : String(value);
+        break;
+      case 'integer':
+        out[name] = parseInteger(String(value), label, spec.range);
+        break;
+      case 'real':
+        out[name] = parseReal(String(value), label, spec.range);
+        break;
+      case 'choice': {
+        const text = String(value);
+        if (!spec.values.includes(text)) throw new InputError(`${label}: expected ${oneOf(spec.values)}, got ${JSON.stringify(text)}`);
+        out[name] = text;
+        break;
+      }
+      case 'text':
+        out[name] = String(value);
+        break;
+    }
+  }
+  return out as OptionValues<N>;
+}

@@ -1,0 +1,28 @@
+// A picture on a regular pixel grid with the coordinates of its pixel centres, and how its
+// lengths are labelled: micrometres in laboratory mode, lattice spacings in dimensionless
+// mode (no lattice spacing is known, so 1 site = 1 length unit). Plain data shared by the
+// camera model (cameraPictures.ts), the compare fit and the writers (src/output).
+
+import type { PlanarField } from './planarField.js';
+
+export interface PixelPicture extends PlanarField {
+  /** Pixel size in the plane the coordinates refer to (object plane, or the plane after the flight). */
+  pixelUm: number;
+  /** Pixel-centre coordinates along image axes 0 and 1. */
+  xCentresUm: Float64Array;
+  yCentresUm: Float64Array;
+}
+
+/** How lengths are labelled: micrometres, or lattice spacings in dimensionless mode. */
+export interface LengthUnit {
+  /** Short unit for axis labels, e.g. 'µm' or 'sites'. */
+  short: string;
+  /** Sentence for sidecars and summaries. */
+  note: string;
+}
+
+export const micrometres: LengthUnit = { short: 'µm', note: 'micrometres' };
+export const latticeSites: LengthUnit = {
+  short: 'sites',
+  note: 'lattice spacings (dimensionless mode: no lattice spacing is known, so 1 site = 1 length unit)',
+};

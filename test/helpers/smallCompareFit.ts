@@ -1,0 +1,26 @@
+// A small compare fit for the tests of its writers and report: a 12 x 12 layer, its own
+// noise-free in-situ picture as the measured image (as counts in a .npy), N fitted.
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { runCompareFit, type CompareFit } from '../../src/pipeline/compareFit.js';
+import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
+import { solveScenario } from '../../src/pipeline/solveScenario.js';
+import { solvePictures } from '../../src/pipeline/solvePictures.js';
+import { decodeMeasuredImage } from '../../src/imaging/measuredImage.js';
+import { encodeNpy } from '../../src/formats/npy.js';
+
+export async function smallCompareFit(): Promise<{ fit: CompareFit; scenarioPath: string; dir: string }> {
+  const dir = mkdtempSync(join(tmpdir(), 'tiercake-small-fit-'));
+  const scenarioPath = join(dir, 'small.json');
+  writeFileSync(
+    scenarioPath,
+    JSON.stringify({ name: 'small', energyUnit: 'U', lattice: { shape: [12, 12] }, hubbard: { hopping: 0.02 }, trap: { coefficient: 0.03 }, particles: { atoms: 80 }, truncation: { nmax: 5 } }),
+  );
+  const truth = await solveScenario(prepareScenario(scenarioPath), { threads: 1 });
+  const picture = solvePictures(truth).pictures.find((p) => p.name === 'in_situ')!.picture;
+  const counts = Float64Array.from(picture.values, (v) => v * 50);
+  const measured = decodeMeasuredImage(encodeNpy(counts, [picture.nx, picture.ny]), 'small.npy', { pixelUm: picture.pixelUm, countsPerAtom: 50 });
+  const fit = await runCompareFit({ prepared: prepareScenario(scenarioPath), measured, fit: ['atoms'], maxIterations: 20, threads: 1 });
+  return { fit, scenarioPath, dir };
+}

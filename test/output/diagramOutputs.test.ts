@@ -1,0 +1,37 @@
+// Files of `tiercake diagram` (src/output/diagramOutputs.ts): the CSV files carry the map's
+// numbers unchanged, and the tips listed are those of the fillings n >= 1, at the analytic
+// mean-field tips zJ/U = 2n + 1 - 2 sqrt(n(n + 1)) (van Oosten, van der Straten & Stoof,
+// PRA 63, 053601 (2001)) to the grid's resolution.
+
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { diagramTitle, lobesOf, writeDiagramFiles, type DiagramSettings } from '../../src/output/diagramOutputs.js';
+import { writeOutputFolder } from '../../src/output/outputFolder.js';
+import { checkOutputTarget } from '../../src/output/outputTarget.js';
+import { phaseMap } from '../../src/solver/phaseMap.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'tiercake-diagram-out-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+const rowsOf = (text: string): number[][] => text.split('\n').filter((l) => l && !l.startsWith('#')).slice(1).map((l) => l.split(',').map(Number));
+
+describe('diagram files', () => {
+  it('tips of n >= 1 at the analytic values; the grid CSV holds the map', async () => {
+    const s: DiagramSettings = { zJMax: 0.2, muMin: 0, muMax: 2, columns: 20, rows: 30, temperature: 0, nmax: 6, shade: 'density' };
+    const result = phaseMap({ ...s, boundaryPoints: 200 });
+    const lobes = lobesOf(result);
+    expect(lobes.map((b) => b.filling)).toEqual([1, 2]);
+    const out = join(dir, 'map');
+    await writeOutputFolder(checkOutputTarget(out, { option: '--out' }), { command: 'diagram', scenarioHash: null }, (folder) => writeDiagramFiles(result, s, 0.1, folder));
+    const tips = rowsOf(readFileSync(join(out, 'lobe_tips.csv'), 'utf8'));
+    for (const [n, , zJ] of tips) expect(Math.abs(zJ - (2 * n + 1 - 2 * Math.sqrt(n * (n + 1))))).toBeLessThan(1e-3);
+    const grid = rowsOf(readFileSync(join(out, 'phase_map_grid.csv'), 'utf8'));
+    expect(grid.length).toBe(20 * 30);
+    // Row c * rows + r holds zJ[c], mu[r], phi, density.
+    expect(grid[3 * 30 + 7]).toEqual([result.zJ[3], result.mu[7], result.orderParameter[3 * 30 + 7], result.density[3 * 30 + 7]]);
+    expect(readFileSync(join(out, 'report.html'), 'utf8')).toContain(diagramTitle(s));
+    expect(diagramTitle({ ...s, temperature: 0.1 })).toBe('Mean-field phase map at k_B T = 0.1 U');
+  });
+});
