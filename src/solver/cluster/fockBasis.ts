@@ -84,3 +84,24 @@ export function numberSector(basis: FockBasis, particles: number): NumberSector 
   }
   return { particles, dim: count, states, position };
 }
+
+/**
+ * The product state c_s = prod_i a_i(n_i(s)) from per-site amplitudes a_i(n) (stored at
+ * amplitudes[i * (nmax + 1) + n]) into out[0 .. dim): a Gutzwiller state, the natural
+ * start vector for the cluster ground state. Built digit by digit like the diagonal
+ * (site 0 the least significant digit), O(dim).
+ */
+export function productState(basis: FockBasis, amplitudes: Float64Array, out: Float64Array): void {
+  const base = basis.base;
+  let len = 1;
+  out[0] = 1;
+  for (let i = basis.sites - 1; i >= 0; i--) {
+    const off = i * base;
+    for (let m = len - 1; m >= 0; m--) {
+      const v = out[m];
+      const t = m * base;
+      for (let n = base - 1; n >= 0; n--) out[t + n] = v * amplitudes[off + n];
+    }
+    len *= base;
+  }
+}
