@@ -28,8 +28,8 @@ export interface ClusterObservables {
   keptStates: number;
   /** Boltzmann weight of the highest kept state (0 at T = 0): the truncation measure */
   truncationWeight: number;
-  /** every eigenstate was kept (dense thermal solve) */
-  completeSpectrum: boolean;
+  /** every state with a Boltzmann weight above 1e-17 of the ground state's was kept (dense thermal solve) */
+  exhaustive: boolean;
   /** the eigen-solve met its tolerance */
   converged: boolean;
   /** matrix-vector products (Lanczos) or 0 (dense) */
@@ -54,7 +54,7 @@ export function createClusterObservables(geometry: ClusterGeometry): ClusterObse
     bondCorrelation: new Float64Array(geometry.bondCount),
     keptStates: 0,
     truncationWeight: 0,
-    completeSpectrum: false,
+    exhaustive: false,
     converged: false,
     matvecs: 0,
     residual: NaN,

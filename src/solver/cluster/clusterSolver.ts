@@ -3,13 +3,17 @@
 // (clusterHamiltonian.ts), and its observables (clusterObservables.ts).
 //
 // Eigen-solver by dimension. Ground state: up to `denseMaxStates` Fock states a dense
-// Householder + QL decomposition (symmetricEigen.ts), above it the Lanczos method
-// (blockLanczos.ts, block size 1) warm-started from the caller's vector (the previous
-// sweep's state, or a product of single-site states). Thermal state: dense up to
-// `thermalDenseMaxStates` (the whole spectrum, no truncation), above it block Lanczos
-// (default block 4) for the lowest k states. The thresholds are measured in
-// bench/clusterBench.mjs: at kT ~ 0.1 U the thermal state of a 2x2 cluster needs ~100
-// states, where the dense decomposition is still the cheaper one.
+// Householder reduction with QL eigenvalues and one inverse-iteration eigenvector
+// (partialSymmetricEigen.ts), above it the Lanczos method (blockLanczos.ts, block size 1)
+// warm-started from the caller's vector (the previous sweep's state, or a product of
+// single-site states). Thermal state: dense up to `thermalDenseMaxStates` (all eigenvalues;
+// eigenvectors of every state with a Boltzmann weight above 1e-17 of the ground state's,
+// so the omitted ones change nothing at double precision), above it block Lanczos (default
+// block 4) for the lowest k states. The thresholds come from bench/clusterBench.mjs: for the
+// ground state the dense path wins up to ~100-150 states (dim 81: 0.6 ms against 1.8 ms
+// for a cold Lanczos; dim 256: 22 ms against 4 ms); at kT ~ 0.1 U the thermal state of a
+// 2x2 cluster needs 60-170 states, where the dense path is 5-15x cheaper than block
+// Lanczos (2x2, nmax 3: 56 ms against 0.8 s).
 //
 // Thermal truncation. With Lanczos only the lowest k states enter Z; the Boltzmann weight
 // of the highest kept one, w_k = exp(-(E_k - E_0)/kT) / Z, bounds the weight of each
@@ -20,12 +24,12 @@
 import { createClusterGeometry, type ClusterGeometry } from './clusterGeometry.js';
 import { createFockBasis, type FockBasis } from './fockBasis.js';
 import { createClusterHamiltonian, denseFromSparse, updateClusterHamiltonian, type ClusterHamiltonian } from './clusterHamiltonian.js';
-import { createSymmetricEigenWorkspace, symmetricEigen, type SymmetricEigenWorkspace } from './symmetricEigen.js';
+import { createPartialEigenWorkspace, partialEigenvalues, partialEigenvectors, type PartialEigenWorkspace } from './partialSymmetricEigen.js';
 import { createLanczosWorkspace, lanczosLowest, type LanczosWorkspace } from './blockLanczos.js';
 import { accumulateState, clearStateAverages, createClusterObservables, type ClusterObservables } from './clusterObservables.js';
 
 export interface ClusterSolverOptions {
-  /** T = 0: dense eigen-solve up to this Fock dimension, Lanczos above (default 48) */
+  /** T = 0: dense eigen-solve up to this Fock dimension, Lanczos above (default 128) */
   denseMaxStates?: number;
   /** T > 0: dense eigen-solve up to this Fock dimension, block Lanczos above (default 1296) */
   thermalDenseMaxStates?: number;
@@ -56,7 +60,7 @@ export interface ClusterSolver {
   readonly thermalMethod: 'dense' | 'lanczos';
   readonly options: Required<ClusterSolverOptions>;
   /** dense workspace, created at the first dense solve */
-  dense: SymmetricEigenWorkspace | null;
+  dense: PartialEigenWorkspace | null;
   readonly ground: LanczosWorkspace | null;
   /** created at the first thermal Lanczos solve */
   thermal: LanczosWorkspace | null;
@@ -68,7 +72,7 @@ export interface ClusterSolver {
 }
 
 const DEFAULTS: Required<ClusterSolverOptions> = {
-  denseMaxStates: 48,
+  denseMaxStates: 128,
   thermalDenseMaxStates: 1296,
   lanczosBasis: 24,
   residualTolerance: 1e-12,
@@ -119,10 +123,11 @@ export function clusterEnergyScale(h: ClusterHamiltonian): number {
 
 /**
  * Ground state at the current inputs. `warm` (dim values, any norm; null for none) starts
- * the Lanczos iteration; the dense path ignores it. Observables in solver.observables,
- * the state in solver.groundVector.
+ * the Lanczos iteration; the dense path ignores it. `looseTolerance` (absolute residual,
+ * energy units) relaxes the Lanczos tolerance, e.g. in early sweeps of a relaxation.
+ * Observables in solver.observables, the state in solver.groundVector.
  */
-export function solveClusterGround(solver: ClusterSolver, warm: Float64Array | null): ClusterObservables {
+export function solveClusterGround(solver: ClusterSolver, warm: Float64Array | null, looseTolerance = 0): ClusterObservables {
   const h = solver.hamiltonian;
   const out = solver.observables;
   const dim = solver.basis.dim;
@@ -131,16 +136,17 @@ export function solveClusterGround(solver: ClusterSolver, warm: Float64Array | n
   if (solver.method === 'dense') {
     const ws = denseWorkspace(solver);
     denseFromSparse(h.matrix, ws.a);
-    const ok = symmetricEigen(ws, dim);
-    for (let s = 0; s < dim; s++) solver.groundVector[s] = ws.a[s];
+    const ok = partialEigenvalues(ws, dim);
+    partialEigenvectors(ws, dim, 1);
+    for (let s = 0; s < dim; s++) solver.groundVector[s] = ws.vectors[s];
     out.groundEnergy = ws.values[0];
     out.converged = ok;
     out.matvecs = 0;
-    out.residual = 0;
+    out.residual = ws.residual;
     out.method = 'dense';
   } else {
     const ws = solver.ground as LanczosWorkspace;
-    const tol = solver.options.residualTolerance * clusterEnergyScale(h);
+    const tol = Math.max(solver.options.residualTolerance * clusterEnergyScale(h), looseTolerance);
     lanczosLowest(ws, h.matrix, 1, warm, warm === null ? 0 : 1, tol, solver.options.maxMatvecs);
     // Fix the sign: the ground state is non-negative (Perron-Frobenius, all off-diagonal
     // elements <= 0), so phi_i >= 0; choose the sign with a positive component sum.
@@ -160,12 +166,12 @@ export function solveClusterGround(solver: ClusterSolver, warm: Float64Array | n
   out.entropy = 0;
   out.keptStates = 1;
   out.truncationWeight = 0;
-  out.completeSpectrum = false;
+  out.exhaustive = false;
   return out;
 }
 
-function denseWorkspace(solver: ClusterSolver): SymmetricEigenWorkspace {
-  solver.dense ??= createSymmetricEigenWorkspace(solver.basis.dim);
+function denseWorkspace(solver: ClusterSolver): PartialEigenWorkspace {
+  solver.dense ??= createPartialEigenWorkspace(solver.basis.dim);
   return solver.dense;
 }
 
@@ -176,11 +182,11 @@ function fixSign(v: Float64Array, dim: number): void {
 }
 
 /**
- * Thermal state at temperature kT > 0 (energy units of H). `warm` as in
+ * Thermal state at temperature kT > 0 (energy units of H). `warm` and `looseTolerance` as in
  * solveClusterGround (used as the first start vector of the thermal block). The lowest
  * eigenvector is left in solver.groundVector.
  */
-export function solveClusterThermal(solver: ClusterSolver, temperature: number, warm: Float64Array | null): ClusterObservables {
+export function solveClusterThermal(solver: ClusterSolver, temperature: number, warm: Float64Array | null, looseTolerance = 0): ClusterObservables {
   if (!(temperature > 0)) throw new Error(`temperature: expected kT > 0 for the thermal cluster state, got ${temperature}`);
   const h = solver.hamiltonian;
   const out = solver.observables;
@@ -193,14 +199,17 @@ export function solveClusterThermal(solver: ClusterSolver, temperature: number, 
   if (solver.thermalMethod === 'dense') {
     const ws = denseWorkspace(solver);
     denseFromSparse(h.matrix, ws.a);
-    out.converged = symmetricEigen(ws, dim);
+    out.converged = partialEigenvalues(ws, dim);
+    // Keep every state with exp(-(E - E0)/kT) > 1e-17 (x < 39.1).
+    kept = 1;
+    while (kept < dim && (ws.values[kept] - ws.values[0]) / temperature < 39.1) kept++;
+    partialEigenvectors(ws, dim, kept);
     out.matvecs = 0;
-    out.residual = 0;
+    out.residual = ws.residual;
     out.method = 'dense';
     values = ws.values;
-    vectors = ws.a;
-    kept = dim;
-    out.completeSpectrum = true;
+    vectors = ws.vectors;
+    out.exhaustive = true;
   } else {
     const o = solver.options;
     const cap = Math.min(o.maxThermalStates, dim - 3 * o.thermalBlockSize - 1);
@@ -213,7 +222,7 @@ export function solveClusterThermal(solver: ClusterSolver, temperature: number, 
         ws = createLanczosWorkspace(dim, { blockSize: o.thermalBlockSize, maxBasis: basisSize, maxWanted: Math.max(k, ws?.maxWanted ?? 0) });
         solver.thermal = ws;
       }
-      const tol = o.residualTolerance * clusterEnergyScale(h);
+      const tol = Math.max(o.residualTolerance * clusterEnergyScale(h), looseTolerance);
       lanczosLowest(ws, h.matrix, k, warm, warm === null ? 0 : 1, tol, o.maxMatvecs);
       matvecs += ws.matvecs;
       const top = Math.exp(-(ws.values[k - 1] - ws.values[0]) / temperature);
@@ -229,7 +238,7 @@ export function solveClusterThermal(solver: ClusterSolver, temperature: number, 
     }
     out.matvecs = matvecs;
     out.method = 'lanczos';
-    out.completeSpectrum = false;
+    out.exhaustive = false;
   }
   if (solver.weights.length < kept) solver.weights = new Float64Array(kept);
   const w = solver.weights;

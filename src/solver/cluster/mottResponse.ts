@@ -25,7 +25,7 @@
 import { createClusterGeometry, type ClusterGeometry } from './clusterGeometry.js';
 import { createFockBasis, numberSector, type FockBasis, type NumberSector } from './fockBasis.js';
 import { createClusterHamiltonian, denseFromSparse, updateClusterHamiltonian, type ClusterHamiltonian } from './clusterHamiltonian.js';
-import { createSymmetricEigenWorkspace, symmetricEigen, type SymmetricEigenWorkspace } from './symmetricEigen.js';
+import { createPartialEigenWorkspace, partialEigenvalues, partialEigenvectors, type PartialEigenWorkspace } from './partialSymmetricEigen.js';
 import { createLanczosWorkspace, lanczosLowest, type LanczosWorkspace } from './blockLanczos.js';
 import { conjugateGradient, createConjugateGradientWorkspace, type ConjugateGradientWorkspace } from './conjugateGradient.js';
 
@@ -35,7 +35,7 @@ const DENSE_SECTOR_MAX = 100;
 interface SectorProblem {
   sector: NumberSector;
   hamiltonian: ClusterHamiltonian;
-  dense: SymmetricEigenWorkspace | null;
+  dense: PartialEigenWorkspace | null;
   lanczos: LanczosWorkspace | null;
   /** lowest eigenvector after lowestState */
   vector: Float64Array;
@@ -81,7 +81,7 @@ function sectorProblem(geometry: ClusterGeometry, basis: FockBasis, particles: n
   const sector = numberSector(basis, particles);
   const hamiltonian = createClusterHamiltonian(geometry, basis, sector);
   const dim = sector.dim;
-  const dense = dim <= DENSE_SECTOR_MAX ? createSymmetricEigenWorkspace(dim) : null;
+  const dense = dim <= DENSE_SECTOR_MAX ? createPartialEigenWorkspace(dim) : null;
   const lanczos = dense === null ? createLanczosWorkspace(dim, { blockSize: 1, maxBasis: 30, maxWanted: 1 }) : null;
   return { sector, hamiltonian, dense, lanczos, vector: new Float64Array(dim), energy: NaN };
 }
@@ -121,9 +121,10 @@ function lowestState(p: SectorProblem, start: Float64Array | null, tolerance: nu
   let ok: boolean;
   if (p.dense !== null) {
     denseFromSparse(p.hamiltonian.matrix, p.dense.a);
-    ok = symmetricEigen(p.dense, dim);
+    ok = partialEigenvalues(p.dense, dim);
+    partialEigenvectors(p.dense, dim, 1);
     p.energy = p.dense.values[0];
-    for (let r = 0; r < dim; r++) p.vector[r] = p.dense.a[r];
+    for (let r = 0; r < dim; r++) p.vector[r] = p.dense.vectors[r];
   } else {
     const ws = p.lanczos as LanczosWorkspace;
     lanczosLowest(ws, p.hamiltonian.matrix, 1, start, start === null ? 0 : 1, tolerance, 20_000);

@@ -81,6 +81,17 @@ export function symmetricEigen(ws: SymmetricEigenWorkspace, n: number): boolean 
  * the orthogonal matrix Z of the reduction (A = Z T Z^T), column j of Z in row j of a.
  */
 function householderTridiagonal(a: Float64Array, d: Float64Array, e: Float64Array, n: number): void {
+  householderReduce(a, d, e, n);
+  accumulateReflections(a, d, e, n);
+}
+
+/**
+ * The reduction half of tred2 without accumulating Z. On return: T_ii = a[i * n + i],
+ * e[i] (i >= 1) the subdiagonal T_{i,i-1} (e[0] = 0), and reflection m (m = 1 .. n-1),
+ * P_m = I - u u^T / h_m acting on indices 0 .. m-1, has u_k = a[m * n + k] (k < m) and
+ * h_m = d[m] (0: no reflection). Z = P_{n-1} ... P_1 in the sense of accumulateReflections.
+ */
+export function householderReduce(a: Float64Array, d: Float64Array, e: Float64Array, n: number): void {
   for (let j = 0; j < n; j++) d[j] = a[j * n + (n - 1)];
   for (let i = n - 1; i > 0; i--) {
     // Scale the row to avoid under/overflow of the Householder vector.
@@ -135,7 +146,10 @@ function householderTridiagonal(a: Float64Array, d: Float64Array, e: Float64Arra
     }
     d[i] = h;
   }
-  // Accumulate the transformations.
+}
+
+/** Second half of tred2: form Z from the reflections left by householderReduce. */
+function accumulateReflections(a: Float64Array, d: Float64Array, e: Float64Array, n: number): void {
   for (let i = 0; i < n - 1; i++) {
     a[i * n + (n - 1)] = a[i * n + i];
     a[i * n + i] = 1;
@@ -158,8 +172,11 @@ function householderTridiagonal(a: Float64Array, d: Float64Array, e: Float64Arra
   e[0] = 0;
 }
 
-/** tql2 on (d, e) with e[i] the subdiagonal element between i-1 and i; rotates the rows of a (the columns of Z). */
-function tridiagonalQl(a: Float64Array, d: Float64Array, e: Float64Array, n: number): boolean {
+/**
+ * tql2 on (d, e) with e[i] the subdiagonal element between i-1 and i; rotates the rows of
+ * a (the columns of Z). With a = null only the eigenvalues are computed (tql1), unsorted.
+ */
+export function tridiagonalQl(a: Float64Array | null, d: Float64Array, e: Float64Array, n: number): boolean {
   for (let i = 1; i < n; i++) e[i - 1] = e[i];
   e[n - 1] = 0;
   const eps = 2.220446049250313e-16;
@@ -207,6 +224,7 @@ function tridiagonalQl(a: Float64Array, d: Float64Array, e: Float64Array, n: num
           c = p / r;
           p = c * d[i] - s * g;
           d[i + 1] = h + s * (c * g + s * d[i]);
+          if (a === null) continue;
           const ri = i * n;
           const rj = ri + n;
           for (let k = 0; k < n; k++) {

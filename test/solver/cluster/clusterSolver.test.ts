@@ -131,14 +131,14 @@ describe('Lanczos against the dense solver', () => {
     randomInputs(lanczos, 'lzT', true);
     for (const T of [0.03, 0.08]) {
       const ta = solveClusterThermal(dense, T, null);
-      expect(ta.completeSpectrum).toBe(true);
+      expect(ta.exhaustive).toBe(true);
       const fa = ta.energy;
       const sa = ta.entropy;
       const pa = Float64Array.from(ta.phi);
       const ca = Float64Array.from(ta.bondCorrelation);
       const tb = solveClusterThermal(lanczos, T, null);
       expect(tb.converged).toBe(true);
-      expect(tb.completeSpectrum).toBe(false);
+      expect(tb.exhaustive).toBe(false);
       expect(tb.keptStates).toBeLessThan(256);
       expect(tb.truncationWeight).toBeLessThan(1e-12);
       // Discarded states weigh < 1e-12 each, so averages agree to ~1e-10.
