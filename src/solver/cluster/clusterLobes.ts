@@ -18,7 +18,7 @@
 // x = mu/U (van Oosten, van der Straten & Stoof, PRA 63, 053601 (2001)).
 
 import { ParameterError } from '../../physics/parameterError.js';
-import { brentRoot } from '../brentRoot.js';
+import { brentRoot } from '../../numerics/brentRoot.js';
 import { createClusterSolver, solveClusterThermal, type ClusterSolver } from './clusterSolver.js';
 import { createMottResponseWorkspace, mottResponse, type MottResponseWorkspace } from './mottResponse.js';
 

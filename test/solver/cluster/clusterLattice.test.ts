@@ -14,7 +14,7 @@ import { createLatticeGeometry } from '../../../src/lattice/latticeGeometry.js';
 import { uniformModel, type LatticeModel } from '../../../src/lattice/latticeModel.js';
 import { addHarmonicTrap, latticeCentre } from '../../../src/lattice/harmonicTrap.js';
 import { boxDisorder } from '../../../src/lattice/boxDisorder.js';
-import { seededRandom } from '../../../src/lattice/seededRandom.js';
+import { seededRandom } from '../../../src/numerics/seededRandom.js';
 import { createSolverState } from '../../../src/solver/solverState.js';
 import { createSweepExecutor } from '../../../src/solver/sweepExecutor.js';
 import { initialOrderParameter, solveLattice } from '../../../src/solver/latticeSolve.js';

@@ -5,7 +5,7 @@
 // - the Lanczos path agrees with the dense path to 1e-10, and a warm start saves products.
 import { describe, expect, it } from 'vitest';
 import { createClusterSolver, solveClusterGround, solveClusterThermal, type ClusterSolver } from '../../../src/solver/cluster/clusterSolver.js';
-import { seededRandom } from '../../../src/lattice/seededRandom.js';
+import { seededRandom } from '../../../src/numerics/seededRandom.js';
 import { referenceDiagonalisation, type ReferenceProblem } from './helpers.js';
 
 function randomInputs(solver: ClusterSolver, seed: string, withFields: boolean): ReferenceProblem {

@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { createSymmetricEigenWorkspace, symmetricEigen } from '../../../src/solver/cluster/symmetricEigen.js';
 import { createPartialEigenWorkspace, partialEigenvalues, partialEigenvectors } from '../../../src/solver/cluster/partialSymmetricEigen.js';
-import { seededRandom } from '../../../src/lattice/seededRandom.js';
+import { seededRandom } from '../../../src/numerics/seededRandom.js';
 
 function randomSymmetric(n: number, seed: string): number[][] {
   const rng = seededRandom(seed);
