@@ -3,7 +3,7 @@
 // time. Uses the compiled sources in dist/.
 import { performance } from 'node:perf_hooks';
 import { availableParallelism } from 'node:os';
-import { createSiteWorkspace, createSiteObservables, solveSiteGround, solveSiteThermal, weylLowerBound } from '../dist/solver/siteProblem.js';
+import { createSiteWorkspace, createSiteObservables, solveSiteGround, solveSiteThermal, weylLowerBound } from '../dist/solver/site/index.js';
 import { createLatticeGeometry } from '../dist/lattice/latticeGeometry.js';
 import { uniformModel } from '../dist/lattice/latticeModel.js';
 import { addHarmonicTrap, latticeCentre } from '../dist/lattice/harmonicTrap.js';

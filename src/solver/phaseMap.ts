@@ -9,7 +9,7 @@
 // superfluid and the normal fluid (the lobes themselves are no longer insulating).
 
 import { homogeneousPhi, siteSusceptibility } from './homogeneous.js';
-import { createSiteObservables, createSiteWorkspace, solveSite } from './siteProblem.js';
+import { createSiteObservables, createSiteWorkspace, solveSite } from './site/index.js';
 
 export interface PhaseMapRequest {
   zJMax: number;

@@ -4,7 +4,7 @@
 // result is bit-identical for any split, i.e. for any thread count.
 
 import { Piscina } from 'piscina';
-import { createSiteWorkspace } from './siteProblem.js';
+import { createSiteWorkspace } from './site/siteWorkspace.js';
 import type { SolverState } from './solverState.js';
 import { measureRows, sweepColour } from './sweepKernel.js';
 import type { SweepTask } from './sweepWorker.js';
@@ -63,7 +63,8 @@ export function createSweepExecutor(state: SolverState, pool: SweepPool | null, 
   const rowCount = state.layout.inner[0] * state.layout.inner[1];
   const useThreads = pool === null ? 1 : Math.max(1, Math.min(threads, rowCount));
   const ranges = rowRanges(rowCount, useThreads);
-  const layoutId = `${process.pid}-${++layoutCounter}`;
+  // Workers cache array views per layout; a per-module counter names the layout (no process state).
+  const layoutId = ++layoutCounter;
 
   if (useThreads === 1 || pool === null) {
     return {

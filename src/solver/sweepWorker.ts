@@ -2,13 +2,13 @@
 // range of rows of shared solver state. The array views are rebuilt only when a task
 // refers to a layout this worker has not seen yet.
 
-import { createSiteWorkspace, type SiteWorkspace } from './siteProblem.js';
+import { createSiteWorkspace, type SiteWorkspace } from './site/siteWorkspace.js';
 import { viewsOf, type SolverLayout, type SolverState } from './solverState.js';
 import { measureRows, sweepColour } from './sweepKernel.js';
 
 export interface SweepTask {
   layout: SolverLayout;
-  layoutId: string;
+  layoutId: number;
   kind: 'sweep' | 'measure';
   colour: number;
   rowStart: number;
@@ -17,7 +17,7 @@ export interface SweepTask {
   temperature: number;
 }
 
-let cachedId = '';
+let cachedId = -1;
 let cached: SolverState | null = null;
 let workspace: SiteWorkspace | null = null;
 
