@@ -14,6 +14,7 @@ import { registerKeys } from './keysCommand.js';
 import { registerEnsemble } from './ensembleCommand.js';
 import { registerMerge } from './mergeCommand.js';
 import { toolVersion } from '../output/toolVersion.js';
+import { parseKernelChoice, setDefaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 
 /** Commands set this when they finish with a non-zero status without throwing. */
 export interface CommandContext {
@@ -68,6 +69,17 @@ export async function runCli(argv: string[]): Promise<number> {
 }
 
 export function main(): void {
+  // TIERCAKE_KERNEL=js forces the JavaScript reference kernel (CI runs both paths).
+  const kernel = process.env.TIERCAKE_KERNEL;
+  if (kernel !== undefined && kernel !== '') {
+    try {
+      setDefaultKernelChoice(parseKernelChoice(kernel, 'TIERCAKE_KERNEL'));
+    } catch (err) {
+      process.stderr.write(`tiercake: ${err instanceof Error ? err.message : String(err)}\n`);
+      process.exitCode = ExitCode.badInput;
+      return;
+    }
+  }
   runCli(process.argv.slice(2)).then(
     (code) => {
       process.exitCode = code;

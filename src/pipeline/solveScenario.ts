@@ -8,6 +8,8 @@ import { loadScenario } from '../scenario/loadScenario.js';
 import { estimateMemoryBytes, resolveScenario, type ResolvedScenario } from '../scenario/resolveScenario.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
 import { runLattice, type RunOutcome, type RunProgress } from '../solver/runLattice.js';
+import { kernelModule } from '../solver/kernel/kernelModule.js';
+import { defaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 import { createSweepExecutor, createSweepPool, type SweepPool } from '../solver/sweepExecutor.js';
 import { siteFieldsOf, type SiteFields } from '../observables/siteFields.js';
 import type { SiteClassification } from '../observables/siteClassification.js';
@@ -130,6 +132,11 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
   const chemical =
     options.resume && resolved.chemical.kind === 'atoms' ? { ...resolved.chemical, muGuess: options.resume.mu } : resolved.chemical;
   const threads = model.geometry.siteCount >= PARALLEL_MIN_SITES ? options.threads : 1;
+  // TIERCAKE_KERNEL (set process-wide by the command line) overrides the scenario.
+  const kernel = defaultKernelChoice() !== 'auto' ? defaultKernelChoice() : scenario.solver.kernel;
+  if (kernel === 'wasm' && kernelModule.module === null) {
+    throw new InputError(`solver.kernel: "wasm" is not available: ${kernelModule.reason}; use "auto" or "js"`);
+  }
   let pool: SweepPool | null = null;
   if (threads > 1) {
     pool = createSweepPool({ workers: threads - 1, ...(options.pool ? { filename: options.pool.filename, execArgv: options.pool.execArgv } : {}) });
@@ -144,7 +151,7 @@ export async function solveScenario(options: SolveRunOptions): Promise<SolveArti
         ...(options.initialPhi ? { initialPhi: options.initialPhi } : {}),
         ...(options.resume ? { initialPhi: options.resume.phi } : {}),
       },
-      (state) => createSweepExecutor(state, pool, threads),
+      (state) => createSweepExecutor(state, pool, threads, { kernel }),
     );
   } finally {
     if (pool) await pool.destroy();

@@ -1,0 +1,244 @@
+// Ground states of two sites of one colour at once, in the two f64x2 lanes of WebAssembly
+// SIMD: the warm path of groundScalar.ts (Laguerre's method on the characteristic
+// polynomial from the Hellmann-Feynman estimate, eigenvector from the adjugate; Usmani,
+// Linear Algebra Appl. 212/213, 413 (1994)) with every data-dependent branch replaced by a
+// lane mask, so that each lane performs exactly the operations of the scalar code and
+// gives the same doubles. A lane whose estimate lands on an excited state (a vector with a
+// sign change) is redone by the scalar code from its Weyl bound, as in the reference.
+
+import { groundEnergy, solveGroundScalar } from './groundScalar';
+import { P_AMP, P_CURV, P_DIAG, P_INDEX, P_LEAD, P_OFFSQ, P_SLOPE, P_SQRTUP, P_TRAIL } from './scratch';
+import { epsPtr, f64At, interactionAt, lowerPtr, phiPtr, psiPrevPtr } from './lattice';
+
+let base: i32 = 0;
+let stateCount: i32 = 0;
+
+export let pairPhiA: f64 = 0.0;
+export let pairPhiB: f64 = 0.0;
+export let pairEnergyA: f64 = 0.0;
+export let pairEnergyB: f64 = 0.0;
+
+export function setPairScratch(slot: i32, count: i32): void {
+  base = slot;
+  stateCount = count;
+  for (let k = 0; k < count; k++) {
+    v128.store(slot + (k << 4), f64x2.splat(<f64>k), P_INDEX);
+    v128.store(slot + (k << 4), f64x2.splat(Math.sqrt(<f64>(k + 1))), P_SQRTUP);
+  }
+}
+
+@inline function pair(a: f64, b: f64): v128 {
+  return f64x2.replace_lane(f64x2.splat(a), 1, b);
+}
+@inline function select(ifSet: v128, otherwise: v128, mask: v128): v128 {
+  return v128.bitselect(ifSet, otherwise, mask);
+}
+
+/**
+ * Sites i and i + 2 with mean fields psiA, psiB. Returns false (nothing done) when a lane
+ * has no warm start or psi <= 0: the caller then updates both with the scalar code.
+ */
+export function solveGroundPair(i: i32, psiA: f64, psiB: f64, mu: f64, coupling: f64): bool {
+  const prevA = f64At(lowerPtr, i);
+  const prevB = f64At(lowerPtr, i + 2);
+  if (!(prevA == prevA) || !(prevB == prevB) || !(psiA > 0) || !(psiB > 0)) return false;
+  const b = base;
+  const states = stateCount;
+  const last = states - 1;
+  const one = f64x2.splat(1.0);
+  const zero = f64x2.splat(0.0);
+  const u = pair(interactionAt(i), interactionAt(i + 2));
+  const muLocal = f64x2.sub(f64x2.splat(mu), pair(f64At(epsPtr, i), f64At(epsPtr, i + 2)));
+  const psi = pair(psiA, psiB);
+  const prev = pair(prevA, prevB);
+  const dPsi = f64x2.sub(psi, pair(f64At(psiPrevPtr, i), f64At(psiPrevPtr, i + 2)));
+  const phiOld = pair(f64At(phiPtr, i), f64At(phiPtr, i + 2));
+  // bound = prev - |dPsi| coupling - 1e-12 (|prev| + u); estimate = prev - 2 phi dPsi
+  const bound = f64x2.sub(
+    f64x2.sub(prev, f64x2.mul(f64x2.abs(dPsi), f64x2.splat(coupling))),
+    f64x2.mul(f64x2.splat(1e-12), f64x2.add(f64x2.abs(prev), u)),
+  );
+  const estimate = f64x2.sub(prev, f64x2.mul(f64x2.mul(f64x2.splat(2.0), phiOld), dPsi));
+  const psiSq = f64x2.mul(psi, psi);
+
+  // First Laguerre evaluation at the estimate, with the diagonal a_k (by increments, as in
+  // the reference), the squared off-diagonals psi^2 (k + 1) and the smallest diagonal entry
+  // built on the way. Leading determinants and their two lambda-derivatives are kept.
+  let lambda = estimate;
+  let leadAt = estimate;
+  v128.store(b, zero, P_DIAG);
+  v128.store(b, one, P_LEAD);
+  let a = f64x2.sub(f64x2.mul(u, zero), muLocal);
+  let minDiag = zero;
+  let pPrev = one;
+  let dPrev = zero;
+  let ddPrev = zero;
+  let p = f64x2.sub(zero, lambda);
+  let d = f64x2.splat(-1.0);
+  let dd = zero;
+  for (let k = 1; k < states; k++) {
+    const q = b + (k << 4);
+    const index = v128.load(q, P_INDEX);
+    v128.store(q, p, P_LEAD);
+    v128.store(q, d, P_SLOPE);
+    v128.store(q, dd, P_CURV);
+    v128.store(q, a, P_DIAG);
+    minDiag = select(a, minDiag, f64x2.lt(a, minDiag));
+    const e2 = f64x2.mul(psiSq, index);
+    v128.store(q - 16, e2, P_OFFSQ);
+    const shifted = f64x2.sub(a, lambda);
+    a = f64x2.add(a, f64x2.sub(f64x2.mul(u, index), muLocal));
+    const pNew = f64x2.sub(f64x2.mul(shifted, p), f64x2.mul(e2, pPrev));
+    const dNew = f64x2.sub(f64x2.sub(f64x2.mul(shifted, d), p), f64x2.mul(e2, dPrev));
+    const ddNew = f64x2.sub(f64x2.sub(f64x2.mul(shifted, dd), f64x2.add(d, d)), f64x2.mul(e2, ddPrev));
+    pPrev = p;
+    dPrev = d;
+    ddPrev = dd;
+    p = pNew;
+    d = dNew;
+    dd = ddNew;
+  }
+  const degree = f64x2.splat(<f64>states);
+  const degreeLess = f64x2.splat(<f64>last);
+  const minusDegree = f64x2.splat(-<f64>states);
+  const scale = f64x2.add(f64x2.add(f64x2.abs(minDiag), f64x2.abs(u)), psi);
+  const small = f64x2.mul(f64x2.splat(1e-6), scale);
+  let active = f64x2.eq(zero, zero); // all lanes
+  // Laguerre steps; a lane stops at p = 0 or after a step below 1e-6 of the scale. Later
+  // evaluations (rare near convergence) overwrite the stored determinants only in lanes
+  // still moving.
+  for (let iter = 0; iter < 100; iter++) {
+    if (iter > 0) {
+      pPrev = one;
+      dPrev = zero;
+      ddPrev = zero;
+      p = f64x2.sub(zero, lambda);
+      d = f64x2.splat(-1.0);
+      dd = zero;
+      for (let k = 1; k < states; k++) {
+        const q = b + (k << 4);
+        v128.store(q, select(p, v128.load(q, P_LEAD), active), P_LEAD);
+        v128.store(q, select(d, v128.load(q, P_SLOPE), active), P_SLOPE);
+        v128.store(q, select(dd, v128.load(q, P_CURV), active), P_CURV);
+        const shifted = f64x2.sub(v128.load(q, P_DIAG), lambda);
+        const e2 = v128.load(q - 16, P_OFFSQ);
+        const pNew = f64x2.sub(f64x2.mul(shifted, p), f64x2.mul(e2, pPrev));
+        const dNew = f64x2.sub(f64x2.sub(f64x2.mul(shifted, d), p), f64x2.mul(e2, dPrev));
+        const ddNew = f64x2.sub(f64x2.sub(f64x2.mul(shifted, dd), f64x2.add(d, d)), f64x2.mul(e2, ddPrev));
+        pPrev = p;
+        dPrev = d;
+        ddPrev = dd;
+        p = pNew;
+        d = dNew;
+        dd = ddNew;
+      }
+    }
+    const stepping = v128.andnot(active, f64x2.eq(p, zero));
+    const invP = f64x2.div(one, p);
+    const g = f64x2.mul(d, invP);
+    const h = f64x2.sub(f64x2.mul(g, g), f64x2.mul(dd, invP));
+    const disc = f64x2.mul(degreeLess, f64x2.sub(f64x2.mul(degree, h), f64x2.mul(g, g)));
+    const root = f64x2.sqrt(select(disc, zero, f64x2.gt(disc, zero)));
+    const den = select(f64x2.sub(g, root), f64x2.add(g, root), f64x2.lt(g, zero));
+    const step = f64x2.div(minusDegree, den);
+    lambda = select(f64x2.add(lambda, step), lambda, stepping);
+    active = v128.and(stepping, f64x2.gt(f64x2.abs(step), small));
+    if (!v128.any_true(active)) break;
+    leadAt = select(lambda, leadAt, active);
+  }
+
+  // Leading determinants carried to lambda (second-order Taylor step) or recomputed.
+  const moved = f64x2.sub(lambda, leadAt);
+  const taylor = f64x2.le(f64x2.abs(moved), f64x2.mul(f64x2.splat(1e-5), scale));
+  const half = f64x2.mul(f64x2.mul(f64x2.splat(0.5), moved), moved);
+  if (i64x2.all_true(taylor)) {
+    for (let k = 1; k < states; k++) {
+      const q = b + (k << 4);
+      v128.store(q, f64x2.add(v128.load(q, P_LEAD), f64x2.add(f64x2.mul(moved, v128.load(q, P_SLOPE)), f64x2.mul(half, v128.load(q, P_CURV)))), P_LEAD);
+    }
+  } else {
+    let lPrev = one;
+    let l = f64x2.sub(zero, lambda);
+    for (let k = 1; k < states; k++) {
+      const q = b + (k << 4);
+      const carried = f64x2.add(v128.load(q, P_LEAD), f64x2.add(f64x2.mul(moved, v128.load(q, P_SLOPE)), f64x2.mul(half, v128.load(q, P_CURV))));
+      v128.store(q, select(carried, l, taylor), P_LEAD);
+      const lNew = f64x2.sub(f64x2.mul(f64x2.sub(v128.load(q, P_DIAG), lambda), l), f64x2.mul(v128.load(q - 16, P_OFFSQ), lPrev));
+      lPrev = l;
+      l = lNew;
+    }
+  }
+  // Trailing determinants and the twist index (largest adjugate diagonal entry), with the
+  // leading and trailing determinants at the twist.
+  const qLast = b + (last << 4);
+  v128.store(qLast, one, P_TRAIL);
+  let qNext = one;
+  let t = f64x2.sub(v128.load(qLast, P_DIAG), lambda);
+  let twist = v128.load(qLast, P_INDEX);
+  let best = v128.load(qLast, P_LEAD);
+  let leadTwist = best;
+  let trailTwist = one;
+  for (let k = last - 1; k >= 0; k--) {
+    const q = b + (k << 4);
+    v128.store(q, t, P_TRAIL);
+    const leadK = v128.load(q, P_LEAD);
+    const weight = f64x2.mul(leadK, t);
+    const better = f64x2.gt(weight, best);
+    best = select(weight, best, better);
+    twist = select(v128.load(q, P_INDEX), twist, better);
+    leadTwist = select(leadK, leadTwist, better);
+    trailTwist = select(t, trailTwist, better);
+    const tNew = f64x2.sub(f64x2.mul(f64x2.sub(v128.load(q, P_DIAG), lambda), t), f64x2.mul(v128.load(q, P_OFFSQ), qNext));
+    qNext = t;
+    t = tNew;
+  }
+  // Adjugate column at the twist: outward products of |e_j| = psi sqrt(j + 1).
+  const invLead = f64x2.div(one, leadTwist);
+  const invTrail = f64x2.div(one, trailTwist);
+  let norm = one;
+  let prod = one;
+  let negative = zero;
+  for (let k = last - 1; k >= 0; k--) {
+    const q = b + (k << 4);
+    const below = f64x2.lt(v128.load(q, P_INDEX), twist);
+    prod = select(f64x2.mul(prod, f64x2.mul(psi, v128.load(q, P_SQRTUP))), prod, below);
+    const x = f64x2.mul(f64x2.mul(v128.load(q, P_LEAD), invLead), prod);
+    v128.store(q, select(x, one, below), P_AMP);
+    norm = select(f64x2.add(norm, f64x2.mul(x, x)), norm, below);
+    negative = v128.or(negative, v128.andnot(below, f64x2.ge(x, zero)));
+  }
+  v128.store(qLast, one, P_AMP);
+  prod = one;
+  for (let k = 1; k < states; k++) {
+    const q = b + (k << 4);
+    const above = f64x2.gt(v128.load(q, P_INDEX), twist);
+    prod = select(f64x2.mul(prod, f64x2.mul(psi, v128.load(q - 16, P_SQRTUP))), prod, above);
+    const x = f64x2.mul(f64x2.mul(v128.load(q, P_TRAIL), invTrail), prod);
+    v128.store(q, select(x, v128.load(q, P_AMP), above), P_AMP);
+    norm = select(f64x2.add(norm, f64x2.mul(x, x)), norm, above);
+    negative = v128.or(negative, v128.andnot(above, f64x2.ge(x, zero)));
+  }
+  const scaleAmp = f64x2.div(one, f64x2.sqrt(norm));
+  let previous = f64x2.mul(v128.load(b, P_AMP), scaleAmp);
+  let phi = zero;
+  for (let k = 1; k < states; k++) {
+    const q = b + (k << 4);
+    const ak = f64x2.mul(v128.load(q, P_AMP), scaleAmp);
+    phi = f64x2.add(phi, f64x2.mul(f64x2.mul(v128.load(q - 16, P_SQRTUP), previous), ak));
+    previous = ak;
+  }
+  pairPhiA = f64x2.extract_lane(phi, 0);
+  pairPhiB = f64x2.extract_lane(phi, 1);
+  pairEnergyA = f64x2.extract_lane(lambda, 0);
+  pairEnergyB = f64x2.extract_lane(lambda, 1);
+  // A lane on an excited state: the scalar path from the Weyl bound, as in the reference.
+  if (i64x2.extract_lane(negative, 0) != 0) {
+    pairPhiA = solveGroundScalar(f64x2.extract_lane(u, 0), f64x2.extract_lane(muLocal, 0), psiA, f64x2.extract_lane(bound, 0), NaN);
+    pairEnergyA = groundEnergy;
+  }
+  if (i64x2.extract_lane(negative, 1) != 0) {
+    pairPhiB = solveGroundScalar(f64x2.extract_lane(u, 1), f64x2.extract_lane(muLocal, 1), psiB, f64x2.extract_lane(bound, 1), NaN);
+    pairEnergyB = groundEnergy;
+  }
+  return true;
+}
