@@ -83,7 +83,7 @@ export function solveGroundPair(i: i32, psiA: f64, psiB: f64, mu: f64, coupling:
     v128.store(q, d, P_SLOPE);
     v128.store(q, dd, P_CURV);
     v128.store(q, a, P_DIAG);
-    minDiag = select(a, minDiag, f64x2.lt(a, minDiag));
+    minDiag = f64x2.pmin(minDiag, a); // (a < minDiag) ? a : minDiag, as in the reference
     const e2 = f64x2.mul(psiSq, index);
     v128.store(q - 16, e2, P_OFFSQ);
     const shifted = f64x2.sub(a, lambda);
@@ -138,7 +138,7 @@ export function solveGroundPair(i: i32, psiA: f64, psiB: f64, mu: f64, coupling:
     const g = f64x2.mul(d, invP);
     const h = f64x2.sub(f64x2.mul(g, g), f64x2.mul(dd, invP));
     const disc = f64x2.mul(degreeLess, f64x2.sub(f64x2.mul(degree, h), f64x2.mul(g, g)));
-    const root = f64x2.sqrt(select(disc, zero, f64x2.gt(disc, zero)));
+    const root = f64x2.sqrt(f64x2.pmax(zero, disc)); // disc > 0 ? disc : 0
     const den = select(f64x2.sub(g, root), f64x2.add(g, root), f64x2.lt(g, zero));
     const step = f64x2.div(minusDegree, den);
     lambda = select(f64x2.add(lambda, step), lambda, stepping);
@@ -168,55 +168,82 @@ export function solveGroundPair(i: i32, psiA: f64, psiB: f64, mu: f64, coupling:
       l = lNew;
     }
   }
-  // Trailing determinants and the twist index (largest adjugate diagonal entry), with the
-  // leading and trailing determinants at the twist.
+  // Trailing determinants and the twist index (largest adjugate diagonal entry).
   const qLast = b + (last << 4);
   v128.store(qLast, one, P_TRAIL);
   let qNext = one;
   let t = f64x2.sub(v128.load(qLast, P_DIAG), lambda);
   let twist = v128.load(qLast, P_INDEX);
   let best = v128.load(qLast, P_LEAD);
-  let leadTwist = best;
-  let trailTwist = one;
   for (let k = last - 1; k >= 0; k--) {
     const q = b + (k << 4);
     v128.store(q, t, P_TRAIL);
-    const leadK = v128.load(q, P_LEAD);
-    const weight = f64x2.mul(leadK, t);
-    const better = f64x2.gt(weight, best);
-    best = select(weight, best, better);
-    twist = select(v128.load(q, P_INDEX), twist, better);
-    leadTwist = select(leadK, leadTwist, better);
-    trailTwist = select(t, trailTwist, better);
+    const weight = f64x2.mul(v128.load(q, P_LEAD), t);
+    twist = select(v128.load(q, P_INDEX), twist, f64x2.gt(weight, best));
+    best = f64x2.pmax(best, weight); // (weight > best) ? weight : best
     const tNew = f64x2.sub(f64x2.mul(f64x2.sub(v128.load(q, P_DIAG), lambda), t), f64x2.mul(v128.load(q, P_OFFSQ), qNext));
     qNext = t;
     t = tNew;
   }
   // Adjugate column at the twist: outward products of |e_j| = psi sqrt(j + 1).
-  const invLead = f64x2.div(one, leadTwist);
-  const invTrail = f64x2.div(one, trailTwist);
   let norm = one;
-  let prod = one;
   let negative = zero;
-  for (let k = last - 1; k >= 0; k--) {
-    const q = b + (k << 4);
-    const below = f64x2.lt(v128.load(q, P_INDEX), twist);
-    prod = select(f64x2.mul(prod, f64x2.mul(psi, v128.load(q, P_SQRTUP))), prod, below);
-    const x = f64x2.mul(f64x2.mul(v128.load(q, P_LEAD), invLead), prod);
-    v128.store(q, select(x, one, below), P_AMP);
-    norm = select(f64x2.add(norm, f64x2.mul(x, x)), norm, below);
-    negative = v128.or(negative, v128.andnot(below, f64x2.ge(x, zero)));
-  }
-  v128.store(qLast, one, P_AMP);
-  prod = one;
-  for (let k = 1; k < states; k++) {
-    const q = b + (k << 4);
-    const above = f64x2.gt(v128.load(q, P_INDEX), twist);
-    prod = select(f64x2.mul(prod, f64x2.mul(psi, v128.load(q - 16, P_SQRTUP))), prod, above);
-    const x = f64x2.mul(f64x2.mul(v128.load(q, P_TRAIL), invTrail), prod);
-    v128.store(q, select(x, v128.load(q, P_AMP), above), P_AMP);
-    norm = select(f64x2.add(norm, f64x2.mul(x, x)), norm, above);
-    negative = v128.or(negative, v128.andnot(above, f64x2.ge(x, zero)));
+  const twistA = <i32>f64x2.extract_lane(twist, 0);
+  const twistB = <i32>f64x2.extract_lane(twist, 1);
+  if (twistA == twistB) {
+    // Both lanes share the twist (the usual case): the loops of the reference, unmasked.
+    const r = b + (twistA << 4);
+    const invLead = f64x2.div(one, v128.load(r, P_LEAD));
+    const invTrail = f64x2.div(one, v128.load(r, P_TRAIL));
+    v128.store(r, one, P_AMP);
+    let prod = one;
+    for (let k = twistA - 1; k >= 0; k--) {
+      const q = b + (k << 4);
+      prod = f64x2.mul(prod, f64x2.mul(psi, v128.load(q, P_SQRTUP)));
+      const x = f64x2.mul(f64x2.mul(v128.load(q, P_LEAD), invLead), prod);
+      v128.store(q, x, P_AMP);
+      norm = f64x2.add(norm, f64x2.mul(x, x));
+      negative = v128.or(negative, v128.not(f64x2.ge(x, zero)));
+    }
+    prod = one;
+    for (let k = twistA + 1; k < states; k++) {
+      const q = b + (k << 4);
+      prod = f64x2.mul(prod, f64x2.mul(psi, v128.load(q - 16, P_SQRTUP)));
+      const x = f64x2.mul(f64x2.mul(v128.load(q, P_TRAIL), invTrail), prod);
+      v128.store(q, x, P_AMP);
+      norm = f64x2.add(norm, f64x2.mul(x, x));
+      negative = v128.or(negative, v128.not(f64x2.ge(x, zero)));
+    }
+  } else {
+    // Different twists: both directions for every k with lane masks. A masked-out term adds
+    // +0 (x*x & 0), which leaves the sum as it is.
+    const rA = b + (twistA << 4);
+    const rB = b + (twistB << 4);
+    const leadTwist = pair(load<f64>(rA, P_LEAD), load<f64>(rB, P_LEAD + 8));
+    const trailTwist = pair(load<f64>(rA, P_TRAIL), load<f64>(rB, P_TRAIL + 8));
+    const invLead = f64x2.div(one, leadTwist);
+    const invTrail = f64x2.div(one, trailTwist);
+    let prod = one;
+    for (let k = last - 1; k >= 0; k--) {
+      const q = b + (k << 4);
+      const below = f64x2.lt(v128.load(q, P_INDEX), twist);
+      prod = select(f64x2.mul(prod, f64x2.mul(psi, v128.load(q, P_SQRTUP))), prod, below);
+      const x = f64x2.mul(f64x2.mul(v128.load(q, P_LEAD), invLead), prod);
+      v128.store(q, select(x, one, below), P_AMP);
+      norm = f64x2.add(norm, v128.and(f64x2.mul(x, x), below));
+      negative = v128.or(negative, v128.andnot(below, f64x2.ge(x, zero)));
+    }
+    v128.store(qLast, one, P_AMP);
+    prod = one;
+    for (let k = 1; k < states; k++) {
+      const q = b + (k << 4);
+      const above = f64x2.gt(v128.load(q, P_INDEX), twist);
+      prod = select(f64x2.mul(prod, f64x2.mul(psi, v128.load(q - 16, P_SQRTUP))), prod, above);
+      const x = f64x2.mul(f64x2.mul(v128.load(q, P_TRAIL), invTrail), prod);
+      v128.store(q, select(x, v128.load(q, P_AMP), above), P_AMP);
+      norm = f64x2.add(norm, v128.and(f64x2.mul(x, x), above));
+      negative = v128.or(negative, v128.andnot(above, f64x2.ge(x, zero)));
+    }
   }
   const scaleAmp = f64x2.div(one, f64x2.sqrt(norm));
   let previous = f64x2.mul(v128.load(b, P_AMP), scaleAmp);
