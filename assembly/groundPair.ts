@@ -34,25 +34,34 @@ export function setPairScratch(slot: i32, count: i32): void {
   return v128.bitselect(ifSet, otherwise, mask);
 }
 
+/** solveGroundPair results */
+export const PAIR_NOT_APPLICABLE = 0;
+export const PAIR_SOLVED = 1;
+/** solved, but a lane needed the scalar fall-back (its amplitudes are not in P_AMP) */
+export const PAIR_FALLBACK = 2;
+
 /**
- * Sites i and i + 2 with mean fields psiA, psiB. Returns false (nothing done) when a lane
- * has no warm start or psi <= 0: the caller then updates both with the scalar code.
+ * Ground states of sites iA and iB (mean fields psiA, psiB), warm-started from the stored
+ * lower energies like the sweeps: phi and energy per lane in pairPhi* / pairEnergy*, the
+ * normalised amplitudes in P_AMP. Returns PAIR_NOT_APPLICABLE (nothing done) when a lane
+ * has no warm start or psi <= 0: the caller then uses the scalar code for both.
  */
-export function solveGroundPair(i: i32, psiA: f64, psiB: f64, mu: f64, coupling: f64): bool {
-  const prevA = f64At(lowerPtr, i);
-  const prevB = f64At(lowerPtr, i + 2);
-  if (!(prevA == prevA) || !(prevB == prevB) || !(psiA > 0) || !(psiB > 0)) return false;
+export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64, coupling: f64): i32 {
+  const i = iA;
+  const prevA = f64At(lowerPtr, iA);
+  const prevB = f64At(lowerPtr, iB);
+  if (!(prevA == prevA) || !(prevB == prevB) || !(psiA > 0) || !(psiB > 0)) return PAIR_NOT_APPLICABLE;
   const b = base;
   const states = stateCount;
   const last = states - 1;
   const one = f64x2.splat(1.0);
   const zero = f64x2.splat(0.0);
-  const u = pair(interactionAt(i), interactionAt(i + 2));
-  const muLocal = f64x2.sub(f64x2.splat(mu), pair(f64At(epsPtr, i), f64At(epsPtr, i + 2)));
+  const u = pair(interactionAt(i), interactionAt(iB));
+  const muLocal = f64x2.sub(f64x2.splat(mu), pair(f64At(epsPtr, i), f64At(epsPtr, iB)));
   const psi = pair(psiA, psiB);
   const prev = pair(prevA, prevB);
-  const dPsi = f64x2.sub(psi, pair(f64At(psiPrevPtr, i), f64At(psiPrevPtr, i + 2)));
-  const phiOld = pair(f64At(phiPtr, i), f64At(phiPtr, i + 2));
+  const dPsi = f64x2.sub(psi, pair(f64At(psiPrevPtr, i), f64At(psiPrevPtr, iB)));
+  const phiOld = pair(f64At(phiPtr, i), f64At(phiPtr, iB));
   // bound = prev - |dPsi| coupling - 1e-12 (|prev| + u); estimate = prev - 2 phi dPsi
   const bound = f64x2.sub(
     f64x2.sub(prev, f64x2.mul(f64x2.abs(dPsi), f64x2.splat(coupling))),
@@ -247,10 +256,12 @@ export function solveGroundPair(i: i32, psiA: f64, psiB: f64, mu: f64, coupling:
   }
   const scaleAmp = f64x2.div(one, f64x2.sqrt(norm));
   let previous = f64x2.mul(v128.load(b, P_AMP), scaleAmp);
+  v128.store(b, previous, P_AMP);
   let phi = zero;
   for (let k = 1; k < states; k++) {
     const q = b + (k << 4);
     const ak = f64x2.mul(v128.load(q, P_AMP), scaleAmp);
+    v128.store(q, ak, P_AMP);
     phi = f64x2.add(phi, f64x2.mul(f64x2.mul(v128.load(q - 16, P_SQRTUP), previous), ak));
     previous = ak;
   }
@@ -259,6 +270,7 @@ export function solveGroundPair(i: i32, psiA: f64, psiB: f64, mu: f64, coupling:
   pairEnergyA = f64x2.extract_lane(lambda, 0);
   pairEnergyB = f64x2.extract_lane(lambda, 1);
   // A lane on an excited state: the scalar path from the Weyl bound, as in the reference.
+  if (!v128.any_true(negative)) return PAIR_SOLVED;
   if (i64x2.extract_lane(negative, 0) != 0) {
     pairPhiA = solveGroundScalar(f64x2.extract_lane(u, 0), f64x2.extract_lane(muLocal, 0), psiA, f64x2.extract_lane(bound, 0), NaN);
     pairEnergyA = groundEnergy;
@@ -267,5 +279,32 @@ export function solveGroundPair(i: i32, psiA: f64, psiB: f64, mu: f64, coupling:
     pairPhiB = solveGroundScalar(f64x2.extract_lane(u, 1), f64x2.extract_lane(muLocal, 1), psiB, f64x2.extract_lane(bound, 1), NaN);
     pairEnergyB = groundEnergy;
   }
-  return true;
+  return PAIR_FALLBACK;
+}
+
+export let pairDensity: v128 = f64x2.splat(0.0);
+export let pairDensitySq: v128 = f64x2.splat(0.0);
+export let pairParityOdd: v128 = f64x2.splat(0.0);
+export let pairTopWeight: v128 = f64x2.splat(0.0);
+
+/** Site observables of both lanes from P_AMP (the operations of groundObservables). */
+export function pairObservables(): void {
+  const b = base;
+  const states = stateCount;
+  let density = f64x2.splat(0.0);
+  let densitySq = f64x2.splat(0.0);
+  let odd = f64x2.splat(0.0);
+  for (let n = 0; n < states; n++) {
+    const q = b + (n << 4);
+    const a = v128.load(q, P_AMP);
+    const p = f64x2.mul(a, a);
+    density = f64x2.add(density, f64x2.mul(v128.load(q, P_INDEX), p));
+    densitySq = f64x2.add(densitySq, f64x2.mul(f64x2.splat(<f64>(n * n)), p));
+    if (n & 1) odd = f64x2.add(odd, p);
+  }
+  pairDensity = density;
+  pairDensitySq = densitySq;
+  pairParityOdd = odd;
+  const top = v128.load(b + ((states - 1) << 4), P_AMP);
+  pairTopWeight = f64x2.mul(top, top);
 }

@@ -5,7 +5,21 @@
 // f64x2 lanes (groundPair.ts). Built by `npm run build` (scripts/build-kernel.mjs).
 
 import { groundEnergy, groundObservables, obsDensity, obsDensitySq, obsParityOdd, obsTopWeight, setGroundScratch, solveGroundScalar } from './groundScalar';
-import { setPairScratch, solveGroundPair, pairPhiA, pairPhiB, pairEnergyA, pairEnergyB } from './groundPair';
+import {
+  PAIR_NOT_APPLICABLE,
+  PAIR_SOLVED,
+  pairDensity,
+  pairDensitySq,
+  pairEnergyA,
+  pairEnergyB,
+  pairObservables,
+  pairParityOdd,
+  pairPhiA,
+  pairPhiB,
+  pairTopWeight,
+  setPairScratch,
+  solveGroundPair,
+} from './groundPair';
 import {
   setThermalScratch,
   solveSiteThermal,
@@ -130,7 +144,7 @@ export function sweepColour(colour: i32, rowStart: i32, rowEnd: i32, mu: f64, te
         const i = base + c;
         const psiA = sweepMeanField(i, c, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
         const psiB = sweepMeanField(i + 2, c + 2, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
-        if (solveGroundPair(i, psiA, psiB, mu, coupling)) {
+        if (solveGroundPair(i, i + 2, psiA, psiB, mu, coupling) != PAIR_NOT_APPLICABLE) {
           store<f64>(lowerPtr + (i << 3), pairEnergyA);
           store<f64>(psiPrevPtr + (i << 3), psiA);
           commit(i, pairPhiA);
@@ -151,39 +165,78 @@ export function sweepColour(colour: i32, rowStart: i32, rowEnd: i32, mu: f64, te
   return maxChange;
 }
 
-/** The measuring pass (measureRows) over rows [rowStart, rowEnd). */
+/** Ground-state observables of site i at mean field psi (warm start, scalar). */
+function measureGround(i: i32, psi: f64, mu: f64, coupling: f64): void {
+  const u = interactionAt(i);
+  const prev = f64At(lowerPtr, i);
+  const dPsi = psi - f64At(psiPrevPtr, i);
+  const bound = prev == prev ? prev - Math.abs(dPsi) * coupling - 1e-12 * (Math.abs(prev) + u) : NaN;
+  const estimate = prev == prev ? prev - 2.0 * f64At(phiPtr, i) * dPsi : NaN;
+  solveGroundScalar(u, mu - f64At(epsPtr, i), psi, bound, estimate);
+  groundObservables();
+  const at = i << 3;
+  store<f64>(densityPtr + at, obsDensity);
+  store<f64>(densitySqPtr + at, obsDensitySq);
+  store<f64>(parityOddPtr + at, obsParityOdd);
+  store<f64>(topWeightPtr + at, obsTopWeight);
+  store<f64>(entropyPtr + at, 0.0);
+  store<f64>(psiPtr + at, psi);
+  store<f64>(grandPotentialPtr + at, groundEnergy + psi * f64At(phiPtr, i));
+}
+
+@inline function storePairLane(i: i32, psi: f64, energy: f64, density: f64, densitySq: f64, parityOdd: f64, topWeight: f64): void {
+  const at = i << 3;
+  store<f64>(densityPtr + at, density);
+  store<f64>(densitySqPtr + at, densitySq);
+  store<f64>(parityOddPtr + at, parityOdd);
+  store<f64>(topWeightPtr + at, topWeight);
+  store<f64>(entropyPtr + at, 0.0);
+  store<f64>(psiPtr + at, psi);
+  store<f64>(grandPotentialPtr + at, energy + psi * f64At(phiPtr, i));
+}
+
+/**
+ * The measuring pass (measureRows) over rows [rowStart, rowEnd). At T = 0 warm-started like
+ * the sweeps, neighbouring sites in pairs of f64x2 lanes.
+ */
 export function measureRows(rowStart: i32, rowEnd: i32, mu: f64, temperature: f64): void {
+  const coupling = 2.0 * Math.sqrt(<f64>nmax);
   for (let row = rowStart; row < rowEnd; row++) {
     const a = row / n1;
     const b = row - a * n1;
     const base = row * n2;
-    for (let c = 0; c < n2; c++) {
-      const i = base + c;
-      const psi = measureMeanField(i, a, b, c);
-      const u = interactionAt(i);
-      const muLocal = mu - f64At(epsPtr, i);
-      let energy: f64;
-      const at = i << 3;
-      if (temperature > 0) {
-        solveSiteThermal(u, muLocal, psi, temperature, true);
+    if (temperature > 0) {
+      for (let c = 0; c < n2; c++) {
+        const i = base + c;
+        const psi = measureMeanField(i, a, b, c);
+        solveSiteThermal(interactionAt(i), mu - f64At(epsPtr, i), psi, temperature, true);
+        const at = i << 3;
         store<f64>(densityPtr + at, thermalDensity);
         store<f64>(densitySqPtr + at, thermalDensitySq);
         store<f64>(parityOddPtr + at, thermalParityOdd);
         store<f64>(topWeightPtr + at, thermalTopWeight);
         store<f64>(entropyPtr + at, thermalEntropy);
-        energy = thermalEnergy;
-      } else {
-        solveGroundScalar(u, muLocal, psi, NaN, NaN);
-        groundObservables();
-        store<f64>(densityPtr + at, obsDensity);
-        store<f64>(densitySqPtr + at, obsDensitySq);
-        store<f64>(parityOddPtr + at, obsParityOdd);
-        store<f64>(topWeightPtr + at, obsTopWeight);
-        store<f64>(entropyPtr + at, 0.0);
-        energy = groundEnergy;
+        store<f64>(psiPtr + at, psi);
+        store<f64>(grandPotentialPtr + at, thermalEnergy + psi * f64At(phiPtr, i));
       }
-      store<f64>(psiPtr + at, psi);
-      store<f64>(grandPotentialPtr + at, energy + psi * f64At(phiPtr, i));
+      continue;
     }
+    let c = 0;
+    if (!scalarOnly) {
+      for (; c + 1 < n2; c += 2) {
+        const i = base + c;
+        const psiA = measureMeanField(i, a, b, c);
+        const psiB = measureMeanField(i + 1, a, b, c + 1);
+        if (solveGroundPair(i, i + 1, psiA, psiB, mu, coupling) == PAIR_SOLVED) {
+          pairObservables();
+          storePairLane(i, psiA, pairEnergyA, f64x2.extract_lane(pairDensity, 0), f64x2.extract_lane(pairDensitySq, 0), f64x2.extract_lane(pairParityOdd, 0), f64x2.extract_lane(pairTopWeight, 0));
+          storePairLane(i + 1, psiB, pairEnergyB, f64x2.extract_lane(pairDensity, 1), f64x2.extract_lane(pairDensitySq, 1), f64x2.extract_lane(pairParityOdd, 1), f64x2.extract_lane(pairTopWeight, 1));
+        } else {
+          measureGround(i, psiA, mu, coupling);
+          measureGround(i + 1, psiB, mu, coupling);
+        }
+      }
+    }
+    for (; c < n2; c++) measureGround(base + c, measureMeanField(base + c, a, b, c), mu, coupling);
   }
 }
