@@ -28,9 +28,9 @@ import {
   thermalEnergy,
   thermalEntropy,
   thermalParityOdd,
-  thermalSweepUpdate,
   thermalTopWeight,
 } from './thermalScalar';
+import { setWarmScratch, thermalSweepUpdate } from './thermalWarm';
 import {
   couplingsPtr,
   deltaPtr,
@@ -68,6 +68,7 @@ export function setScratch(slot: i32): void {
   setGroundScratch(slot, states);
   setThermalScratch(slot, states);
   setPairScratch(slot, states);
+  setWarmScratch(slot, states);
 }
 
 /** 0: pairs of sites in f64x2 lanes; 1: one site at a time (both give the same doubles) */

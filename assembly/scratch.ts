@@ -33,4 +33,6 @@ export const P_AMP: i32 = P_TRAIL + PAIR;
 // constant tables of the pair kernel: (k, k) and (sqrt(k + 1), sqrt(k + 1))
 export const P_INDEX: i32 = P_AMP + PAIR;
 export const P_SQRTUP: i32 = P_INDEX + PAIR;
-export const SCRATCH_END: i32 = P_SQRTUP + PAIR;
+// thermal warm path: indices of the refined levels (i32)
+export const T_LEVELS: i32 = P_SQRTUP + PAIR;
+export const SCRATCH_END: i32 = T_LEVELS + 128;

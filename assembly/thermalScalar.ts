@@ -1,9 +1,9 @@
 // Thermal state of one site, scalar: an operation-for-operation port of
 // src/solver/site/implicitQl.ts (tql1/tql2; Bowdler, Martin, Reinsch & Wilkinson, Numer.
 // Math. 11, 293 (1968)), fullSpectrum.ts, thermalCouplings.ts (<j|b|j> by Hellmann-Feynman
-// on the characteristic polynomial), laguerreStep.ts, thermalWarmStart.ts and
-// thermalState.ts, with fdlibm's exp and log (fdlibm.ts), so that it returns the same
-// doubles as the JavaScript reference.
+// on the characteristic polynomial) and thermalState.ts, with fdlibm's exp and log
+// (fdlibm.ts), so that it returns the same doubles as the JavaScript reference. The warm
+// sweep path is in thermalWarm.ts.
 
 import { fdExp, fdLog } from './fdlibm';
 import { COUPL, DIAG, EIG, EVEC, OFFSQ, POP, QLOFF, SQRTUP } from './scratch';
@@ -113,37 +113,6 @@ function couplingAt(lambda: f64, psi: f64): f64 {
     sc = sNew;
   }
   return (0.5 * sc) / lc;
-}
-
-/** One Laguerre step from lambda on DIAG / OFFSQ (laguerreStep.ts). */
-function laguerreStep(lambda: f64): f64 {
-  const n = states;
-  let pPrev: f64 = 1.0;
-  let dPrev: f64 = 0.0;
-  let ddPrev: f64 = 0.0;
-  let p = get(DIAG, 0) - lambda;
-  let d: f64 = -1.0;
-  let dd: f64 = 0.0;
-  for (let k = 1; k < n; k++) {
-    const shifted = get(DIAG, k) - lambda;
-    const e2 = get(OFFSQ, k - 1);
-    const pNew = shifted * p - e2 * pPrev;
-    const dNew = shifted * d - p - e2 * dPrev;
-    const ddNew = shifted * dd - 2.0 * d - e2 * ddPrev;
-    pPrev = p;
-    dPrev = d;
-    ddPrev = dd;
-    p = pNew;
-    d = dNew;
-    dd = ddNew;
-  }
-  if (p == 0) return 0.0;
-  const invP = 1.0 / p;
-  const g = d * invP;
-  const h = g * g - dd * invP;
-  const disc = <f64>(n - 1) * (<f64>n * h - g * g);
-  const root = Math.sqrt(disc > 0 ? disc : 0.0);
-  return -<f64>n / (g < 0 ? g - root : g + root);
 }
 
 /** Eigenvalue-only thermal phi (thermalCouplings.ts); spectrum in EIG, couplings in COUPL. */
@@ -287,90 +256,6 @@ export function solveSiteThermal(interactionU: f64, muLocal: f64, psi: f64, temp
     thermalParityOdd = odd;
     thermalTopWeight = get(POP, n - 1);
     thermalEntropy = logZ + meanExcess * invZ;
-  }
-  return phi;
-}
-
-/**
- * Warm thermal update of one site from its stored spectrum (thermalWarmStart.ts):
- * spectrumPtr / couplingsPtr point at the site's nmax + 1 entries.
- */
-let warmPhi: f64 = 0.0;
-
-/** false when the stored spectrum cannot be used (nothing stored); phi in warmPhi. */
-function thermalFromSpectrum(interactionU: f64, muLocal: f64, psi: f64, dPsi: f64, temperature: f64, spectrumPtr: i32, couplingsPtr: i32): bool {
-  const n = states;
-  const s0 = load<f64>(spectrumPtr);
-  if (!(s0 == s0) || n > 17) return false;
-  const psiSq = psi * psi;
-  let a: f64 = 0.0;
-  let scale = Math.abs(interactionU) + Math.abs(muLocal) + Math.abs(psi);
-  for (let k = 0; k < n; k++) {
-    put(DIAG, k, a);
-    put(OFFSQ, k, psiSq * <f64>(k + 1));
-    a += interactionU * <f64>k - muLocal;
-    if (Math.abs(get(DIAG, k)) > scale) scale = Math.abs(get(DIAG, k));
-  }
-  for (let j = 0; j < n; j++) put(POP, j, load<f64>(spectrumPtr + (j << 3)) - 2.0 * load<f64>(couplingsPtr + (j << 3)) * dPsi);
-  const beta = 1.0 / temperature;
-  const small = 1e-6 * scale;
-  const e0Predicted = get(POP, 0);
-  let partition: f64 = 0.0;
-  let phi: f64 = 0.0;
-  let e0: f64 = 0.0;
-  for (let j = 0; j < n; j++) {
-    const predicted = get(POP, j);
-    if ((predicted - e0Predicted) * beta > 45) {
-      put(EIG, j, predicted);
-      put(COUPL, j, load<f64>(couplingsPtr + (j << 3)));
-      continue;
-    }
-    let lambda = predicted;
-    let converged = false;
-    for (let iter = 0; iter < 8; iter++) {
-      const step = laguerreStep(lambda);
-      lambda += step;
-      if (step == 0 || Math.abs(step) <= small) {
-        converged = true;
-        break;
-      }
-    }
-    if (!converged) return false;
-    const below: f64 = j > 0 ? predicted - get(POP, j - 1) : Infinity;
-    const above: f64 = j < n - 1 ? get(POP, j + 1) - predicted : Infinity;
-    const nearest = Math.min(below, above);
-    const reach = 0.3 * nearest;
-    if (!(Math.abs(lambda - predicted) < reach) || !(nearest > 1e-7 * scale)) return false;
-    const bj = couplingAt(lambda, psi);
-    put(EIG, j, lambda);
-    put(COUPL, j, bj);
-    if (j == 0) e0 = lambda;
-    const w = fdExp(-(lambda - e0) * beta);
-    partition += w;
-    phi += w * bj;
-  }
-  for (let j = 0; j < n; j++) {
-    store<f64>(spectrumPtr + (j << 3), get(EIG, j));
-    store<f64>(couplingsPtr + (j << 3), get(COUPL, j));
-  }
-  warmPhi = phi / partition;
-  return true;
-}
-
-/** thermalSweepUpdate (thermalWarmStart.ts): phi of the site; the store is updated. */
-export function thermalSweepUpdate(interactionU: f64, muLocal: f64, psi: f64, dPsi: f64, temperature: f64, spectrumPtr: i32, couplingsPtr: i32): f64 {
-  if (thermalFromSpectrum(interactionU, muLocal, psi, dPsi, temperature, spectrumPtr, couplingsPtr)) return warmPhi;
-  const n = states;
-  let phi: f64 = NaN;
-  if (psi != 0 && n <= 17) phi = thermalPhiByEigenvalues(interactionU, muLocal, psi, temperature);
-  if (!(phi == phi)) {
-    phi = solveSiteThermal(interactionU, muLocal, psi, temperature, false);
-    store<f64>(spectrumPtr, NaN);
-    return phi;
-  }
-  for (let j = 0; j < n; j++) {
-    store<f64>(spectrumPtr + (j << 3), get(EIG, j));
-    store<f64>(couplingsPtr + (j << 3), get(COUPL, j));
   }
   return phi;
 }
