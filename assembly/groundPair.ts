@@ -7,7 +7,7 @@
 // sign change) is redone by the scalar code from its Weyl bound, as in the reference.
 
 import { groundEnergy, solveGroundScalar } from './groundScalar';
-import { P_AMP, P_CURV, P_DIAG, P_INDEX, P_LEAD, P_OFFSQ, P_SLOPE, P_SQRTUP, P_TRAIL } from './scratch';
+import { P_AMP, P_CURV, P_DIAG, P_INDEX, P_LEAD, P_OFFSQ, P_RADIUS, P_SLOPE, P_SQRTUP, P_TRAIL } from './scratch';
 import { epsPtr, f64At, interactionAt, lowerPtr, phiPtr, psiPrevPtr } from './lattice';
 
 let base: i32 = 0;
@@ -25,6 +25,14 @@ export function setPairScratch(slot: i32, count: i32): void {
     v128.store(slot + (k << 4), f64x2.splat(<f64>k), P_INDEX);
     v128.store(slot + (k << 4), f64x2.splat(Math.sqrt(<f64>(k + 1))), P_SQRTUP);
   }
+  // Gershgorin radius per psi, summed as in the reference: sqrt(n) + sqrt(n + 1) at the edges
+  // without the missing term (0 + x = x).
+  for (let n = 0; n < count; n++) {
+    const left: f64 = n > 0 ? Math.sqrt(<f64>n) : 0.0;
+    const right: f64 = n < count - 1 ? Math.sqrt(<f64>(n + 1)) : 0.0;
+    v128.store(slot + (n << 4), f64x2.splat(left + right), P_RADIUS);
+  }
+  v128.store(slot + (count << 4), f64x2.splat(<f64>count), P_INDEX);
 }
 
 @inline function pair(a: f64, b: f64): v128 {
@@ -41,16 +49,20 @@ export const PAIR_SOLVED = 1;
 export const PAIR_FALLBACK = 2;
 
 /**
- * Ground states of sites iA and iB (mean fields psiA, psiB), warm-started from the stored
- * lower energies like the sweeps: phi and energy per lane in pairPhi* / pairEnergy*, the
- * normalised amplitudes in P_AMP. Returns PAIR_NOT_APPLICABLE (nothing done) when a lane
- * has no warm start or psi <= 0: the caller then uses the scalar code for both.
+ * Ground states of sites iA and iB (mean fields psiA, psiB), started like the sweeps of
+ * the reference: from the stored lower energies (Hellmann-Feynman estimate, Weyl bound as
+ * the fall-back) or, when neither site has one yet, cold from Gershgorin's bound. phi and
+ * energy per lane in pairPhi* / pairEnergy*, the normalised amplitudes in P_AMP. Returns
+ * PAIR_NOT_APPLICABLE (nothing done) when only one site has a warm start or a psi is not
+ * > 0: the caller then uses the scalar code for both.
  */
 export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64, coupling: f64): i32 {
   const i = iA;
   const prevA = f64At(lowerPtr, iA);
   const prevB = f64At(lowerPtr, iB);
-  if (!(prevA == prevA) || !(prevB == prevB) || !(psiA > 0) || !(psiB > 0)) return PAIR_NOT_APPLICABLE;
+  if (!(psiA > 0) || !(psiB > 0)) return PAIR_NOT_APPLICABLE;
+  const cold = !(prevA == prevA);
+  if (cold == (prevB == prevB)) return PAIR_NOT_APPLICABLE; // one warm, one cold
   const b = base;
   const states = stateCount;
   const last = states - 1;
@@ -70,54 +82,72 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
   const estimate = f64x2.sub(prev, f64x2.mul(f64x2.mul(f64x2.splat(2.0), phiOld), dPsi));
   const psiSq = f64x2.mul(psi, psi);
 
-  // First Laguerre evaluation at the estimate, with the diagonal a_k (by increments, as in
-  // the reference), the squared off-diagonals psi^2 (k + 1) and the smallest diagonal entry
-  // built on the way. Leading determinants and their two lambda-derivatives are kept.
   let lambda = estimate;
-  let leadAt = estimate;
-  v128.store(b, zero, P_DIAG);
-  v128.store(b, one, P_LEAD);
-  let a = f64x2.sub(f64x2.mul(u, zero), muLocal);
   let minDiag = zero;
   let pPrev = one;
   let dPrev = zero;
   let ddPrev = zero;
-  let p = f64x2.sub(zero, lambda);
+  let p = zero;
   let d = f64x2.splat(-1.0);
   let dd = zero;
-  for (let k = 1; k < states; k++) {
-    const q = b + (k << 4);
-    const index = v128.load(q, P_INDEX);
-    v128.store(q, p, P_LEAD);
-    v128.store(q, d, P_SLOPE);
-    v128.store(q, dd, P_CURV);
-    v128.store(q, a, P_DIAG);
-    minDiag = f64x2.pmin(minDiag, a); // (a < minDiag) ? a : minDiag, as in the reference
-    const e2 = f64x2.mul(psiSq, index);
-    v128.store(q - 16, e2, P_OFFSQ);
-    const shifted = f64x2.sub(a, lambda);
-    a = f64x2.add(a, f64x2.sub(f64x2.mul(u, index), muLocal));
-    const pNew = f64x2.sub(f64x2.mul(shifted, p), f64x2.mul(e2, pPrev));
-    const dNew = f64x2.sub(f64x2.sub(f64x2.mul(shifted, d), p), f64x2.mul(e2, dPrev));
-    const ddNew = f64x2.sub(f64x2.sub(f64x2.mul(shifted, dd), f64x2.add(d, d)), f64x2.mul(e2, ddPrev));
-    pPrev = p;
-    dPrev = d;
-    ddPrev = dd;
-    p = pNew;
-    d = dNew;
-    dd = ddNew;
+  v128.store(b, one, P_LEAD);
+  if (!cold) {
+    // First Laguerre evaluation at the estimate, with the diagonal a_k (by increments, as
+    // in the reference), the squared off-diagonals psi^2 (k + 1) and the smallest diagonal
+    // entry built on the way. Leading determinants and their two lambda-derivatives are kept.
+    v128.store(b, zero, P_DIAG);
+    let a = f64x2.sub(f64x2.mul(u, zero), muLocal);
+    p = f64x2.sub(zero, lambda);
+    for (let k = 1; k < states; k++) {
+      const q = b + (k << 4);
+      const index = v128.load(q, P_INDEX);
+      v128.store(q, p, P_LEAD);
+      v128.store(q, d, P_SLOPE);
+      v128.store(q, dd, P_CURV);
+      v128.store(q, a, P_DIAG);
+      minDiag = f64x2.pmin(minDiag, a); // (a < minDiag) ? a : minDiag, as in the reference
+      const e2 = f64x2.mul(psiSq, index);
+      v128.store(q - 16, e2, P_OFFSQ);
+      const shifted = f64x2.sub(a, lambda);
+      a = f64x2.add(a, f64x2.sub(f64x2.mul(u, index), muLocal));
+      const pNew = f64x2.sub(f64x2.mul(shifted, p), f64x2.mul(e2, pPrev));
+      const dNew = f64x2.sub(f64x2.sub(f64x2.mul(shifted, d), p), f64x2.mul(e2, dPrev));
+      const ddNew = f64x2.sub(f64x2.sub(f64x2.mul(shifted, dd), f64x2.add(d, d)), f64x2.mul(e2, ddPrev));
+      pPrev = p;
+      dPrev = d;
+      ddPrev = dd;
+      p = pNew;
+      d = dNew;
+      dd = ddNew;
+    }
+  } else {
+    // Cold: the diagonal, then Gershgorin's lower bound min_n (a_n - psi (sqrt(n) + sqrt(n+1)))
+    // with the reference's slack.
+    let a = zero;
+    let gersh = f64x2.splat(Infinity);
+    for (let n = 0; n < states; n++) {
+      const q = b + (n << 4);
+      v128.store(q, a, P_DIAG);
+      v128.store(q, f64x2.mul(psiSq, v128.load(q + 16, P_INDEX)), P_OFFSQ);
+      minDiag = f64x2.pmin(minDiag, a);
+      gersh = f64x2.pmin(gersh, f64x2.sub(a, f64x2.mul(psi, v128.load(q, P_RADIUS))));
+      a = f64x2.add(a, f64x2.sub(f64x2.mul(u, v128.load(q, P_INDEX)), muLocal));
+    }
+    lambda = f64x2.sub(gersh, f64x2.mul(f64x2.splat(1e-12), f64x2.add(f64x2.abs(gersh), one)));
   }
+  let leadAt = lambda;
   const degree = f64x2.splat(<f64>states);
   const degreeLess = f64x2.splat(<f64>last);
   const minusDegree = f64x2.splat(-<f64>states);
   const scale = f64x2.add(f64x2.add(f64x2.abs(minDiag), f64x2.abs(u)), psi);
   const small = f64x2.mul(f64x2.splat(1e-6), scale);
   let active = f64x2.eq(zero, zero); // all lanes
-  // Laguerre steps; a lane stops at p = 0 or after a step below 1e-6 of the scale. Later
-  // evaluations (rare near convergence) overwrite the stored determinants only in lanes
-  // still moving.
+  // Laguerre steps; a lane stops (warm) at p = 0 or (cold, from a lower bound) at p <= 0, or
+  // after a step below 1e-6 of the scale. Later evaluations overwrite the stored
+  // determinants only in lanes still moving.
   for (let iter = 0; iter < 100; iter++) {
-    if (iter > 0) {
+    if (iter > 0 || cold) {
+      const full = i64x2.all_true(active);
       pPrev = one;
       dPrev = zero;
       ddPrev = zero;
@@ -126,9 +156,15 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
       dd = zero;
       for (let k = 1; k < states; k++) {
         const q = b + (k << 4);
-        v128.store(q, select(p, v128.load(q, P_LEAD), active), P_LEAD);
-        v128.store(q, select(d, v128.load(q, P_SLOPE), active), P_SLOPE);
-        v128.store(q, select(dd, v128.load(q, P_CURV), active), P_CURV);
+        if (full) {
+          v128.store(q, p, P_LEAD);
+          v128.store(q, d, P_SLOPE);
+          v128.store(q, dd, P_CURV);
+        } else {
+          v128.store(q, select(p, v128.load(q, P_LEAD), active), P_LEAD);
+          v128.store(q, select(d, v128.load(q, P_SLOPE), active), P_SLOPE);
+          v128.store(q, select(dd, v128.load(q, P_CURV), active), P_CURV);
+        }
         const shifted = f64x2.sub(v128.load(q, P_DIAG), lambda);
         const e2 = v128.load(q - 16, P_OFFSQ);
         const pNew = f64x2.sub(f64x2.mul(shifted, p), f64x2.mul(e2, pPrev));
@@ -142,7 +178,7 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
         dd = ddNew;
       }
     }
-    const stepping = v128.andnot(active, f64x2.eq(p, zero));
+    const stepping = cold ? v128.and(active, f64x2.gt(p, zero)) : v128.andnot(active, f64x2.eq(p, zero));
     const invP = f64x2.div(one, p);
     const g = f64x2.mul(d, invP);
     const h = f64x2.sub(f64x2.mul(g, g), f64x2.mul(dd, invP));
@@ -156,16 +192,13 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
     leadAt = select(lambda, leadAt, active);
   }
 
-  // Leading determinants carried to lambda (second-order Taylor step) or recomputed.
+  // Leading determinants carried to lambda by a second-order Taylor step (all lanes moved
+  // little: done inside the trailing pass below) or recomputed by the recurrence.
   const moved = f64x2.sub(lambda, leadAt);
   const taylor = f64x2.le(f64x2.abs(moved), f64x2.mul(f64x2.splat(1e-5), scale));
   const half = f64x2.mul(f64x2.mul(f64x2.splat(0.5), moved), moved);
-  if (i64x2.all_true(taylor)) {
-    for (let k = 1; k < states; k++) {
-      const q = b + (k << 4);
-      v128.store(q, f64x2.add(v128.load(q, P_LEAD), f64x2.add(f64x2.mul(moved, v128.load(q, P_SLOPE)), f64x2.mul(half, v128.load(q, P_CURV)))), P_LEAD);
-    }
-  } else {
+  const allTaylor = i64x2.all_true(taylor);
+  if (!allTaylor) {
     let lPrev = one;
     let l = f64x2.sub(zero, lambda);
     for (let k = 1; k < states; k++) {
@@ -184,15 +217,35 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
   let t = f64x2.sub(v128.load(qLast, P_DIAG), lambda);
   let twist = v128.load(qLast, P_INDEX);
   let best = v128.load(qLast, P_LEAD);
-  for (let k = last - 1; k >= 0; k--) {
-    const q = b + (k << 4);
-    v128.store(q, t, P_TRAIL);
-    const weight = f64x2.mul(v128.load(q, P_LEAD), t);
-    twist = select(v128.load(q, P_INDEX), twist, f64x2.gt(weight, best));
-    best = f64x2.pmax(best, weight); // (weight > best) ? weight : best
-    const tNew = f64x2.sub(f64x2.mul(f64x2.sub(v128.load(q, P_DIAG), lambda), t), f64x2.mul(v128.load(q, P_OFFSQ), qNext));
-    qNext = t;
-    t = tNew;
+  if (allTaylor) {
+    best = f64x2.add(best, f64x2.add(f64x2.mul(moved, v128.load(qLast, P_SLOPE)), f64x2.mul(half, v128.load(qLast, P_CURV))));
+    v128.store(qLast, best, P_LEAD);
+    for (let k = last - 1; k >= 1; k--) {
+      const q = b + (k << 4);
+      const leadK = f64x2.add(v128.load(q, P_LEAD), f64x2.add(f64x2.mul(moved, v128.load(q, P_SLOPE)), f64x2.mul(half, v128.load(q, P_CURV))));
+      v128.store(q, leadK, P_LEAD);
+      v128.store(q, t, P_TRAIL);
+      const weight = f64x2.mul(leadK, t);
+      twist = select(v128.load(q, P_INDEX), twist, f64x2.gt(weight, best));
+      best = f64x2.pmax(best, weight); // (weight > best) ? weight : best
+      const tNew = f64x2.sub(f64x2.mul(f64x2.sub(v128.load(q, P_DIAG), lambda), t), f64x2.mul(v128.load(q, P_OFFSQ), qNext));
+      qNext = t;
+      t = tNew;
+    }
+    v128.store(b, t, P_TRAIL);
+    const weight0 = f64x2.mul(one, t); // lead[0] = 1
+    twist = select(zero, twist, f64x2.gt(weight0, best));
+  } else {
+    for (let k = last - 1; k >= 0; k--) {
+      const q = b + (k << 4);
+      v128.store(q, t, P_TRAIL);
+      const weight = f64x2.mul(v128.load(q, P_LEAD), t);
+      twist = select(v128.load(q, P_INDEX), twist, f64x2.gt(weight, best));
+      best = f64x2.pmax(best, weight);
+      const tNew = f64x2.sub(f64x2.mul(f64x2.sub(v128.load(q, P_DIAG), lambda), t), f64x2.mul(v128.load(q, P_OFFSQ), qNext));
+      qNext = t;
+      t = tNew;
+    }
   }
   // Adjugate column at the twist: outward products of |e_j| = psi sqrt(j + 1).
   let norm = one;
@@ -270,7 +323,7 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
   pairEnergyA = f64x2.extract_lane(lambda, 0);
   pairEnergyB = f64x2.extract_lane(lambda, 1);
   // A lane on an excited state: the scalar path from the Weyl bound, as in the reference.
-  if (!v128.any_true(negative)) return PAIR_SOLVED;
+  if (cold || !v128.any_true(negative)) return PAIR_SOLVED;
   if (i64x2.extract_lane(negative, 0) != 0) {
     pairPhiA = solveGroundScalar(f64x2.extract_lane(u, 0), f64x2.extract_lane(muLocal, 0), psiA, f64x2.extract_lane(bound, 0), NaN);
     pairEnergyA = groundEnergy;

@@ -33,6 +33,8 @@ export const P_AMP: i32 = P_TRAIL + PAIR;
 // constant tables of the pair kernel: (k, k) and (sqrt(k + 1), sqrt(k + 1))
 export const P_INDEX: i32 = P_AMP + PAIR;
 export const P_SQRTUP: i32 = P_INDEX + PAIR;
+// Gershgorin radius per unit psi, (sqrt(n), sqrt(n + 1)) summed per state
+export const P_RADIUS: i32 = P_SQRTUP + PAIR;
 // thermal warm path: indices of the refined levels (i32)
-export const T_LEVELS: i32 = P_SQRTUP + PAIR;
+export const T_LEVELS: i32 = P_RADIUS + PAIR;
 export const SCRATCH_END: i32 = T_LEVELS + 128;
