@@ -1,13 +1,14 @@
 // Runs half-sweeps and measuring passes over the whole lattice, on the calling thread or
 // split into contiguous row ranges shared between the calling thread and the persistent
-// workers of a sweep pool (sweepPool.ts: one Atomics barrier per half-sweep, no messages).
+// workers of a sweep pool (sweepPool.ts: one Atomics barrier per half-sweep, no messages,
+// rows claimed in chunks so that a delayed thread does not hold the others up).
 // Because a half-sweep updates one colour from the other, the result is bit-identical for
 // any split, i.e. for any thread count; and both kernels (JavaScript reference and
 // WebAssembly, kernel/sweepKernels.ts) give the same doubles.
 
 import { createSweepKernel, defaultKernelChoice, resolveKernel, type KernelChoice, type KernelName } from './kernel/sweepKernels.js';
 import type { SolverState } from './solverState.js';
-import { claimRows, COMMAND, CONTROL, type PoolInternals, type SweepPool } from './sweepPool.js';
+import { COMMAND, CONTROL, MAX_CHUNKS, openClaims, runChunks, type PoolInternals, type SweepPool } from './sweepPool.js';
 
 export { createSweepPool, type PoolOptions, type SweepPool } from './sweepPool.js';
 
@@ -66,9 +67,9 @@ export function createSweepExecutor(state: SolverState, pool: SweepPool | null, 
 
   // About 16 chunks per thread: small enough to even out a delayed thread, large enough that
   // claiming costs nothing.
-  const chunkRows = Math.max(1, Math.floor(rowCount / (16 * (workerCount + 1))));
-  const cursor = internals.cursor;
-  const members = internals.members.slice(0, workerCount);
+  const chunkRows = Math.max(1, Math.ceil(rowCount / Math.min(MAX_CHUNKS, 16 * (workerCount + 1))));
+  const chunkCount = Math.ceil(rowCount / chunkRows);
+  const control = internals.control;
   const owner = {};
   let ready: Promise<void> | null = null;
   const attach = (): Promise<void> => {
@@ -79,58 +80,51 @@ export function createSweepExecutor(state: SolverState, pool: SweepPool | null, 
     return ready as Promise<void>;
   };
 
-  /** Wait until worker m has finished `generation` (or died). */
-  const waitFor = async (m: PoolInternals['members'][number], generation: number): Promise<void> => {
-    for (let d = Atomics.load(m.control, CONTROL.done); d !== generation; d = Atomics.load(m.control, CONTROL.done)) {
-      if (Atomics.wait(m.control, CONTROL.done, d, 200) === 'timed-out') {
+  /** Wait until every chunk is finished (a dead worker is reported, not waited for). */
+  const waitForChunks = async (): Promise<void> => {
+    const ints = control.ints;
+    for (let f = Atomics.load(ints, CONTROL.finished); f < chunkCount; f = Atomics.load(ints, CONTROL.finished)) {
+      if (Atomics.wait(ints, CONTROL.finished, f, 200) === 'timed-out') {
         await yieldToEventLoop(); // lets the pool see a worker that died
-        if (m.dead !== null) throw new Error(`a solver worker thread failed: ${m.dead}`);
+        const dead = internals.members.find((m) => m.dead !== null);
+        if (dead) throw new Error(`a solver worker thread failed: ${dead.dead}`);
       }
     }
   };
 
   const run = async (command: number, colour: number, mu: number, temperature: number): Promise<number> => {
     await attach();
-    const generations: number[] = [];
-    Atomics.store(cursor, 0, 0);
-    for (let w = 0; w < workerCount; w++) {
-      const m = members[w];
-      m.control[CONTROL.command] = command;
-      m.control[CONTROL.colour] = colour;
-      m.control[CONTROL.chunkRows] = chunkRows;
-      m.control[CONTROL.rowCount] = rowCount;
-      m.values[CONTROL.mu] = mu;
-      m.values[CONTROL.temperature] = temperature;
-      generations.push(Atomics.add(m.control, CONTROL.generation, 1) + 1);
-      Atomics.notify(m.control, CONTROL.generation);
-    }
-    // The calling thread claims chunks too.
-    let change = 0;
+    const ints = control.ints;
+    ints[CONTROL.command] = command;
+    ints[CONTROL.colour] = colour;
+    ints[CONTROL.chunkRows] = chunkRows;
+    ints[CONTROL.rowCount] = rowCount;
+    ints[CONTROL.chunkCount] = chunkCount;
+    ints[CONTROL.failed] = 0;
+    control.values[CONTROL.mu] = mu;
+    control.values[CONTROL.temperature] = temperature;
+    const generation = (ints[CONTROL.generation] + 1) | 0;
+    openClaims(control, generation);
+    Atomics.store(ints, CONTROL.generation, generation);
+    Atomics.notify(ints, CONTROL.generation);
+    // The calling thread claims chunks too, then waits for the ones the workers took.
     let localError: unknown = null;
     try {
-      for (let start = claimRows(cursor, chunkRows); start < rowCount; start = claimRows(cursor, chunkRows)) {
-        const end = Math.min(rowCount, start + chunkRows);
-        if (command === COMMAND.sweep) {
-          const c = local.sweep(colour, start, end, mu, temperature);
-          if (c > change) change = c;
-        } else local.measure(start, end, mu, temperature);
-      }
+      runChunks(control, generation, command, local);
     } catch (err) {
       localError = err;
-      Atomics.store(cursor, 0, rowCount); // the workers stop claiming
     }
-    let failure = '';
-    for (let w = 0; w < workerCount; w++) {
-      const m = members[w];
-      await waitFor(m, generations[w]);
-      if (m.control[CONTROL.status] !== 0) failure ||= 'failed';
-      else if (command === COMMAND.sweep && m.values[CONTROL.result] > change) change = m.values[CONTROL.result];
-    }
+    await waitForChunks();
     await yieldToEventLoop();
     if (localError) throw localError;
-    if (failure) {
-      const reason = members.map((m) => m.lastFailure).find((r) => r !== '') ?? 'unknown error';
+    if (ints[CONTROL.failed] !== 0) {
+      const reason = internals.members.map((m) => m.lastFailure).find((r) => r !== '') ?? 'unknown error';
       throw new Error(`a solver worker thread failed: ${reason}`);
+    }
+    let change = 0;
+    for (let k = 0; k < chunkCount; k++) {
+      const c = control.values[CONTROL.results + k];
+      if (c > change) change = c;
     }
     return change;
   };

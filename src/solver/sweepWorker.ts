@@ -1,11 +1,12 @@
 // Worker thread of a sweep pool (sweepPool.ts): receives a solver layout once ('attach'),
-// builds its array views and kernel, then serves half-sweeps and measuring passes posted
-// through its control block (Atomics), without messages, until told to detach.
+// builds its array views and kernel, then joins every half-sweep and measuring pass the
+// executor starts through the shared control block (Atomics), claiming chunks of rows,
+// without messages, until told to detach.
 
 import { parentPort, workerData } from 'node:worker_threads';
 import { createSweepKernel, type KernelName, type SweepKernel } from './kernel/sweepKernels.js';
 import { viewsOf, type SolverLayout } from './solverState.js';
-import { claimRows, COMMAND, CONTROL, type WorkerReply } from './sweepPool.js';
+import { COMMAND, CONTROL, controlViews, runChunks, type WorkerReply } from './sweepPool.js';
 
 interface AttachMessage {
   type: 'attach';
@@ -14,10 +15,9 @@ interface AttachMessage {
   slot: number;
 }
 
-const { control: shared, index, workers } = workerData as { control: SharedArrayBuffer; index: number; workers: number };
-const control = new Int32Array(shared, index * 64, 16);
-const values = new Float64Array(shared, index * 64, 8);
-const cursor = new Int32Array(shared, workers * 64, 1);
+const { control: shared, index } = workerData as { control: SharedArrayBuffer; index: number };
+const control = controlViews(shared);
+const doneAt = CONTROL.workerDone + 16 * index;
 const port = parentPort;
 if (port === null) throw new Error('sweepWorker.js must run in a worker thread');
 
@@ -25,38 +25,24 @@ function reply(message: WorkerReply): void {
   port?.postMessage(message);
 }
 
-/** Serve commands until 'detach'; returns to the message loop. */
+/** Join commands until 'detach'; returns to the message loop. */
 function serve(kernel: SweepKernel, generation: number): void {
   let seen = generation;
   for (;;) {
-    Atomics.wait(control, CONTROL.generation, seen);
-    seen = Atomics.load(control, CONTROL.generation);
-    const command = control[CONTROL.command];
-    if (command !== COMMAND.detach) {
-      try {
-        const mu = values[CONTROL.mu];
-        const temperature = values[CONTROL.temperature];
-        const chunk = control[CONTROL.chunkRows];
-        const rowCount = control[CONTROL.rowCount];
-        const colour = control[CONTROL.colour];
-        let change = 0;
-        for (let start = claimRows(cursor, chunk); start < rowCount; start = claimRows(cursor, chunk)) {
-          const end = Math.min(rowCount, start + chunk);
-          if (command === COMMAND.sweep) {
-            const c = kernel.sweep(colour, start, end, mu, temperature);
-            if (c > change) change = c;
-          } else kernel.measure(start, end, mu, temperature);
-        }
-        values[CONTROL.result] = change;
-        control[CONTROL.status] = 0;
-      } catch (err) {
-        control[CONTROL.status] = 1;
-        reply({ type: 'failed', message: err instanceof Error ? err.message : String(err) });
-      }
+    Atomics.wait(control.ints, CONTROL.generation, seen);
+    seen = Atomics.load(control.ints, CONTROL.generation);
+    const command = control.ints[CONTROL.command];
+    if (command === COMMAND.detach) {
+      Atomics.store(control.ints, doneAt, seen);
+      Atomics.notify(control.ints, doneAt);
+      return;
     }
-    Atomics.store(control, CONTROL.done, seen);
-    Atomics.notify(control, CONTROL.done);
-    if (command === COMMAND.detach) return;
+    try {
+      runChunks(control, seen, command, kernel);
+    } catch (err) {
+      Atomics.store(control.ints, CONTROL.failed, 1);
+      reply({ type: 'failed', message: err instanceof Error ? err.message : String(err) });
+    }
   }
 }
 
@@ -69,9 +55,8 @@ port.on('message', (message: AttachMessage) => {
     reply({ type: 'failed', message: err instanceof Error ? err.message : String(err) });
     return;
   }
-  // The generation is read before answering: the executor posts its first command only
-  // after the answer, so the worker cannot miss it.
-  const generation = Atomics.load(control, CONTROL.generation);
+  // The generation is read before answering: commands sent after the answer are not missed.
+  const generation = Atomics.load(control.ints, CONTROL.generation);
   reply({ type: 'attached' });
   serve(kernel, generation);
 });
