@@ -27,9 +27,16 @@ function formatValue(v) {
 }
 const now = () => performance.now();
 
-process.stdout.write(`tiercake benchmarks: node ${process.version}, ${availableParallelism()} cores (sweep rates: best of three blocks)\n\n`);
+process.stdout.write(`tiercake benchmarks: node ${process.version}, ${availableParallelism()} cores (sweep rates: best of three blocks; yardstick: best of five)\n\n`);
 
-// 1. Site problem throughput, nmax = 6 --------------------------------------------------
+// 0. The site kernel beside the C yardstick (48^3 and 64^3 clouds; JS and WebAssembly
+//    kernels, 1 and 2 threads, T = 0 and kT = 0.05 U) ------------------------------------
+{
+  const { runYardstickBench } = await import('./yardstickBench.mjs');
+  await runYardstickBench({ log, reps: 5 });
+}
+
+// 1. Site problem throughput (JavaScript reference primitives), nmax = 6 -----------------
 {
   const ws = createSiteWorkspace(6);
   const out = createSiteObservables();

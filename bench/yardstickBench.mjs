@@ -2,13 +2,14 @@
 // of the same T = 0 algorithm, ../shared/yardstick/site_kernel.c, compiled here with
 // gcc -O3 -march=native into a temporary folder), in one run, best of three:
 // 48^3 and 64^3 trapped clouds, J/U 0.0125, mu/U 1.45, trap coefficient 0.00325 U, nmax 6,
-// tolerance 1e-8, phi = 0.5 at the start (as the C code). Printed: site updates per second
+// tolerance 1e-8, phi = 0.5 at the start (as the C code), the configurations interleaved so
+// that machine noise hits them alike. Printed: site updates per second
 // (sweeps only), wall time to solution (tiercake: solveLattice, measuring pass included),
 // sweeps, the atom number against the C code's, and the same for the JavaScript reference
 // kernel, for 2 threads, and at kT = 0.05 U (tiercake only; the C code is T = 0 only).
 // When gcc or the yardstick folder is missing, the ratios are skipped and the reason shown.
 //
-// Usage: node bench/yardstickBench.mjs [--reps N]   (after `npm run build`)
+// Usage: node bench/yardstickBench.mjs [--reps N]   (default 5; after `npm run build`)
 // Importable: `runYardstickBench({ log, reps })`.
 
 import { execFileSync } from 'node:child_process';
@@ -46,7 +47,7 @@ function runYardstick(binary, L, dir) {
   return JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8'));
 }
 
-export async function runYardstickBench({ log, reps = 3 }) {
+export async function runYardstickBench({ log, reps = 5 }) {
   const { createLatticeGeometry } = await import(dist('lattice/latticeGeometry.js'));
   const { uniformModel } = await import(dist('lattice/latticeModel.js'));
   const { addHarmonicTrap, latticeCentre } = await import(dist('lattice/harmonicTrap.js'));
@@ -112,8 +113,8 @@ export async function runYardstickBench({ log, reps = 3 }) {
     const cBest = c.length ? best(c, (x) => x.seconds) : null;
     const cRate = c.length ? Math.max(...c.map((x) => x.site_updates_per_second)) : NaN;
     if (cBest) {
-      log('yardstick', `${L}^3 C (gcc -O3 -march=native), 1 thread: site updates`, cRate / 1e6, 'M upd/s', `${cBest.sweeps} sweeps`);
-      log('yardstick', `${L}^3 C, wall time of the sweeps`, cBest.seconds, 's', `atoms ${cBest.atoms.toFixed(6)}`);
+      log('yardstick', `${L}^3 C yardstick, 1 thread: site updates`, cRate / 1e6, 'M upd/s', `${cBest.sweeps} sweeps`);
+      log('yardstick', `${L}^3 C yardstick: wall time of the sweeps`, cBest.seconds, 's', `atoms ${cBest.atoms.toFixed(6)}`);
     } else if (L === 48) {
       log('yardstick', 'C yardstick', 'skipped', '', reason);
     }
@@ -124,10 +125,10 @@ export async function runYardstickBench({ log, reps = 3 }) {
       const perThread = rates.get(key) / threads;
       const vsC = cBest ? `; per thread ${(perThread / cRate).toFixed(2)}x C` : '';
       const scaling = threads > 1 ? `; ${(rates.get(key) / one).toFixed(2)}x 1 thread` : '';
-      log('yardstick', `${L}^3 tiercake ${kernel}, ${threads} thread${threads > 1 ? 's' : ''}: site updates (total)`, rates.get(key) / 1e6, 'M upd/s', `${vsC.slice(2)}${scaling}`);
+      log('yardstick', `${L}^3 ${kernel}, ${threads} thread${threads > 1 ? 's' : ''}: site updates (total)`, rates.get(key) / 1e6, 'M upd/s', `${vsC.slice(2)}${scaling}`);
       const atoms = cBest ? `; atoms vs C ${(Math.abs(s.atoms - cBest.atoms) / cBest.atoms).toExponential(1)} rel.` : '';
       const wall = cBest ? `${(cBest.seconds / s.seconds).toFixed(2)}x C speed; ` : '';
-      log('yardstick', `${L}^3 tiercake ${kernel}, ${threads} thread${threads > 1 ? 's' : ''}: wall time to solution`, s.seconds, 's', `${wall}${s.sweeps} sweeps${atoms}${s.converged ? '' : ' NOT CONVERGED'}`);
+      log('yardstick', `${L}^3 ${kernel}, ${threads} thread${threads > 1 ? 's' : ''}: wall time to solution`, s.seconds, 's', `${wall}${s.sweeps} sweeps${atoms}${s.converged ? '' : ' NOT CONVERGED'}`);
     }
     // T > 0 through the same kernels (sweeps only; the C code has no T > 0).
     const thermal = new Map(configs.map((cfg) => [cfg.join('/'), 0]));
@@ -140,7 +141,7 @@ export async function runYardstickBench({ log, reps = 3 }) {
     for (const [kernel, threads] of configs) {
       const key = `${kernel}/${threads}`;
       const note = `T>0/T=0 cost ${(rates.get(key) / thermal.get(key)).toFixed(2)}x${threads > 1 ? `; ${(thermal.get(key) / (thermal.get('wasm/1') || thermal.get('js/1'))).toFixed(2)}x 1 thread` : ''}`;
-      log('yardstick', `${L}^3 kT = 0.05 U, tiercake ${kernel}, ${threads} thread${threads > 1 ? 's' : ''}`, thermal.get(key) / 1e6, 'M upd/s', note);
+      log('yardstick', `${L}^3 kT = 0.05 U, ${kernel}, ${threads} thread${threads > 1 ? 's' : ''}: site updates`, thermal.get(key) / 1e6, 'M upd/s', note);
     }
   }
   await pool.destroy();
@@ -149,7 +150,7 @@ export async function runYardstickBench({ log, reps = 3 }) {
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
   const at = process.argv.indexOf('--reps');
-  const reps = at > 0 ? Number(process.argv[at + 1]) : 3;
+  const reps = at > 0 ? Number(process.argv[at + 1]) : 5;
   const log = (section, label, value, unit, note = '') => {
     const v = typeof value === 'number' ? (Math.abs(value) >= 100 ? value.toFixed(0) : Math.abs(value) >= 1 ? value.toFixed(2) : value.toPrecision(3)) : value;
     process.stdout.write(`${section.padEnd(10)} ${label.padEnd(64)} ${String(v).padStart(10)} ${unit.padEnd(8)} ${note}\n`);

@@ -15,5 +15,5 @@ export default function setup(): void {
     process.stderr.write(`tsc reported problems while building dist/ for the tests:\n${out.slice(0, 2000)}\n`);
   }
   // A kernel that fails to build is an error: the tests would silently run one path only.
-  execFileSync(process.execPath, [fileURLToPath(new URL('../scripts/build-kernel.mjs', import.meta.url))], { cwd: root, stdio: 'inherit' });
+  execFileSync(process.execPath, [fileURLToPath(new URL('../scripts/build-kernel.mjs', import.meta.url)), '--strict'], { cwd: root, stdio: 'inherit' });
 }
