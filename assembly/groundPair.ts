@@ -51,15 +51,16 @@ export const PAIR_FALLBACK = 2;
 /**
  * Ground states of sites iA and iB (mean fields psiA, psiB), started like the sweeps of
  * the reference: from the stored lower energies (Hellmann-Feynman estimate, Weyl bound as
- * the fall-back) or, when neither site has one yet, cold from Gershgorin's bound. phi and
+ * the fall-back) or, when neither site has one yet or forceCold (the measuring pass), cold
+ * from Gershgorin's bound. phi and
  * energy per lane in pairPhi* / pairEnergy*, the normalised amplitudes in P_AMP. Returns
  * PAIR_NOT_APPLICABLE (nothing done) when only one site has a warm start or a psi is not
  * > 0: the caller then uses the scalar code for both.
  */
-export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64, coupling: f64): i32 {
+export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64, coupling: f64, forceCold: bool): i32 {
   const i = iA;
-  const prevA = f64At(lowerPtr, iA);
-  const prevB = f64At(lowerPtr, iB);
+  const prevA = forceCold ? NaN : f64At(lowerPtr, iA);
+  const prevB = forceCold ? NaN : f64At(lowerPtr, iB);
   if (!(psiA > 0) || !(psiB > 0)) return PAIR_NOT_APPLICABLE;
   const cold = !(prevA == prevA);
   if (cold == (prevB == prevB)) return PAIR_NOT_APPLICABLE; // one warm, one cold

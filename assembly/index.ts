@@ -145,7 +145,7 @@ export function sweepColour(colour: i32, rowStart: i32, rowEnd: i32, mu: f64, te
         const i = base + c;
         const psiA = sweepMeanField(i, c, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
         const psiB = sweepMeanField(i + 2, c + 2, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
-        if (solveGroundPair(i, i + 2, psiA, psiB, mu, coupling) != PAIR_NOT_APPLICABLE) {
+        if (solveGroundPair(i, i + 2, psiA, psiB, mu, coupling, false) != PAIR_NOT_APPLICABLE) {
           store<f64>(lowerPtr + (i << 3), pairEnergyA);
           store<f64>(psiPrevPtr + (i << 3), psiA);
           commit(i, pairPhiA);
@@ -166,14 +166,9 @@ export function sweepColour(colour: i32, rowStart: i32, rowEnd: i32, mu: f64, te
   return maxChange;
 }
 
-/** Ground-state observables of site i at mean field psi (warm start, scalar). */
-function measureGround(i: i32, psi: f64, mu: f64, coupling: f64): void {
-  const u = interactionAt(i);
-  const prev = f64At(lowerPtr, i);
-  const dPsi = psi - f64At(psiPrevPtr, i);
-  const bound = prev == prev ? prev - Math.abs(dPsi) * coupling - 1e-12 * (Math.abs(prev) + u) : NaN;
-  const estimate = prev == prev ? prev - 2.0 * f64At(phiPtr, i) * dPsi : NaN;
-  solveGroundScalar(u, mu - f64At(epsPtr, i), psi, bound, estimate);
+/** Ground-state observables of site i at mean field psi (cold start, scalar). */
+function measureGround(i: i32, psi: f64, mu: f64): void {
+  solveGroundScalar(interactionAt(i), mu - f64At(epsPtr, i), psi, NaN, NaN);
   groundObservables();
   const at = i << 3;
   store<f64>(densityPtr + at, obsDensity);
@@ -197,8 +192,8 @@ function measureGround(i: i32, psi: f64, mu: f64, coupling: f64): void {
 }
 
 /**
- * The measuring pass (measureRows) over rows [rowStart, rowEnd). At T = 0 warm-started like
- * the sweeps, neighbouring sites in pairs of f64x2 lanes.
+ * The measuring pass (measureRows) over rows [rowStart, rowEnd). At T = 0 cold (as the
+ * reference), neighbouring sites in pairs of f64x2 lanes.
  */
 export function measureRows(rowStart: i32, rowEnd: i32, mu: f64, temperature: f64): void {
   const coupling = 2.0 * Math.sqrt(<f64>nmax);
@@ -228,16 +223,16 @@ export function measureRows(rowStart: i32, rowEnd: i32, mu: f64, temperature: f6
         const i = base + c;
         const psiA = measureMeanField(i, a, b, c);
         const psiB = measureMeanField(i + 1, a, b, c + 1);
-        if (solveGroundPair(i, i + 1, psiA, psiB, mu, coupling) == PAIR_SOLVED) {
+        if (solveGroundPair(i, i + 1, psiA, psiB, mu, coupling, true) == PAIR_SOLVED) {
           pairObservables();
           storePairLane(i, psiA, pairEnergyA, f64x2.extract_lane(pairDensity, 0), f64x2.extract_lane(pairDensitySq, 0), f64x2.extract_lane(pairParityOdd, 0), f64x2.extract_lane(pairTopWeight, 0));
           storePairLane(i + 1, psiB, pairEnergyB, f64x2.extract_lane(pairDensity, 1), f64x2.extract_lane(pairDensitySq, 1), f64x2.extract_lane(pairParityOdd, 1), f64x2.extract_lane(pairTopWeight, 1));
         } else {
-          measureGround(i, psiA, mu, coupling);
-          measureGround(i + 1, psiB, mu, coupling);
+          measureGround(i, psiA, mu);
+          measureGround(i + 1, psiB, mu);
         }
       }
     }
-    for (; c < n2; c++) measureGround(base + c, measureMeanField(base + c, a, b, c), mu, coupling);
+    for (; c < n2; c++) measureGround(base + c, measureMeanField(base + c, a, b, c), mu);
   }
 }

@@ -225,10 +225,9 @@ const measureScratch: SiteObservables = createSiteObservables();
 
 /**
  * Observables of every site in rows [rowStart, rowEnd) for the current phi, without
- * changing phi or the warm-start store. The site state is the one selected by the current
- * mean field psi_i. At T = 0 the eigenvalue search starts, as in the sweeps, from the
- * site's last ground energy (Weyl bound and Hellmann-Feynman estimate), which converges to
- * the same eigenpair (to rounding) in one step instead of a cold search.
+ * changing phi. The site state is the one selected by the current mean field psi_i. The
+ * T = 0 search starts cold (Gershgorin): a warm start would give the same eigenpair only to
+ * rounding, and the measured atom number steers the mu search.
  */
 export function measureRows(
   f: KernelFields,
@@ -242,7 +241,6 @@ export function measureRows(
   const n1 = f.inner[1];
   const n2 = f.inner[2];
   const out = measureScratch;
-  const coupling = couplingNormBound(f.nmax);
   for (let row = rowStart; row < rowEnd; row++) {
     const a = (row / n1) | 0;
     const b = row - a * n1;
@@ -254,11 +252,7 @@ export function measureRows(
       if (temperature > 0) {
         solveSiteThermal(ws, u, mu - f.eps[i], psi, temperature, out);
       } else {
-        const prev = f.lowerEnergy[i];
-        const dPsi = psi - f.psiPrev[i];
-        const bound = prev === prev ? prev - Math.abs(dPsi) * coupling - 1e-12 * (Math.abs(prev) + u) : NaN;
-        const estimate = prev === prev ? prev - 2 * f.phi[i] * dPsi : NaN;
-        groundObservables(ws, solveSiteGround(ws, u, mu - f.eps[i], psi, bound, estimate), out);
+        groundObservables(ws, solveSiteGround(ws, u, mu - f.eps[i], psi, NaN), out);
       }
       m.density[i] = out.density;
       m.densitySq[i] = out.densitySq;
