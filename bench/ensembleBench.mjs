@@ -22,11 +22,11 @@ async function load(relative) {
 
 export async function runEnsembleBench({ realisations = 16 } = {}) {
   const { loadScenario } = await load('scenario/loadScenario.js');
-  const { planBlocks } = await load('ensemble/blockPlan.js');
-  const { histogramBins } = await load('ensemble/histogramBins.js');
-  const { runEnsembleBlocks } = await load('ensemble/runEnsemble.js');
-  const { absorbBlock, createEnsembleTotal } = await load('ensemble/blockPartial.js');
-  const { ensembleStatistics } = await load('ensemble/ensembleStatistics.js');
+  const { planBlocks } = await load('pipeline/ensemble/blockPlan.js');
+  const { histogramBins } = await load('pipeline/ensemble/histogramBins.js');
+  const { runEnsembleBlocks } = await load('pipeline/ensemble/runEnsemble.js');
+  const { absorbBlock, createEnsembleTotal } = await load('pipeline/ensemble/blockPartial.js');
+  const { ensembleStatistics } = await load('pipeline/ensemble/ensembleStatistics.js');
 
   const { scenario, raw } = loadScenario(scenarioPath, []);
   const siteCount = scenario.lattice.shape.reduce((a, b) => a * b, 1);

@@ -68,12 +68,20 @@ export async function runYardstickBench({ log, reps = 5 }) {
   };
   const start = (m) => new Float64Array(m.geometry.siteCount).fill(0.5);
   // Whole solve at fixed mu: wall time, sweeps, atoms.
+  // CPU seconds of the process over wall seconds: about 2 when both cores worked for us, about
+  // 1 when another program held one of them (then 2 threads cannot be faster).
+  const cpuNow = () => {
+    const u = process.cpuUsage();
+    return (u.user + u.system) / 1e6;
+  };
   const solve = async (m, kernel, threads, temperature) => {
     const state = createSolverState(m, start(m), { thermal: temperature > 0 });
     const executor = createSweepExecutor(state, threads > 1 ? pool : null, threads, { kernel });
     const t = performance.now();
+    const c = cpuNow();
     const r = await solveLattice(m, state, executor, { mode: { kind: 'mu', mu: CASE.mu }, temperature, tolerance: CASE.tol, maxSweeps: 100000, accelerate: true });
-    return { seconds: (performance.now() - t) / 1000, sweeps: r.relax.sweeps, atoms: r.totals.atoms, converged: r.converged };
+    const seconds = (performance.now() - t) / 1000;
+    return { seconds, cores: (cpuNow() - c) / seconds, sweeps: r.relax.sweeps, atoms: r.totals.atoms, converged: r.converged };
   };
   // Sweeps only, from the same start, as many as `sweeps`: site updates per second.
   const sweepRate = async (m, kernel, threads, temperature, sweeps) => {
@@ -128,7 +136,8 @@ export async function runYardstickBench({ log, reps = 5 }) {
       log('yardstick', `${L}^3 ${kernel}, ${threads} thread${threads > 1 ? 's' : ''}: site updates (total)`, rates.get(key) / 1e6, 'M upd/s', `${vsC.slice(2)}${scaling}`);
       const atoms = cBest ? `; atoms vs C ${(Math.abs(s.atoms - cBest.atoms) / cBest.atoms).toExponential(1)} rel.` : '';
       const wall = cBest ? `${(cBest.seconds / s.seconds).toFixed(2)}x C speed; ` : '';
-      log('yardstick', `${L}^3 ${kernel}, ${threads} thread${threads > 1 ? 's' : ''}: wall time to solution`, s.seconds, 's', `${wall}${s.sweeps} sweeps${atoms}${s.converged ? '' : ' NOT CONVERGED'}`);
+      const cores = threads > 1 ? `; ${s.cores.toFixed(2)} cores busy` : '';
+      log('yardstick', `${L}^3 ${kernel}, ${threads} thread${threads > 1 ? 's' : ''}: wall time to solution`, s.seconds, 's', `${wall}${s.sweeps} sweeps${atoms}${cores}${s.converged ? '' : ' NOT CONVERGED'}`);
     }
     // T > 0 through the same kernels (sweeps only; the C code has no T > 0).
     const thermal = new Map(configs.map((cfg) => [cfg.join('/'), 0]));

@@ -1,7 +1,7 @@
 // Runs half-sweeps and measuring passes over the whole lattice, on the calling thread or
-// split into contiguous row ranges shared between the calling thread and the persistent
-// workers of a sweep pool (sweepPool.ts: one Atomics barrier per half-sweep, no messages,
-// rows claimed in chunks so that a delayed thread does not hold the others up).
+// shared between the calling thread and the persistent workers of a sweep pool
+// (sweepPool.ts: one Atomics barrier per half-sweep, no messages, rows claimed in chunks so
+// that a delayed thread does not hold the others up).
 // Because a half-sweep updates one colour from the other, the result is bit-identical for
 // any split, i.e. for any thread count; and both kernels (JavaScript reference and
 // WebAssembly, kernel/sweepKernels.ts) give the same doubles.
@@ -26,14 +26,6 @@ export interface SweepExecutor {
 export interface ExecutorOptions {
   /** 'auto': WebAssembly where it can run, else the JavaScript reference; default: defaultKernelChoice() */
   kernel?: KernelChoice;
-}
-
-/** Contiguous, nearly equal row ranges. */
-export function rowRanges(rowCount: number, parts: number): Array<[number, number]> {
-  const ranges: Array<[number, number]> = [];
-  const p = Math.max(1, Math.min(parts, rowCount));
-  for (let k = 0; k < p; k++) ranges.push([Math.floor((k * rowCount) / p), Math.floor(((k + 1) * rowCount) / p)]);
-  return ranges;
 }
 
 /** Lets signals, timers and worker events run between half-sweeps (a macrotask turn). */
