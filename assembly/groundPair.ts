@@ -99,8 +99,8 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
     v128.store(b, zero, P_DIAG);
     let a = f64x2.sub(f64x2.mul(u, zero), muLocal);
     p = f64x2.sub(zero, lambda);
-    for (let k = 1; k < states; k++) {
-      const q = b + (k << 4);
+    // pointer-stepped: q = b + 16 k
+    for (let q = b + ((1) << 4), end = b + (states << 4); q < end; q += 16) {
       const index = v128.load(q, P_INDEX);
       v128.store(q, p, P_LEAD);
       v128.store(q, d, P_SLOPE);
@@ -221,8 +221,8 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
   if (allTaylor) {
     best = f64x2.add(best, f64x2.add(f64x2.mul(moved, v128.load(qLast, P_SLOPE)), f64x2.mul(half, v128.load(qLast, P_CURV))));
     v128.store(qLast, best, P_LEAD);
-    for (let k = last - 1; k >= 1; k--) {
-      const q = b + (k << 4);
+    // pointer-stepped: q = b + 16 k
+    for (let q = b + ((last - 1) << 4), end = b + ((1) << 4); q >= end; q -= 16) {
       const leadK = f64x2.add(v128.load(q, P_LEAD), f64x2.add(f64x2.mul(moved, v128.load(q, P_SLOPE)), f64x2.mul(half, v128.load(q, P_CURV))));
       v128.store(q, leadK, P_LEAD);
       v128.store(q, t, P_TRAIL);
@@ -260,8 +260,8 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
     const invTrail = f64x2.div(one, v128.load(r, P_TRAIL));
     v128.store(r, one, P_AMP);
     let prod = one;
-    for (let k = twistA - 1; k >= 0; k--) {
-      const q = b + (k << 4);
+    // pointer-stepped: q = b + 16 k
+    for (let q = b + ((twistA - 1) << 4), end = b + ((0) << 4); q >= end; q -= 16) {
       prod = f64x2.mul(prod, f64x2.mul(psi, v128.load(q, P_SQRTUP)));
       const x = f64x2.mul(f64x2.mul(v128.load(q, P_LEAD), invLead), prod);
       v128.store(q, x, P_AMP);
@@ -269,8 +269,8 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
       negative = v128.or(negative, v128.not(f64x2.ge(x, zero)));
     }
     prod = one;
-    for (let k = twistA + 1; k < states; k++) {
-      const q = b + (k << 4);
+    // pointer-stepped: q = b + 16 k
+    for (let q = b + ((twistA + 1) << 4), end = b + (states << 4); q < end; q += 16) {
       prod = f64x2.mul(prod, f64x2.mul(psi, v128.load(q - 16, P_SQRTUP)));
       const x = f64x2.mul(f64x2.mul(v128.load(q, P_TRAIL), invTrail), prod);
       v128.store(q, x, P_AMP);
@@ -312,8 +312,8 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
   let previous = f64x2.mul(v128.load(b, P_AMP), scaleAmp);
   v128.store(b, previous, P_AMP);
   let phi = zero;
-  for (let k = 1; k < states; k++) {
-    const q = b + (k << 4);
+  // pointer-stepped: q = b + 16 k
+  for (let q = b + ((1) << 4), end = b + (states << 4); q < end; q += 16) {
     const ak = f64x2.mul(v128.load(q, P_AMP), scaleAmp);
     v128.store(q, ak, P_AMP);
     phi = f64x2.add(phi, f64x2.mul(f64x2.mul(v128.load(q - 16, P_SQRTUP), previous), ak));
