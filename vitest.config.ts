@@ -4,6 +4,7 @@ export default defineConfig({
   test: {
     include: ['test/**/*.test.ts'],
     globalSetup: ['./test/globalSetup.ts'],
+    setupFiles: ['./test/kernelSetup.ts'],
     reporters: ['default', './test/summary-reporter.ts'],
     testTimeout: 120_000,
     hookTimeout: 120_000,

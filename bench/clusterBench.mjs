@@ -12,7 +12,7 @@
 // 4. cost per sweep of a trapped 24x24 lattice, cluster 1x1 / 2x1 / 2x2 (T = 0)
 import { performance } from 'node:perf_hooks';
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
-import { createSiteWorkspace, solveSiteGround, weylLowerBound } from '../dist/solver/siteProblem.js';
+import { createSiteWorkspace, solveSiteGround, weylLowerBound } from '../dist/solver/site/index.js';
 import { createClusterSolver, solveClusterGround, solveClusterThermal } from '../dist/solver/cluster/clusterSolver.js';
 import { createSymmetricEigenWorkspace, symmetricEigen } from '../dist/solver/cluster/symmetricEigen.js';
 import { createPartialEigenWorkspace, partialEigenvalues, partialEigenvectors } from '../dist/solver/cluster/partialSymmetricEigen.js';

@@ -3,7 +3,7 @@
 // time. Uses the compiled sources in dist/.
 import { performance } from 'node:perf_hooks';
 import { availableParallelism } from 'node:os';
-import { createSiteWorkspace, createSiteObservables, solveSiteGround, solveSiteThermal, weylLowerBound } from '../dist/solver/siteProblem.js';
+import { createSiteWorkspace, createSiteObservables, solveSiteGround, solveSiteThermal, weylLowerBound } from '../dist/solver/site/index.js';
 import { createLatticeGeometry } from '../dist/lattice/latticeGeometry.js';
 import { uniformModel } from '../dist/lattice/latticeModel.js';
 import { addHarmonicTrap, latticeCentre } from '../dist/lattice/harmonicTrap.js';
@@ -31,9 +31,16 @@ function formatValue(v) {
 }
 const now = () => performance.now();
 
-process.stdout.write(`tiercake benchmarks: node ${process.version}, ${availableParallelism()} cores (sweep rates: best of three blocks)\n\n`);
+process.stdout.write(`tiercake benchmarks: node ${process.version}, ${availableParallelism()} cores (sweep rates: best of three blocks; yardstick: best of five)\n\n`);
 
-// 1. Site problem throughput, nmax = 6 --------------------------------------------------
+// 0. The site kernel beside the C yardstick (48^3 and 64^3 clouds; JS and WebAssembly
+//    kernels, 1 and 2 threads, T = 0 and kT = 0.05 U) ------------------------------------
+if (want('yardstick')) {
+  const { runYardstickBench } = await import('./yardstickBench.mjs');
+  await runYardstickBench({ log, reps: 5 });
+}
+
+// 1. Site problem throughput (JavaScript reference primitives), nmax = 6 -----------------
 if (want('site')) {
   const ws = createSiteWorkspace(6);
   const out = createSiteObservables();

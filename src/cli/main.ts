@@ -17,6 +17,7 @@ import { registerCompare } from './commands/compare.js';
 import { registerKeys } from './commands/keys.js';
 import { registerEnsemble } from './commands/ensemble.js';
 import { registerMerge } from './commands/merge.js';
+import { parseKernelChoice, setDefaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 
 /** Commands set this when they finish with a non-zero status without throwing. */
 export interface CommandContext {
@@ -85,6 +86,17 @@ export async function runCli(argv: string[]): Promise<number> {
 }
 
 export function main(): void {
+  // TIERCAKE_KERNEL=js forces the JavaScript reference kernel (CI runs both paths).
+  const kernel = process.env.TIERCAKE_KERNEL;
+  if (kernel !== undefined && kernel !== '') {
+    try {
+      setDefaultKernelChoice(parseKernelChoice(kernel, 'TIERCAKE_KERNEL'));
+    } catch (err) {
+      process.stderr.write(`tiercake: ${err instanceof Error ? err.message : String(err)}\n`);
+      process.exitCode = ExitCode.badInput;
+      return;
+    }
+  }
   const argv = process.argv.slice(2);
   runCli(argv).then(
     (code) => {

@@ -6,11 +6,11 @@
 //
 // The initial state is the static ground state: the static solver keeps only the real
 // order parameter phi_i; each site's amplitudes are the ground vector of its site problem
-// at psi_i = sum_j J_ij phi_j (siteProblem.ts), which is the converged Gutzwiller state.
+// at psi_i = sum_j J_ij phi_j (src/solver/site), which is the converged Gutzwiller state.
 
 import type { LatticeModel } from '../lattice/latticeModel.js';
 import { ParameterError } from '../physics/parameterError.js';
-import { createSiteWorkspace, groundStateInPlace } from '../solver/siteProblem.js';
+import { createSiteWorkspace, solveSiteGround } from '../solver/site/index.js';
 import { frameFromModel } from './dynamicsFrame.js';
 import { meanFieldRange } from './equationsOfMotion.js';
 
@@ -88,7 +88,7 @@ export function groundStateAmplitudes(model: LatticeModel, phi: Float64Array, mu
   let top = 0;
   for (let i = 0; i < n; i++) {
     const ui = typeof u === 'number' ? u : u[i];
-    groundStateInPlace(ws, ui, mu - model.eps[i], psi[i], NaN, NaN);
+    solveSiteGround(ws, ui, mu - model.eps[i], psi[i], NaN, NaN);
     // For psi < 0 the workspace holds the vector for |psi|; (-1)^n maps it to psi.
     const flip = psi[i] < 0;
     const amp = ws.amplitudes;

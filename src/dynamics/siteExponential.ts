@@ -6,11 +6,11 @@
 //
 // H_i is Hermitian tridiagonal with off-diagonals -Psi sqrt(n+1) (below) and -Psi^* sqrt(n+1)
 // (above). With Psi = |Psi| e^{i theta} and W = diag(e^{i n theta}), W^+ H_i W is the real
-// symmetric site matrix of the static problem at psi = |Psi| (siteProblem.ts), whose
+// symmetric site matrix of the static problem at psi = |Psi| (src/solver/site), whose
 // eigenpairs (lambda_k, v_k) come from implicit QL (diagonalizeSite). Then
 //   exp(-i rate H_i tau) = W V exp(-i rate Lambda tau) V^T W^+.
 
-import { createSiteWorkspace, diagonalizeSite, type SiteWorkspace } from '../solver/siteProblem.js';
+import { createSiteWorkspace, diagonalizeSite, type SiteWorkspace } from '../solver/site/index.js';
 import type { DynamicsFrame } from './dynamicsFrame.js';
 
 export interface ExponentialWorkspace {

@@ -20,7 +20,7 @@ import { PhaseCode, phaseNames, type PhaseName } from './phaseCodes.js';
 import { plateauFilling, phaseOf, type PhaseRule } from './phaseRule.js';
 import { atomicLimitSite, type AtomicSite } from './atomicLimit.js';
 import { atomicSusceptibility, homogeneousPhi, solveHomogeneous } from '../solver/homogeneous.js';
-import { createSiteObservables, createSiteWorkspace, solveSite } from '../solver/siteProblem.js';
+import { createSiteObservables, createSiteWorkspace, solveSite } from '../solver/site/index.js';
 
 export interface LocalDensityInput {
   /** chemical potential mu (energy unit of the model) */

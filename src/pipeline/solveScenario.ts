@@ -4,7 +4,10 @@
 // (src/output/solveOutputs.ts) turn into files. Nothing here prints, writes or reads the
 // clock: progress goes to the observer, timings to an injected clock.
 
+import { InputError } from '../scenario/inputError.js';
 import { runLattice, type RunOutcome, type RunProgress } from '../solver/runLattice.js';
+import { kernelModule } from '../solver/kernel/kernelModule.js';
+import { defaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 import { createSweepExecutor, createSweepPool, type SweepPool } from '../solver/sweepExecutor.js';
 import { siteFieldsOf, type SiteFields } from '../observables/siteFields.js';
 import type { SiteClassification } from '../observables/siteClassification.js';
@@ -79,6 +82,11 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     options.resume && resolved.chemical.kind === 'atoms' ? { ...resolved.chemical, muGuess: options.resume.mu } : resolved.chemical;
   const threads = threadsFor(model.geometry.siteCount, options.threads);
   let ownPool: SweepPool | null = null;
+  // TIERCAKE_KERNEL (set process-wide by the command line) overrides the scenario.
+  const kernel = defaultKernelChoice() !== 'auto' ? defaultKernelChoice() : scenario.solver.kernel;
+  if (kernel === 'wasm' && kernelModule.module === null) {
+    throw new InputError(`solver.kernel: "wasm" is not available: ${kernelModule.reason}; use "auto" or "js"`);
+  }
   let pool: SweepPool | null = null;
   if (threads > 1) {
     pool = options.sweepPool ?? null;
@@ -96,7 +104,7 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
         chemical,
         ...(options.resume ? { initialPhi: options.resume.phi } : {}),
       },
-      (state) => createSweepExecutor(state, pool, threads),
+      (state) => createSweepExecutor(state, pool, threads, { kernel }),
     );
   } finally {
     if (ownPool) await ownPool.destroy();

@@ -136,6 +136,12 @@ export const SolverSchema = z
     accelerate: z.boolean().default(true).describe('extrapolate the slowest mode against critical slowing down'),
     atomTolerance: positive().max(0.1).default(1e-6).describe('relative accuracy of the atom number at fixed N'),
     compressibility: z.boolean().default(true).describe('compute the local compressibility map dn/dmu (two extra solves)'),
+    kernel: z
+      .enum(['auto', 'wasm', 'js'])
+      .default('auto')
+      .describe(
+        'site kernel: "auto" (WebAssembly where it can run, else JavaScript), "wasm", or "js" (the reference); all give the same numbers. The environment variable TIERCAKE_KERNEL overrides it',
+      ),
   })
   .describe('self-consistency settings');
 

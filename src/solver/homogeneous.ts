@@ -19,7 +19,7 @@ import {
   solveSite,
   type SiteObservables,
   type SiteWorkspace,
-} from './siteProblem.js';
+} from './site/index.js';
 
 export interface HomogeneousInput {
   /** coordination number times hopping, zJ (energy unit of the caller) */

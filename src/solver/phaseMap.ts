@@ -16,7 +16,7 @@
 
 import { atomicSusceptibility, homogeneousPhi, siteSusceptibility } from './homogeneous.js';
 import { brentRoot } from '../numerics/brentRoot.js';
-import { createSiteObservables, createSiteWorkspace, solveSite } from './siteProblem.js';
+import { createSiteObservables, createSiteWorkspace, solveSite } from './site/index.js';
 
 export interface PhaseMapRequest {
   zJMax: number;

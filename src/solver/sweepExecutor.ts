@@ -1,111 +1,131 @@
-// Runs half-sweeps and measuring passes over the whole lattice, either on the calling
-// thread or split into contiguous row ranges shared between the calling thread and
-// piscina worker threads. Because a half-sweep updates one colour from the other, the
-// result is bit-identical for any split, i.e. for any thread count.
+// Runs half-sweeps and measuring passes over the whole lattice, on the calling thread or
+// shared between the calling thread and the persistent workers of a sweep pool
+// (sweepPool.ts: one Atomics barrier per half-sweep, no messages, rows claimed in chunks so
+// that a delayed thread does not hold the others up).
+// Because a half-sweep updates one colour from the other, the result is bit-identical for
+// any split, i.e. for any thread count; and both kernels (JavaScript reference and
+// WebAssembly, kernel/sweepKernels.ts) give the same doubles.
 
-import { Piscina } from 'piscina';
-import { createSiteWorkspace } from './siteProblem.js';
+import { createSweepKernel, defaultKernelChoice, resolveKernel, type KernelChoice, type KernelName } from './kernel/sweepKernels.js';
 import type { SolverState } from './solverState.js';
-import { measureRows, sweepColour } from './sweepKernel.js';
-import type { SweepTask } from './sweepWorker.js';
+import { COMMAND, CONTROL, MAX_CHUNKS, openClaims, runChunks, type PoolInternals, type SweepPool } from './sweepPool.js';
+
+export { createSweepPool, type PoolOptions, type SweepPool } from './sweepPool.js';
 
 export interface SweepExecutor {
   /** compute threads in use, the calling thread included */
   readonly threads: number;
+  /** the kernel every thread runs */
+  readonly kernel: KernelName;
   /** update one colour; returns max |delta phi| */
   sweep(colour: number, mu: number, temperature: number): Promise<number>;
   /** fill the measured per-site fields */
   measure(mu: number, temperature: number): Promise<void>;
 }
 
-export type SweepPool = Piscina<SweepTask, number>;
-
-export interface PoolOptions {
-  /** worker threads (the calling thread computes too) */
-  workers: number;
-  /** worker module URL; defaults to the compiled sweepWorker.js next to this file */
-  filename?: string;
-  execArgv?: string[];
+export interface ExecutorOptions {
+  /** 'auto': WebAssembly where it can run, else the JavaScript reference; default: defaultKernelChoice() */
+  kernel?: KernelChoice;
 }
 
-/** A pool of sweep workers; destroy it with `await pool.destroy()`. */
-export function createSweepPool(options: PoolOptions): SweepPool {
-  const defaultUrl = new URL('./sweepWorker.js', import.meta.url).href;
-  const pool = new Piscina<SweepTask, number>({
-    filename: options.filename ?? defaultUrl,
-    minThreads: options.workers,
-    maxThreads: options.workers,
-    idleTimeout: 60_000,
-    ...(options.execArgv ? { execArgv: options.execArgv } : {}),
-  });
-  pool.on('error', () => {
-    // Start-up errors also reject the pending task, which is what the caller reports.
-  });
-  return pool;
-}
-
-/** Layouts made in this thread; workers belong to the pools of this process, so a count is unique. */
-let layoutCounter = 0;
-
-/** Contiguous, nearly equal row ranges. */
-export function rowRanges(rowCount: number, parts: number): Array<[number, number]> {
-  const ranges: Array<[number, number]> = [];
-  const p = Math.max(1, Math.min(parts, rowCount));
-  for (let k = 0; k < p; k++) ranges.push([Math.floor((k * rowCount) / p), Math.floor(((k + 1) * rowCount) / p)]);
-  return ranges;
-}
+/** Lets signals, timers and worker events run between half-sweeps (a macrotask turn). */
+const yieldToEventLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
 
 /**
  * Executor over `state`. With `pool` = null (or a lattice too small to gain), everything
  * runs on the calling thread.
  */
-export function createSweepExecutor(state: SolverState, pool: SweepPool | null, threads: number): SweepExecutor {
-  const ws = createSiteWorkspace(state.layout.nmax);
+export function createSweepExecutor(state: SolverState, pool: SweepPool | null, threads: number, options: ExecutorOptions = {}): SweepExecutor {
+  const kernelName = resolveKernel(options.kernel ?? defaultKernelChoice(), state.layout);
+  const local = createSweepKernel(state, kernelName, 0);
   const rowCount = state.layout.inner[0] * state.layout.inner[1];
-  const useThreads = pool === null ? 1 : Math.max(1, Math.min(threads, rowCount));
-  const ranges = rowRanges(rowCount, useThreads);
-  const layoutId = `layout-${++layoutCounter}`;
+  const internals = pool as PoolInternals | null;
+  const workerCount = internals === null ? 0 : Math.max(0, Math.min(threads - 1, internals.workers, rowCount - 1));
 
-  if (useThreads === 1 || pool === null) {
+  if (workerCount === 0 || internals === null) {
     return {
       threads: 1,
-      sweep: async (colour, mu, temperature) => sweepColour(state.fields, ws, colour, 0, rowCount, mu, temperature),
-      measure: async (mu, temperature) => measureRows(state.fields, state.measure, ws, 0, rowCount, mu, temperature),
+      kernel: kernelName,
+      sweep: async (colour, mu, temperature) => {
+        const change = local.sweep(colour, 0, rowCount, mu, temperature);
+        await yieldToEventLoop();
+        return change;
+      },
+      measure: async (mu, temperature) => {
+        local.measure(0, rowCount, mu, temperature);
+      },
     };
   }
 
-  const run = async (kind: 'sweep' | 'measure', colour: number, mu: number, temperature: number): Promise<number> => {
-    const pending: Array<Promise<number>> = [];
-    for (let k = 1; k < ranges.length; k++) {
-      pending.push(
-        pool.run({ layout: state.layout, layoutId, kind, colour, rowStart: ranges[k][0], rowEnd: ranges[k][1], mu, temperature }),
-      );
+  // About 16 chunks per thread: small enough to even out a delayed thread, large enough that
+  // claiming costs nothing.
+  const chunkRows = Math.max(1, Math.ceil(rowCount / Math.min(MAX_CHUNKS, 16 * (workerCount + 1))));
+  const chunkCount = Math.ceil(rowCount / chunkRows);
+  const control = internals.control;
+  const owner = {};
+  let ready: Promise<void> | null = null;
+  const attach = (): Promise<void> => {
+    if (internals.owner !== owner) {
+      internals.owner = owner;
+      ready = internals.attach(state.layout, kernelName, workerCount);
     }
-    // The calling thread takes the first range while the workers run the others.
-    let change = 0;
+    return ready as Promise<void>;
+  };
+
+  /** Wait until every chunk is finished (a dead worker is reported, not waited for). */
+  const waitForChunks = async (): Promise<void> => {
+    const ints = control.ints;
+    for (let f = Atomics.load(ints, CONTROL.finished); f < chunkCount; f = Atomics.load(ints, CONTROL.finished)) {
+      if (Atomics.wait(ints, CONTROL.finished, f, 200) === 'timed-out') {
+        await yieldToEventLoop(); // lets the pool see a worker that died
+        const dead = internals.members.find((m) => m.dead !== null);
+        if (dead) throw new Error(`a solver worker thread failed: ${dead.dead}`);
+      }
+    }
+  };
+
+  const run = async (command: number, colour: number, mu: number, temperature: number): Promise<number> => {
+    await attach();
+    const ints = control.ints;
+    ints[CONTROL.command] = command;
+    ints[CONTROL.colour] = colour;
+    ints[CONTROL.chunkRows] = chunkRows;
+    ints[CONTROL.rowCount] = rowCount;
+    ints[CONTROL.chunkCount] = chunkCount;
+    ints[CONTROL.failed] = 0;
+    control.values[CONTROL.mu] = mu;
+    control.values[CONTROL.temperature] = temperature;
+    const generation = (ints[CONTROL.generation] + 1) | 0;
+    openClaims(control, generation);
+    Atomics.store(ints, CONTROL.generation, generation);
+    Atomics.notify(ints, CONTROL.generation);
+    // The calling thread claims chunks too, then waits for the ones the workers took.
     let localError: unknown = null;
     try {
-      if (kind === 'sweep') change = sweepColour(state.fields, ws, colour, ranges[0][0], ranges[0][1], mu, temperature);
-      else measureRows(state.fields, state.measure, ws, ranges[0][0], ranges[0][1], mu, temperature);
+      runChunks(control, generation, command, local);
     } catch (err) {
       localError = err;
     }
-    const results = await Promise.allSettled(pending);
+    await waitForChunks();
+    await yieldToEventLoop();
     if (localError) throw localError;
-    for (const r of results) {
-      if (r.status === 'rejected') {
-        const reason = r.reason instanceof Error ? r.reason.message : String(r.reason);
-        throw new Error(`a solver worker thread failed: ${reason}`);
-      }
-      if (r.value > change) change = r.value;
+    if (ints[CONTROL.failed] !== 0) {
+      const reason = internals.members.map((m) => m.lastFailure).find((r) => r !== '') ?? 'unknown error';
+      throw new Error(`a solver worker thread failed: ${reason}`);
+    }
+    let change = 0;
+    for (let k = 0; k < chunkCount; k++) {
+      const c = control.values[CONTROL.results + k];
+      if (c > change) change = c;
     }
     return change;
   };
   return {
-    threads: ranges.length,
-    sweep: (colour, mu, temperature) => run('sweep', colour, mu, temperature),
+    threads: workerCount + 1,
+    kernel: kernelName,
+    sweep: (colour, mu, temperature) => run(COMMAND.sweep, colour, mu, temperature),
     measure: async (mu, temperature) => {
-      await run('measure', 0, mu, temperature);
+      await run(COMMAND.measure, 0, mu, temperature);
     },
   };
 }

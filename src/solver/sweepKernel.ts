@@ -9,24 +9,13 @@
 // it) and a per-thread site workspace; it allocates nothing. It runs on contiguous ranges
 // of rows of the internal [n0, n1, n2] layout (see latticeGeometry.ts).
 
-import {
-  couplingNormBound,
-  ARG_BOUND,
-  ARG_DPSI,
-  ARG_ESTIMATE,
-  ARG_TEMPERATURE,
-  ARG_MU,
-  ARG_PSI,
-  ARG_U,
-  createSiteObservables,
-  groundFromArgs,
-  groundObservables,
-  solveSiteGround,
-  solveSiteThermal,
-  thermalSweepUpdate,
-  type SiteObservables,
-  type SiteWorkspace,
-} from './siteProblem.js';
+import { groundObservables } from './site/groundObservables.js';
+import { GroundParameters, solveGround, solveSiteGround } from './site/groundState.js';
+import { createSiteObservables, type SiteObservables } from './site/siteObservables.js';
+import type { SiteWorkspace } from './site/siteWorkspace.js';
+import { solveSiteThermal } from './site/thermalState.js';
+import { ThermalSweepParameters, thermalSweepUpdate } from './site/thermalWarmStart.js';
+import { couplingNormBound } from './site/weylBound.js';
 
 /** The arrays and constants the kernel reads and writes. */
 export interface KernelFields {
@@ -107,6 +96,10 @@ function meanField(f: KernelFields, i: number, a: number, b: number, c: number):
   return psi;
 }
 
+// Argument records of the site solvers, one per thread (this module is loaded per worker).
+const groundArgs = new GroundParameters();
+const thermalArgs = new ThermalSweepParameters();
+
 /**
  * Update every site of one colour in rows [rowStart, rowEnd). Returns max |delta phi|.
  * temperature <= 0: ground state with warm-started eigenvalue search; > 0: thermal state.
@@ -131,8 +124,8 @@ export function sweepColour(
   const delta = f.delta;
   const lower = f.lowerEnergy;
   const psiPrev = f.psiPrev;
-  const result = ws.result;
-  const args = ws.args;
+  const ground = groundArgs;
+  const thermalUpdate = thermalArgs;
   const spectrum = f.spectrum;
   const couplings = f.couplings;
   const states = f.nmax + 1;
@@ -190,13 +183,13 @@ export function sweepColour(
       let phiNew: number;
       if (thermal) {
         if (spectrum !== null && couplings !== null) {
-          args[ARG_U] = u;
-          args[ARG_MU] = mu - eps[i];
-          args[ARG_PSI] = psi;
-          args[ARG_DPSI] = psi - psiPrev[i];
-          args[ARG_TEMPERATURE] = temperature;
-          thermalSweepUpdate(ws, spectrum, couplings, i * states);
-          phiNew = result[0];
+          thermalUpdate.interactionU = u;
+          thermalUpdate.muLocal = mu - eps[i];
+          thermalUpdate.psi = psi;
+          thermalUpdate.psiChange = psi - psiPrev[i];
+          thermalUpdate.temperature = temperature;
+          thermalSweepUpdate(ws, thermalUpdate, spectrum, couplings, i * states);
+          phiNew = ws.phi;
           psiPrev[i] = psi;
         } else {
           phiNew = solveSiteThermal(ws, u, mu - eps[i], psi, temperature, null);
@@ -208,13 +201,13 @@ export function sweepColour(
         const dPsi = psi - psiPrev[i];
         const bound = prev === prev ? prev - Math.abs(dPsi) * coupling - 1e-12 * (Math.abs(prev) + u) : NaN;
         const estimate = prev === prev ? prev - 2 * phi[i] * dPsi : NaN;
-        args[ARG_U] = u;
-        args[ARG_MU] = mu - eps[i];
-        args[ARG_PSI] = psi;
-        args[ARG_BOUND] = bound;
-        args[ARG_ESTIMATE] = estimate;
-        groundFromArgs(ws);
-        phiNew = result[0];
+        ground.interactionU = u;
+        ground.muLocal = mu - eps[i];
+        ground.psi = psi;
+        ground.lowerBound = bound;
+        ground.estimate = estimate;
+        solveGround(ws, ground);
+        phiNew = ws.phi;
         lower[i] = ws.eigenvalues[0];
         psiPrev[i] = psi;
       }
@@ -232,7 +225,9 @@ const measureScratch: SiteObservables = createSiteObservables();
 
 /**
  * Observables of every site in rows [rowStart, rowEnd) for the current phi, without
- * changing phi. The site state is the one selected by the current mean field psi_i.
+ * changing phi. The site state is the one selected by the current mean field psi_i. The
+ * T = 0 search starts cold (Gershgorin): a warm start would give the same eigenpair only to
+ * rounding, and the measured atom number steers the mu search.
  */
 export function measureRows(
   f: KernelFields,
@@ -265,7 +260,7 @@ export function measureRows(
       m.topWeight[i] = out.topWeight;
       m.entropy[i] = out.entropy;
       m.psi[i] = psi;
-      // Omega = sum_i (Omega_i + psi_i phi_i), with phi_i the current field (see siteProblem.ts).
+      // Omega = sum_i (Omega_i + psi_i phi_i), with phi_i the current field (DESIGN.md section 1).
       m.grandPotential[i] = out.energy + psi * f.phi[i];
     }
   }

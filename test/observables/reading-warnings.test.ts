@@ -20,7 +20,7 @@ import { fractionOfAtoms, readingWarnings, readingWarningsOfSolve, threeDigits }
 import { resolveScenario } from '../../src/scenario/resolveScenario.js';
 import { loadScenario } from '../../src/scenario/loadScenario.js';
 import { homogeneousPhi } from '../../src/solver/homogeneous.js';
-import { createSiteObservables, createSiteWorkspace, solveSite } from '../../src/solver/siteProblem.js';
+import { createSiteObservables, createSiteWorkspace, solveSite } from '../../src/solver/site/index.js';
 import { brentRoot } from '../../src/numerics/brentRoot.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tiercake-warnings-'));

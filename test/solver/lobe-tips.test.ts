@@ -8,7 +8,7 @@
 import { describe, expect, it } from 'vitest';
 import { phaseMap } from '../../src/solver/phaseMap.js';
 import { atomicSusceptibility, siteSusceptibility } from '../../src/solver/homogeneous.js';
-import { createSiteObservables, createSiteWorkspace } from '../../src/solver/siteProblem.js';
+import { createSiteObservables, createSiteWorkspace } from '../../src/solver/site/index.js';
 
 describe('lobe tips', () => {
   const map = phaseMap({ zJMax: 0.2, muMin: 0, muMax: 3, columns: 3, rows: 3, temperature: 0, nmax: 8, boundaryPoints: 400 });

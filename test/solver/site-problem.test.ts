@@ -6,11 +6,13 @@ import {
   createSiteObservables,
   createSiteWorkspace,
   diagonalizeSite,
+  GroundParameters,
+  solveGround,
   solveSite,
   solveSiteGround,
   solveSiteThermal,
   weylLowerBound,
-} from '../../src/solver/siteProblem.js';
+} from '../../src/solver/site/index.js';
 import { seededRandom } from '../../src/numerics/seededRandom.js';
 
 function referenceMatrix(nmax: number, U: number, mu: number, psi: number): Matrix {
@@ -156,5 +158,30 @@ describe('site problem: start from an estimate instead of a bound', () => {
         }
       }
     }
+  });
+});
+
+describe('site problem: the argument record of the sweep entry point', () => {
+  // Reference: ml-matrix's symmetric eigendecomposition of the matrix with -psi; the unitary
+  // (-1)^n maps H(psi) onto H(-psi), so <b> changes sign and the energy does not.
+  it('negative psi gives -phi and leaves the record as it was', () => {
+    const ws = createSiteWorkspace(6);
+    const p = new GroundParameters();
+    p.interactionU = 1;
+    p.muLocal = 1.3;
+    p.psi = -0.25;
+    p.lowerBound = NaN;
+    p.estimate = NaN;
+    solveGround(ws, p);
+    expect(p.psi).toBe(-0.25);
+    const eig = new EigenvalueDecomposition(referenceMatrix(6, 1, 1.3, -0.25), { assumeSymmetric: true });
+    const values = eig.realEigenvalues;
+    const k = values.indexOf(Math.min(...values));
+    const vec = eig.eigenvectorMatrix.getColumn(k);
+    let phiRef = 0;
+    for (let n = 0; n < 6; n++) phiRef += Math.sqrt(n + 1) * vec[n] * vec[n + 1];
+    expect(ws.phi).toBeLessThan(0);
+    expect(Math.abs(ws.phi - phiRef)).toBeLessThan(1e-12);
+    expect(Math.abs(ws.eigenvalues[0] - values[k])).toBeLessThan(1e-12);
   });
 });

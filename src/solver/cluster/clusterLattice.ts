@@ -14,7 +14,7 @@
 //
 // Warm starts. Each cluster keeps its last ground state (if the vectors of all clusters
 // fit `warmStartBytes`), otherwise it starts from the product of the single-site
-// Gutzwiller ground states in the full field of all its neighbours (siteProblem.ts). The
+// Gutzwiller ground states in the full field of all its neighbours (src/solver/site). The
 // Krylov space of a start vector conserves what the start conserves; with Psi ~ 0 that is
 // the boson number, so warm vectors belong to one fixed-mu relaxation and are dropped
 // between calls.
@@ -25,7 +25,7 @@
 // Omega_C / |C| + Psi_i phi_i, so that the sums over sites are the lattice totals.
 
 import type { LatticeModel } from '../../lattice/latticeModel.js';
-import { createSiteWorkspace, solveSiteGround } from '../siteProblem.js';
+import { createSiteWorkspace, solveSiteGround } from '../site/index.js';
 import { createClusterSolver, solveClusterGround, solveClusterThermal, type ClusterSolver, type ClusterSolverOptions } from './clusterSolver.js';
 import { createClusterTiling, type ClusterTiling } from './clusterTiling.js';
 import { productState } from './fockBasis.js';

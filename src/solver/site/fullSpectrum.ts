@@ -1,0 +1,75 @@
+// Full spectrum of the site Hamiltonian (siteWorkspace.ts) by implicit QL with Wilkinson
+// shifts and accumulated rotations (tql2; implicitQl.ts): every eigenvalue and eigenvector,
+// for the thermal observables and for measurements.
+
+import { implicitQl } from './implicitQl.js';
+import type { SiteWorkspace } from './siteWorkspace.js';
+
+/** Diagonal a_n = U n(n-1)/2 - muLocal n and squared off-diagonals psi^2 (n+1). */
+function fillDiagonal(ws: SiteWorkspace, interactionU: number, muLocal: number, psi: number): void {
+  const { diag, offSq, states } = ws;
+  const psiSq = psi * psi;
+  for (let n = 0; n < states; n++) {
+    diag[n] = 0.5 * interactionU * n * (n - 1) - muLocal * n;
+    offSq[n] = psiSq * (n + 1); // the last entry is unused
+  }
+}
+
+/**
+ * Eigenvalues ascending in ws.eigenvalues, eigenvector k in row k of ws.eigenvectors.
+ */
+export function diagonalizeSite(ws: SiteWorkspace, interactionU: number, muLocal: number, psi: number): void {
+  const n = ws.states;
+  fillDiagonal(ws, interactionU, muLocal, psi);
+  const d = ws.eigenvalues;
+  const e = ws.qlOff;
+  const z = ws.eigenvectors; // z[k*n + i]: component i of eigenvector k
+  for (let i = 0; i < n; i++) {
+    d[i] = ws.diag[i];
+    e[i] = i < n - 1 ? -psi * ws.sqrtUp[i] : 0;
+  }
+  z.fill(0);
+  for (let i = 0; i < n; i++) z[i * n + i] = 1;
+  if (psi === 0) {
+    sortEigen(ws);
+    return;
+  }
+
+  implicitQl(d, e, n, z);
+  // tql2 stores eigenvector j as column j (z[k*n + j] = component k). Transpose so that
+  // row j holds eigenvector j, then sort.
+  for (let a = 0; a < n; a++) {
+    for (let b = a + 1; b < n; b++) {
+      const t = z[a * n + b];
+      z[a * n + b] = z[b * n + a];
+      z[b * n + a] = t;
+    }
+  }
+  sortEigen(ws);
+}
+
+/** Ascending eigenvalues with their eigenvector rows (selection sort: n is tiny). */
+function sortEigen(ws: SiteWorkspace): void {
+  const n = ws.states;
+  const d = ws.eigenvalues;
+  const z = ws.eigenvectors;
+  for (let i = 0; i < n - 1; i++) {
+    let k = i;
+    let p = d[i];
+    for (let j = i + 1; j < n; j++) {
+      if (d[j] < p) {
+        k = j;
+        p = d[j];
+      }
+    }
+    if (k !== i) {
+      d[k] = d[i];
+      d[i] = p;
+      for (let c = 0; c < n; c++) {
+        const t = z[i * n + c];
+        z[i * n + c] = z[k * n + c];
+        z[k * n + c] = t;
+      }
+    }
+  }
+}
