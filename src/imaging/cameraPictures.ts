@@ -16,6 +16,7 @@
 
 import { objectPlanePixelUm, resampleToCamera } from './cameraResample.js';
 import { addShotNoise } from './shotNoise.js';
+import { streamName } from '../numerics/seededRandom.js';
 import { expectedParityImage, sampleParityShot } from './parityProjection.js';
 import { momentumStructureFactor } from '../observables/momentumStructureFactor.js';
 import { timeOfFlightImage } from './timeOfFlight.js';
@@ -99,7 +100,8 @@ export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, 
   let noiseSummary: Record<string, unknown> = { kind: 'none' };
   if (noise.kind !== 'none') {
     const countsPerAtom = noise.kind === 'atom' ? 1 : (noise.countsPerAtom ?? defaultPhotonCountsPerAtom);
-    const noisy = addShotNoise(inSitu.values, { seed: `${noise.seed}/in-situ`, countsPerAtom });
+    const inSituSeed = streamName(noise.seed, 'in-situ');
+    const noisy = addShotNoise(inSitu.values, { seed: inSituSeed, countsPerAtom });
     add(
       { ...inSitu, values: noisy },
       {
@@ -107,13 +109,13 @@ export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, 
         title: `${input.name}: in-situ exposure with ${noise.kind} shot noise`,
         description:
           noise.kind === 'atom'
-            ? `one exposure: Poisson atom number per pixel around the expected in-situ picture (seed "${noise.seed}/in-situ")`
-            : `one exposure: Poisson detected counts per pixel with ${countsPerAtom} counts per atom, divided back to atoms (seed "${noise.seed}/in-situ")`,
+            ? `one exposure: Poisson atom number per pixel around the expected in-situ picture (seed "${inSituSeed}")`
+            : `one exposure: Poisson detected counts per pixel with ${countsPerAtom} counts per atom, divided back to atoms (seed "${inSituSeed}")`,
         countsPerAtom,
       },
       inSitu.atomsOutside,
     );
-    noiseSummary = { kind: noise.kind, countsPerAtom, seed: `${noise.seed}/in-situ` };
+    noiseSummary = { kind: noise.kind, countsPerAtom, seed: inSituSeed };
   }
 
   // Parity projection: expected image, and one shot where the layer is thin enough.
@@ -132,7 +134,7 @@ export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, 
   );
   const thin = dims < 3 || input.shape[optics.axis] === 1;
   if (thin) {
-    const seed = `${noise.seed}/parity-shot`;
+    const seed = streamName(noise.seed, 'parity-shot');
     const shot = sampleParityShot(pOdd, seed);
     const shotPicture = cameraPicture(Float64Array.from(shot), input.shape, optics, grid);
     add(

@@ -6,7 +6,8 @@
 
 import { runLattice, type RunOutcome, type RunProgress } from '../solver/runLattice.js';
 import { createSweepExecutor, createSweepPool, type SweepPool } from '../solver/sweepExecutor.js';
-import { siteFieldsOf, type SiteFields } from '../observables/siteFields.js';
+import { siteFieldsFrom, type SiteFields } from '../observables/siteFields.js';
+import { siteArraysOf } from '../solver/siteArrays.js';
 import type { SiteClassification } from '../observables/siteClassification.js';
 import { classifyOutcome, runRequestOf } from './runRequest.js';
 import { scaledRadii, shellSummary, type ShellSummary } from '../observables/shellSummary.js';
@@ -102,7 +103,7 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     if (ownPool) await ownPool.destroy();
   }
   const t2 = clock();
-  const fields = siteFieldsOf(outcome.state, outcome.compressibility);
+  const fields = siteFieldsFrom(siteArraysOf(outcome.state), outcome.compressibility);
   const geometry = model.geometry;
   const classification = classifyOutcome(resolved, outcome, fields);
   const axisScale = trapAxisScale(resolved.trapCoefficient);
