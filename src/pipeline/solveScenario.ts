@@ -13,6 +13,7 @@ import { classifyOutcome, runRequestOf } from './runRequest.js';
 import { scaledRadii, shellSummary, type ShellSummary } from '../observables/shellSummary.js';
 import { radialProfile, type RadialProfile } from '../observables/radialProfile.js';
 import type { PreparedScenario } from './prepareScenario.js';
+import { readingWarningsOfSolve, type ReadingWarning } from '../observables/readingWarnings.js';
 import type { ResolvedScenario } from '../scenario/resolveScenario.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
 
@@ -54,6 +55,10 @@ export interface SolveArtifacts {
   axisScale: number[];
   shells: ShellSummary;
   profile: RadialProfile;
+  /** what cannot be trusted in the solution as it stands (readingWarnings.ts) */
+  readingWarnings: ReadingWarning[];
+  /** threads asked for (the caller's `threads`) */
+  threadsRequested: number;
   threadsUsed: number;
   timings: { resolveSeconds: number; solveSeconds: number; analysisSeconds: number };
 }
@@ -108,7 +113,13 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
   const classification = classifyOutcome(resolved, outcome, fields);
   const axisScale = trapAxisScale(resolved.trapCoefficient);
   const radius = scaledRadii(geometry.shape, resolved.trapCentre, axisScale);
-  const shells = shellSummary(fields.density, fields.condensateDensity, classification.codes, classification.mottFilling, radius);
+  const shells = shellSummary(fields.density, fields.condensateDensity, classification.codes, classification.mottFilling, radius, scenario.profiles.binWidthSites);
+  const readingWarnings = readingWarningsOfSolve(
+    outcome,
+    fields.density,
+    { tolerance: scenario.solver.tolerance, topWeightMax: scenario.truncation.topWeightMax, fixedAtoms: resolved.chemical.kind === 'atoms' },
+    { coefficient: resolved.trapCoefficient, centre: resolved.trapCentre },
+  );
   const profile = radialProfile(
     {
       density: fields.density,
@@ -137,6 +148,8 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     axisScale,
     shells,
     profile,
+    readingWarnings,
+    threadsRequested: options.threads,
     threadsUsed: threads,
     timings: { resolveSeconds: options.prepareSeconds ?? 0, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000 },
   };
