@@ -91,9 +91,11 @@ export async function solveRealisation(
   index: number,
   makeExecutor: ExecutorFactory = serialExecutor,
   observer?: (p: RunProgress) => void | 'stop',
+  /** folder of the scenario file: landscape files are read relative to it (as in `solve`) */
+  scenarioDirectory?: string,
 ): Promise<RealisationResult> {
   const scenario = realisationScenario(raw, baseSeed, index);
-  const resolved = resolveScenario(scenario);
+  const resolved = resolveScenario(scenario, scenarioDirectory !== undefined ? { scenarioDirectory } : {});
   const outcome = await runLattice(runRequestOf(resolved, observer), makeExecutor);
   const fields = siteFieldsFrom(siteArraysOf(outcome.state), outcome.compressibility);
   const classification = classifyOutcome(resolved, outcome, fields, false);
