@@ -9,7 +9,9 @@
 //   the folder's marker), and on every run without --out;
 // - hints print a command that works (commandPrefix: `tiercake` only when it is on PATH).
 
+import { execFileSync } from 'node:child_process';
 import { mkdirSync, mkdtempSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it, vi } from 'vitest';
@@ -96,6 +98,11 @@ describe('ensemble', () => {
     expect(during.length).toBeGreaterThan(1);
     expect(during.at(-1)!.sweep).toBeGreaterThan(during[0].sweep);
     expect(progress.some((p) => p.stage === 'realisation 2/2' && /blocks 1 of 1 done/.test(p.detail ?? ''))).toBe(true);
+    // realisations.csv describes the spanning rule in use (bulk, enclosing the centre), in its CSVW metadata.
+    const meta = JSON.parse(readFileSync(join(out, 'realisations.csv-metadata.json'), 'utf8'));
+    const spans = meta.tableSchema.columns.find((c: { name: string }) => c.name === 'superfluid_spans');
+    expect(spans['dc:description']).toMatch(/spans the bulk of the cloud.*encloses the trap centre/);
+    expect(readFileSync(join(out, 'realisations.csv'), 'utf8').startsWith('realisation,converged,')).toBe(true);
     // The marker's hash covers the file: a different tilt file gives a different hash.
     const marker = readMarker(out) as { scenarioHash: string };
     const plain = scenarioHash(loadScenario(path).scenario);
@@ -144,5 +151,11 @@ describe('hints name a command that works', () => {
     symlinkSync(join(repo, 'dist', 'main.js'), join(bin, 'tiercake'));
     expect(commandPrefix({ script: join(bin, 'tiercake'), env: { PATH: `/usr/bin:${bin}` }, cwd: repo })).toBe('tiercake');
     expect(commandPrefix({ script: join(bin, 'tiercake'), env: { PATH: '/usr/bin' }, cwd: bin })).toBe('node tiercake');
+  });
+
+  it('the usage lines of the built program, run as node dist/main.js from the package folder, say so', () => {
+    const root = fileURLToPath(new URL('../..', import.meta.url));
+    const help = execFileSync(process.execPath, ['dist/main.js', '--help'], { cwd: root, encoding: 'utf8', env: { ...process.env, INIT_CWD: '' } });
+    expect(help).toMatch(/^Usage: node dist\/main\.js \[options\] \[command\]/);
   });
 });

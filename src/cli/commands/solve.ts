@@ -48,7 +48,7 @@ export async function runSolveCommand(scenarioPath: string, raw: RawOptions): Pr
   const outDir = resolve(o.out ?? `out/${prepared.scenario.name}`);
   const target = outputTarget(o.out ?? outDir, { force: o.force ?? false, inputs: [scenarioPath] });
   const checkpointDir = typeof o.resume === 'string' ? resolve(o.resume) : checkpointPath(outDir);
-  const resumeFrom = o.resume ? readCheckpoint(checkpointDir, prepared.scenario) : null;
+  const resumeFrom = o.resume ? readCheckpoint(checkpointDir, prepared.scenario, landscapeFileHashes(prepared.resolved)) : null;
   const progress = progressFor(o);
 
   const artifacts = await whileInterruptible((interrupted) =>
@@ -66,7 +66,7 @@ export async function runSolveCommand(scenarioPath: string, raw: RawOptions): Pr
     await writeCheckpoint(
       checkpointDir,
       {
-        scenarioHash: checkpointHash(artifacts.scenario),
+        scenarioHash: checkpointHash(artifacts.scenario, landscapeFileHashes(artifacts.resolved)),
         mu: outcome.solve.mu,
         temperature: outcome.temperature,
         nmax: outcome.model.nmax,
