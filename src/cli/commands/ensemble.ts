@@ -176,7 +176,8 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
   const runInfo = { threads: run.threadsUsed, parallelOver: run.parallelOver, seconds };
   const records = total ? total.records : shardEntries.flatMap((e) => e.records);
   const notConverged = records.filter((r) => !r.converged).length;
-  const threadNote = `${run.threadsUsed} thread${run.threadsUsed > 1 ? 's' : ''}, parallel over ${run.parallelOver}`;
+  const fewer = run.threadsUsed < threads ? `: only ${toRun} realisation${toRun === 1 ? '' : 's'} to run side by side` : '';
+  const threadNote = `${run.threadsUsed} thread${run.threadsUsed > 1 ? 's' : ''}${fewer}, parallel over ${run.parallelOver}`;
 
   if (shard && shardFolder) {
     let commit;
