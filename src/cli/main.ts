@@ -9,6 +9,7 @@ import { Command, CommanderError } from 'commander';
 import { ExitCode, InputError } from '../scenario/inputError.js';
 import { printable } from '../scenario/formatScenarioError.js';
 import { toolVersion } from '../output/toolVersion.js';
+import { commandPrefix } from './invocation.js';
 import { registerSolve } from './commands/solve.js';
 import { registerCheck } from './commands/check.js';
 import { registerDiagram } from './commands/diagram.js';
@@ -27,7 +28,9 @@ export interface CommandContext {
 export function buildProgram(context: CommandContext): Command {
   const program = new Command();
   program
-    .name('tiercake')
+    // The usage lines name a command that works as typed (invocation.ts): `tiercake` when it
+    // is on PATH, else e.g. `node dist/main.js`.
+    .name(commandPrefix())
     .description('Site-resolved Gutzwiller predictions for bosons in trapped, disordered optical lattices')
     .version(toolVersion(), '-V, --version')
     .option('--debug', 'on an internal error, print the stack trace (also: TIERCAKE_DEBUG=1)')

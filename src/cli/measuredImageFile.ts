@@ -10,7 +10,10 @@ import { InputError } from '../scenario/inputError.js';
 
 export interface SidecarScale {
   countsPerAtom?: number;
+  /** object-plane pixel in the sidecar's length unit (micrometres, or lattice spacings in dimensionless mode) */
   pixelUm?: number;
+  /** 'um' or 'sites' when the sidecar says (files of this version); absent for earlier files (pixelUm only) */
+  lengthUnit?: 'um' | 'sites';
   file: string;
 }
 
@@ -37,11 +40,15 @@ export function readSidecar(imagePath: string): SidecarScale | null {
       return null; // not a sidecar of ours: the options must say it
     }
     const perLevel = data?.atomsPerGreyLevel;
-    const pixel = data?.pixelUm;
+    // This version writes pixelSize with lengthUnit ('um' or 'sites'), and pixelUm only when
+    // the pixel is in micrometres; earlier versions wrote pixelUm in either unit.
+    const unit = data?.lengthUnit === 'um' || data?.lengthUnit === 'sites' ? data.lengthUnit : undefined;
+    const pixel = unit !== undefined && typeof data?.pixelSize === 'number' ? data.pixelSize : data?.pixelUm;
     return {
       file,
       ...(typeof perLevel === 'number' && perLevel > 0 && /\.png$/i.test(imagePath) ? { countsPerAtom: 1 / perLevel } : {}),
       ...(typeof pixel === 'number' && pixel > 0 ? { pixelUm: pixel } : {}),
+      ...(unit !== undefined ? { lengthUnit: unit } : {}),
     };
   }
   return null;

@@ -1,14 +1,17 @@
-// Comma-separated values for profiles and tables (RFC 4180 quoting), readable by
-// pandas.read_csv(comment='#') and spreadsheets. numpy counts comment lines as lines:
-// numpy.loadtxt(f, delimiter=',', skiprows=<number of '#' lines + 1>), and
-// numpy.genfromtxt(f, delimiter=',', names=True, skip_header=<number of '#' lines>)
-// (with names=True it would otherwise take the first comment for the column names).
+// Comma-separated values for profiles and tables (RFC 4180 quoting). tiercake's own tables
+// (csvTable.ts) have the header row on the first line and their metadata in a W3C CSV on the
+// Web sidecar, so numpy.genfromtxt(f, delimiter=',', names=True) and pandas.read_csv(f)
+// read them with no options. Comment lines ('# ') are still supported here for callers
+// that have not moved to csvTable (readers must then skip them).
 //
 // Layout: optional comment lines starting with '# ', one header row of column names,
 // then one row per index. Numbers are written with String(x), the shortest decimal that
 // reads back as exactly the same double (ECMAScript Number::toString; '-0' keeps the sign),
-// so nothing is lost. NaN and infinities are written as 'nan', 'inf' and '-inf', which
-// numpy parses (checked in the tests) and so does pandas by default.
+// so nothing is lost. NaN (a missing value: an empty bin, a length without a lattice
+// spacing) is written 'nan', which numpy and pandas read as NaN and which the CSVW
+// metadata declares as the null value; infinities as 'INF' and '-INF', the lexical forms
+// of xsd:double (W3C XML Schema 1.1 Part 2, section 3.3.5), which Python's float() and so
+// numpy also read.
 // A field is quoted when it holds a comma, a double quote, a line break or edge spaces,
 // with inner quotes doubled (RFC 4180, section 2). Lines end with '\n'. A '#' inside a
 // name or text value is refused: numpy and pandas with comment='#' would cut the line there.
@@ -20,8 +23,8 @@ export interface CsvColumn {
 
 function formatNumber(x: number): string {
   if (Number.isNaN(x)) return 'nan';
-  if (x === Infinity) return 'inf';
-  if (x === -Infinity) return '-inf';
+  if (x === Infinity) return 'INF';
+  if (x === -Infinity) return '-INF';
   return Object.is(x, -0) ? '-0' : String(x);
 }
 

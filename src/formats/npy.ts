@@ -7,9 +7,13 @@
 //
 // Reading validates the whole header before touching the data: magic, version, header
 // length within the file, the dict syntax (exactly the three keys, Python literals only),
-// a supported numeric dtype, fortran_order False, a shape of non-negative integers, and a
-// data section of exactly shape x itemsize bytes. Every problem is an NpyFormatError whose
-// message names the file, so a caller can turn it into an input error as it is.
+// a supported numeric dtype, fortran_order, a shape of non-negative integers, and a data
+// section of exactly shape x itemsize bytes. Every problem is an NpyFormatError whose
+// message names the file (and whose `problem` says what kind of fault it is), so a caller
+// can turn it into an input error as it is. Fortran-order arrays are refused unless the
+// caller accepts them (`fortranOrder: 'accept'`); decodeNpy then transposes them into C
+// order (element (i0, ..., ik) sits at i0 + n0 (i1 + n1 (...)) in Fortran order), so the
+// values always come back in C order.
 
 export type NpyArray = Float64Array | Int32Array | Uint8Array;
 
@@ -41,14 +45,27 @@ export function encodeNpy(data: NpyArray, shape: readonly number[]): Uint8Array 
   return out;
 }
 
+/** What kind of fault a .npy file has (for readers that sort faults, e.g. camera frames). */
+export type NpyProblem = 'not-npy' | 'unsupported' | 'truncated' | 'damaged';
+
 /** A .npy file that cannot be read; the message names the file and what is wrong. */
 export class NpyFormatError extends Error {
   readonly file: string;
-  constructor(file: string, problem: string) {
-    super(`${file}: ${problem}`);
+  readonly problem: NpyProblem;
+  /** the message without the file name */
+  readonly detail: string;
+  constructor(file: string, detail: string, problem: NpyProblem = 'damaged') {
+    super(`${file}: ${detail}`);
     this.name = 'NpyFormatError';
     this.file = file;
+    this.problem = problem;
+    this.detail = detail;
   }
+}
+
+export interface NpyReadOptions {
+  /** 'refuse' (default): a Fortran-order array is an error; 'accept': it is read (decodeNpy transposes it). */
+  fortranOrder?: 'refuse' | 'accept';
 }
 
 export interface NpyHeader {
@@ -62,6 +79,8 @@ export interface NpyHeader {
   kind: string;
   itemSize: number;
   shape: number[];
+  /** true when the data are in Fortran order (only with fortranOrder: 'accept') */
+  fortranOrder: boolean;
   /** values in the array (product of the shape) */
   count: number;
   /** offset of the first data byte */
@@ -81,7 +100,7 @@ class HeaderScanner {
   private at = 0;
   constructor(
     private readonly text: string,
-    private readonly fail: (problem: string) => never,
+    private readonly fail: (problem: string, kind?: NpyProblem) => never,
   ) {}
 
   private space(): void {
@@ -150,20 +169,20 @@ class HeaderScanner {
 }
 
 /** Parse and check the header of a .npy file (see the file header); `file` names it in messages. */
-export function readNpyHeader(bytes: Uint8Array, file = '.npy file'): NpyHeader {
-  const fail = (problem: string): never => {
-    throw new NpyFormatError(file, problem);
+export function readNpyHeader(bytes: Uint8Array, file = '.npy file', options: NpyReadOptions = {}): NpyHeader {
+  const fail = (problem: string, kind: NpyProblem = 'damaged'): never => {
+    throw new NpyFormatError(file, problem, kind);
   };
-  if (bytes.length < 10 || MAGIC.some((m, i) => bytes[i] !== m)) fail('not a NumPy .npy file (it does not start with the bytes \\x93NUMPY)');
+  if (bytes.length < 10 || MAGIC.some((m, i) => bytes[i] !== m)) fail('not a NumPy .npy file (it does not start with the bytes \\x93NUMPY)', 'not-npy');
   const major = bytes[6];
   const minor = bytes[7];
-  if (major !== 1 && major !== 2 && major !== 3) fail(`.npy format version ${major}.${minor} is not known (1.0, 2.0 and 3.0 are)`);
+  if (major !== 1 && major !== 2 && major !== 3) fail(`.npy format version ${major}.${minor} is not known (1.0, 2.0 and 3.0 are)`, 'unsupported');
   const lengthBytes = major === 1 ? 2 : 4;
   const start = 8 + lengthBytes;
-  if (bytes.length < start) fail('the file ends inside the .npy preamble');
+  if (bytes.length < start) fail('the file ends inside the .npy preamble', 'truncated');
   const headerLength = major === 1 ? bytes[8] | (bytes[9] << 8) : (bytes[8] | (bytes[9] << 8) | (bytes[10] << 16)) + bytes[11] * 2 ** 24;
   if (start + headerLength > bytes.length) {
-    fail(`the .npy header length ${headerLength} runs past the end of the file (${bytes.length} bytes); the file is truncated or damaged`);
+    fail(`the .npy header length ${headerLength} runs past the end of the file (${bytes.length} bytes); the file is truncated or damaged`, 'truncated');
   }
   const headerBytes = bytes.subarray(start, start + headerLength);
   let header: string;
@@ -183,7 +202,7 @@ export function readNpyHeader(bytes: Uint8Array, file = '.npy file'): NpyHeader 
     if (entries.has(key)) fail(`the header dict names '${key}' twice`);
     scan.expect(':', "':' after a key");
     if (key === 'descr') {
-      if (scan.peek() === '[') fail('structured dtypes (a list in descr) are not supported; save a plain numeric array');
+      if (scan.peek() === '[') fail('structured dtypes (a list in descr) are not supported; save a plain numeric array', 'unsupported');
       entries.set(key, scan.string());
     } else if (key === 'fortran_order') entries.set(key, scan.word());
     else if (key === 'shape') entries.set(key, scan.shape());
@@ -197,16 +216,18 @@ export function readNpyHeader(bytes: Uint8Array, file = '.npy file'): NpyHeader 
   for (const key of ['descr', 'fortran_order', 'shape']) if (!entries.has(key)) fail(`the header dict has no '${key}'`);
 
   const fortran = entries.get('fortran_order');
-  if (fortran === 'True') fail('the array is stored in Fortran order; save it in C order (numpy.ascontiguousarray) and try again');
-  if (fortran !== 'False') fail(`fortran_order is ${String(fortran)}; expected True or False`);
+  if (fortran !== 'True' && fortran !== 'False') fail(`fortran_order is ${String(fortran)}; expected True or False`);
+  if (fortran === 'True' && options.fortranOrder !== 'accept') {
+    fail('the array is stored in Fortran order; save it in C order (numpy.ascontiguousarray) and try again', 'unsupported');
+  }
 
   const descr = entries.get('descr') as string;
   const m = /^([<>|=])([fiub])(\d+)$/.exec(descr);
   const kind = m ? `${m[2]}${m[3]}` : '';
   const itemSize = ITEM_SIZES[kind];
-  if (!m || itemSize === undefined) fail(`dtype ${JSON.stringify(descr)} is not supported (use float64, float32 or an integer type)`);
+  if (!m || itemSize === undefined) fail(`dtype ${JSON.stringify(descr)} is not supported (use float64, float32 or an integer type)`, 'unsupported');
   const order = (m as RegExpExecArray)[1];
-  if (order === '|' && itemSize !== 1) fail(`dtype ${JSON.stringify(descr)} has no byte order; multi-byte types need '<' or '>'`);
+  if (order === '|' && itemSize !== 1) fail(`dtype ${JSON.stringify(descr)} has no byte order; multi-byte types need '<' or '>'`, 'unsupported');
 
   const shape = entries.get('shape') as number[];
   let count = 1;
@@ -215,17 +236,22 @@ export function readNpyHeader(bytes: Uint8Array, file = '.npy file'): NpyHeader 
   const dataOffset = start + headerLength;
   const dataBytes = bytes.length - dataOffset;
   if (dataBytes !== count * itemSize) {
+    const short = dataBytes < count * itemSize;
     fail(
       `the header's shape (${shape.join(', ')}) of ${descr} needs ${count * itemSize} data bytes, the file holds ${dataBytes}; ` +
-        `the file is ${dataBytes < count * itemSize ? 'truncated' : 'damaged'}`,
+        `the file is ${short ? 'truncated' : 'damaged (extra bytes after the array)'}`,
+      short ? 'truncated' : 'damaged',
     );
   }
-  return { version: [major, minor], descr, littleEndian: order !== '>', kind, itemSize, shape, count, dataOffset };
+  return { version: [major, minor], descr, littleEndian: order !== '>', kind, itemSize, shape, fortranOrder: fortran === 'True', count, dataOffset };
 }
 
-/** Decode a C-order .npy of float64/float32/integers/bool into float64 values; `file` names it in messages. */
-export function decodeNpy(bytes: Uint8Array, file = '.npy file'): DecodedNpy {
-  const h = readNpyHeader(bytes, file);
+/**
+ * Decode a .npy of float64/float32/integers/bool into float64 values in C order; `file`
+ * names it in messages. Fortran order only with `fortranOrder: 'accept'` (transposed).
+ */
+export function decodeNpy(bytes: Uint8Array, file = '.npy file', options: NpyReadOptions = {}): DecodedNpy & { header: NpyHeader } {
+  const h = readNpyHeader(bytes, file, options);
   const view = new DataView(bytes.buffer, bytes.byteOffset + h.dataOffset, h.count * h.itemSize);
   const little = h.littleEndian;
   const data = new Float64Array(h.count);
@@ -245,5 +271,27 @@ export function decodeNpy(bytes: Uint8Array, file = '.npy file'): DecodedNpy {
       case 'u8': data[i] = Number(view.getBigUint64(p, little)); break;
     }
   }
-  return { data, shape: h.shape };
+  return { data: h.fortranOrder ? fortranToC(data, h.shape) : data, shape: h.shape, header: h };
+}
+
+/** Values stored in Fortran order (first axis fastest) rearranged into C order (last axis fastest). */
+export function fortranToC(values: Float64Array, shape: readonly number[]): Float64Array {
+  const dims = shape.length;
+  if (dims < 2) return values;
+  const out = new Float64Array(values.length);
+  const index = new Array<number>(dims).fill(0);
+  // Fortran strides: 1, n0, n0 n1, ...
+  const fStride = new Array<number>(dims);
+  fStride[0] = 1;
+  for (let d = 1; d < dims; d++) fStride[d] = fStride[d - 1] * shape[d - 1];
+  for (let c = 0; c < values.length; c++) {
+    let f = 0;
+    for (let d = 0; d < dims; d++) f += index[d] * fStride[d];
+    out[c] = values[f];
+    for (let d = dims - 1; d >= 0; d--) {
+      if (++index[d] < shape[d]) break;
+      index[d] = 0;
+    }
+  }
+  return out;
 }

@@ -9,7 +9,8 @@
 // sigma a/2 leaves about a 12 % dip between two equally bright neighbours), no noise.
 //
 // Dimensionless mode (no lattice spacing): every length is in lattice spacings, i.e.
-// 1 site = 1 length unit; `...Um` settings are read in sites and the labels say 'sites'.
+// 1 site = 1 length unit, and the labels say 'sites'; only the ...Sites settings are
+// accepted there (a ...Um setting is a ParameterError naming its ...Sites twin).
 // A setting that does not fit the cloud (an imaging axis a 2D lattice lacks, a PSF from
 // optics without a lattice spacing) is a ParameterError naming the scenario key; the
 // pipeline reports it as an input error before anything is solved.
@@ -21,6 +22,8 @@ import { objectPlanePixelUm, type CameraGrid } from './cameraResample.js';
 import { psfSigmaUm } from './pointSpreadFunction.js';
 import { defaultCameraSettings, type CameraSettings } from '../scenario/imagingSchema.js';
 import { latticeSites, micrometres, type LengthUnit, type PixelPicture } from './pixelPicture.js';
+import type { OrbitalAxesSource } from './siteOrbital.js';
+import type { ParticleHoleInput } from './particleHoleCoherence.js';
 
 /** What the camera model needs to know about a solved cloud (plain data). */
 export interface CloudForImaging {
@@ -37,8 +40,12 @@ export interface CloudForImaging {
   orderParameter: Float64Array;
   /** Trap centre in site coordinates, one per axis. */
   trapCentre: readonly number[];
-  /** Gaussian Wannier width l / a, one number or one per lattice axis; null when unknown. */
+  /** Gaussian Wannier width l / a, one number or one per lattice axis; null when unknown (used only without orbitalAxes). */
   wannierWidthSites: number | readonly number[] | null;
+  /** Lattice axes (depth, spacing) and trapped axes (oscillator length) for the site orbitals (laboratory mode). */
+  orbitalAxes?: OrbitalAxesSource | null;
+  /** Model arrays for the optional particle-hole correction (solver energy unit). */
+  strongCoupling?: Omit<ParticleHoleInput, 'shape' | 'imagingAxis' | 'phiRe' | 'phiIm'> | null;
 }
 
 export const axisLetters = ['x', 'y', 'z'] as const;
@@ -59,6 +66,8 @@ export interface CameraOptics {
   cellUm: number;
   /** Object-plane pixel, length unit. */
   pixelUm: number;
+  /** Camera (sensor) pixel, length unit: object-plane pixel x magnification. */
+  cameraPixel: number;
   psfSigmaUm: number;
   psfSource: string;
   lengthUnit: LengthUnit;
@@ -84,8 +93,14 @@ export function cameraOptics(cloud: CloudForImaging, camera: CameraSettings = de
   const keptAxes: [number, number] = axis === 0 ? [1, 2] : axis === 1 ? [0, 2] : [0, 1];
   const laboratory = cloud.latticeSpacingUm !== null;
   const cellUm = cloud.latticeSpacingUm ?? 1;
-  const pixelUm =
-    camera.cameraPixelUm !== undefined ? objectPlanePixelUm(camera.cameraPixelUm, camera.magnification) : defaultObjectPixelSites * cellUm;
+  if (!laboratory && camera.cameraPixelUm !== undefined) {
+    throw new ParameterError('camera.cameraPixelUm', 'needs laboratory mode (a length in micrometres); in dimensionless mode give camera.cameraPixelSites');
+  }
+  if (!laboratory && camera.psf !== undefined && 'sigmaUm' in camera.psf) {
+    throw new ParameterError('camera.psf.sigmaUm', 'needs laboratory mode (a length in micrometres); in dimensionless mode give camera.psf.sigmaSites');
+  }
+  const cameraPixel = camera.cameraPixelUm ?? (camera.cameraPixelSites !== undefined ? camera.cameraPixelSites * cellUm : undefined);
+  const pixelUm = cameraPixel !== undefined ? objectPlanePixelUm(cameraPixel, camera.magnification) : defaultObjectPixelSites * cellUm;
   let sigma: number;
   let psfSource: string;
   const psf = camera.psf;
@@ -97,7 +112,7 @@ export function cameraOptics(cloud: CloudForImaging, camera: CameraSettings = de
     psfSource = `given: sigma = ${psf.sigmaSites} lattice spacings`;
   } else if ('sigmaUm' in psf) {
     sigma = psf.sigmaUm;
-    psfSource = `given: sigma = ${psf.sigmaUm} ${laboratory ? 'µm' : 'sites'}`;
+    psfSource = `given: sigma = ${psf.sigmaUm} µm`;
   } else {
     if (!laboratory) {
       throw new ParameterError(
@@ -115,6 +130,7 @@ export function cameraOptics(cloud: CloudForImaging, camera: CameraSettings = de
     keptAxes,
     cellUm,
     pixelUm,
+    cameraPixel: cameraPixel ?? pixelUm * camera.magnification,
     psfSigmaUm: sigma,
     psfSource,
     lengthUnit: laboratory ? micrometres : latticeSites,

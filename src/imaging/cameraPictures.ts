@@ -7,20 +7,28 @@
 //                      Science 329, 547 (2010); Sherson et al., Nature 467, 68 (2010))
 //   parity_shot        one seeded parity-projected exposure (2D layers and chains only:
 //                      in a thick 3D cloud the columns would overlap)
-//   time_of_flight     far-field picture after free expansion, when the atomic mass, the
-//                      lattice spacing and the Wannier width are known (laboratory mode)
+//   time_of_flight     the picture after the flight (timeOfFlightPicture.ts: exact free
+//                      expansion at the flight time, or the far-field approximation n(k)),
+//                      when the atomic mass, the lattice spacing and the site orbitals are
+//                      known (laboratory mode); also shown on a log colour scale
 // and the time-of-flight visibility (Gerbier et al., PRL 95, 050404 (2005)) with its
-// definition, for the summary. Camera defaults: cameraOptics.ts. Without a
-// `timeOfFlight` section: 20 ms flight, the momentum grid as the pixel grid, 3 Brillouin
-// zones, visibility disks of radius 0.15 (2 hbar k_L).
+// definition, for the summary: measured on the picture and on n(k). In dimensionless mode
+// only the visibility of the lattice structure factor (envelope 1) is given. Camera
+// defaults: cameraOptics.ts. Without a `timeOfFlight` section: 20 ms free expansion, the
+// far-field momentum grid step as the pixel, 3 Brillouin zones, visibility disks of radius
+// 0.15 (2 hbar k_L).
 
-import { objectPlanePixelUm, resampleToCamera } from './cameraResample.js';
+import { objectPlanePixelUm } from './cameraResample.js';
 import { addShotNoise } from './shotNoise.js';
+import { streamName } from '../numerics/seededRandom.js';
+import { lengthEntry, lengthUnitEntries } from './lengthKeys.js';
 import { expectedParityImage, sampleParityShot } from './parityProjection.js';
 import { momentumStructureFactor } from '../observables/momentumStructureFactor.js';
-import { timeOfFlightImage } from './timeOfFlight.js';
 import { interferenceVisibility } from './interferenceVisibility.js';
-import { gaussianWannierEnvelope, type MomentumEnvelope } from './wannierEnvelope.js';
+import { structureFactorOnlyEnvelope, structureFactorOnlyNote } from './wannierEnvelope.js';
+import { timeOfFlightPicture } from './timeOfFlightPicture.js';
+import { harmonicGroundStateOrbital, siteOrbitalsForAxes, type SiteOrbital1d } from './siteOrbital.js';
+import { particleHoleBondCoherence, withBondCoherence } from './particleHoleCoherence.js';
 import { defaultCameraSettings, defaultTimeOfFlightSettings, type CameraSettings, type TimeOfFlightSettings } from '../scenario/imagingSchema.js';
 import type { LengthUnit, PixelPicture } from './pixelPicture.js';
 import { axisLetters, cameraOptics, cameraPicture, centredGrid, defaultPhotonCountsPerAtom, type CloudForImaging } from './cameraOptics.js';
@@ -39,8 +47,17 @@ export interface CameraPictureEntry {
   axisNote?: string;
   /** extra sidecar entries (e.g. flight time) */
   extra?: Record<string, unknown>;
+  /** also show the picture on a logarithmic colour scale (images/<name>_log.png, colour only) */
+  logView?: boolean;
   /** atoms of cells outside a fixed frame (0 for the automatic frame) */
   atomsOutside: number;
+}
+
+/** A notice about a picture that a reader must see (e.g. the far-field check of the time of flight). */
+export interface CameraNotice {
+  code: string;
+  severity: 'warning' | 'info';
+  message: string;
 }
 
 export interface CameraPictureSet {
@@ -49,16 +66,22 @@ export interface CameraPictureSet {
   lengthUnit: LengthUnit;
   pictures: CameraPictureEntry[];
   /** summary.json "imaging" block without the per-picture list (the writer adds it with the file names) */
-  summary: { lengthUnit: string; camera: Record<string, unknown>; timeOfFlight: Record<string, unknown>; visibility: Record<string, unknown> };
+  summary: {
+    /** 'um' or 'sites': the unit of every neutral length key (pixelSize, psfSigma, ...) */
+    lengthUnit: 'um' | 'sites';
+    lengthUnitNote: string;
+    camera: Record<string, unknown>;
+    timeOfFlight: Record<string, unknown>;
+    visibility: Record<string, unknown>;
+  };
+  /** notices of the pictures ('warning' ones belong in the run's warnings) */
+  notices: CameraNotice[];
 }
 
 function perAxis(value: number | readonly number[], dims: number): number[] {
   if (typeof value === 'number') return Array<number>(dims).fill(value);
   return value.length === 1 ? Array<number>(dims).fill(value[0]) : [...value];
 }
-
-/** The flat envelope used for the visibility when no Wannier width is known: V depends only on equal-|k| comparisons. */
-const flatEnvelope: MomentumEnvelope = { at: () => 1 };
 
 /** All pictures of a cloud with the summary block (see the file header). */
 export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, tof?: TimeOfFlightSettings): CameraPictureSet {
@@ -99,7 +122,8 @@ export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, 
   let noiseSummary: Record<string, unknown> = { kind: 'none' };
   if (noise.kind !== 'none') {
     const countsPerAtom = noise.kind === 'atom' ? 1 : (noise.countsPerAtom ?? defaultPhotonCountsPerAtom);
-    const noisy = addShotNoise(inSitu.values, { seed: `${noise.seed}/in-situ`, countsPerAtom });
+    const inSituSeed = streamName(noise.seed, 'in-situ');
+    const noisy = addShotNoise(inSitu.values, { seed: inSituSeed, countsPerAtom });
     add(
       { ...inSitu, values: noisy },
       {
@@ -107,13 +131,13 @@ export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, 
         title: `${input.name}: in-situ exposure with ${noise.kind} shot noise`,
         description:
           noise.kind === 'atom'
-            ? `one exposure: Poisson atom number per pixel around the expected in-situ picture (seed "${noise.seed}/in-situ")`
-            : `one exposure: Poisson detected counts per pixel with ${countsPerAtom} counts per atom, divided back to atoms (seed "${noise.seed}/in-situ")`,
+            ? `one exposure: Poisson atom number per pixel around the expected in-situ picture (seed "${inSituSeed}")`
+            : `one exposure: Poisson detected counts per pixel with ${countsPerAtom} counts per atom, divided back to atoms (seed "${inSituSeed}")`,
         countsPerAtom,
       },
       inSitu.atomsOutside,
     );
-    noiseSummary = { kind: noise.kind, countsPerAtom, seed: `${noise.seed}/in-situ` };
+    noiseSummary = { kind: noise.kind, countsPerAtom, seed: inSituSeed };
   }
 
   // Parity projection: expected image, and one shot where the layer is thin enough.
@@ -132,7 +156,7 @@ export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, 
   );
   const thin = dims < 3 || input.shape[optics.axis] === 1;
   if (thin) {
-    const seed = `${noise.seed}/parity-shot`;
+    const seed = streamName(noise.seed, 'parity-shot');
     const shot = sampleParityShot(pOdd, seed);
     const shotPicture = cameraPicture(Float64Array.from(shot), input.shape, optics, grid);
     add(
@@ -149,87 +173,99 @@ export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, 
 
   // Time of flight and visibility.
   const tofUsed = tof ?? defaultTimeOfFlightSettings();
-  const structure = momentumStructureFactor(
-    { phiRe: input.orderParameter, density: input.density, shape: input.shape },
-    { imagingAxis: optics.axis },
-  );
-  let widths: number[] | null = null;
-  if (input.wannierWidthSites !== null) {
+  const field = { phiRe: input.orderParameter, density: input.density, shape: input.shape };
+  const bonds =
+    tofUsed.strongCouplingCorrection && input.strongCoupling
+      ? particleHoleBondCoherence({ shape: input.shape, imagingAxis: optics.axis, phiRe: input.orderParameter, ...input.strongCoupling })
+      : undefined;
+  let orbitals: [SiteOrbital1d, SiteOrbital1d] | null = null;
+  if (input.orbitalAxes) orbitals = siteOrbitalsForAxes(input.orbitalAxes, optics.keptAxes);
+  else if (input.wannierWidthSites !== null && input.latticeSpacingUm !== null) {
+    // Only a Gaussian width is known: the harmonic-oscillator orbital of that width.
     const all = perAxis(input.wannierWidthSites, 3);
     const kept = [all[optics.keptAxes[0]], all[optics.keptAxes[1]]];
-    // A side view of a layer needs the width along the unresolved axis, which we do not know.
-    widths = kept.every((w) => w !== undefined && w > 0) ? kept : null;
+    if (kept.every((w) => w !== undefined && w > 0)) {
+      orbitals = [harmonicGroundStateOrbital(kept[0] * input.latticeSpacingUm), harmonicGroundStateOrbital(kept[1] * input.latticeSpacingUm)];
+    }
   }
-  const envelope =
-    widths !== null && input.latticeSpacingUm !== null ? gaussianWannierEnvelope([widths[0], widths[1]], input.latticeSpacingUm) : flatEnvelope;
-  const visibility = interferenceVisibility(structure, {
-    latticeSpacingUm: input.latticeSpacingUm ?? 1,
-    envelope,
-    diskRadiusInTwoHbarKl: tofUsed.visibilityDiskRadiusInTwoHbarKl,
-  });
-  const visibilitySummary = {
-    value: visibility.visibility,
-    definition:
-      'V = (n_max - n_min) / (n_max + n_min): n_max = atoms in the four disks around the first-order peaks at k = 2 hbar k_L along +-x and +-y, ' +
-      'n_min = atoms in four equal disks at the same |k| along the diagonals (Gerbier et al., PRL 95, 050404 (2005))',
-    peakAtoms: visibility.peakAtoms,
-    diagonalAtoms: visibility.diagonalAtoms,
-    diskRadiusInTwoHbarKl: visibility.diskRadiusInTwoHbarKl,
-    envelope:
-      envelope === flatEnvelope
-        ? 'none: no Wannier width is known (dimensionless mode), so the lattice structure factor alone is compared'
-        : `Gaussian Wannier envelope, width l/a = ${widths?.map((w) => w.toPrecision(4)).join(', ')}`,
-  };
-
+  const definition =
+    'V = (n_max - n_min) / (n_max + n_min): n_max = atoms in the four disks around the first-order peaks at k = 2 hbar k_L along +-x and +-y, ' +
+    'n_min = atoms in four equal disks at the same |k| along the diagonals (Gerbier et al., PRL 95, 050404 (2005))';
   let tofSummary: Record<string, unknown>;
-  if (input.massKg === null || input.latticeSpacingUm === null || widths === null) {
+  let visibilitySummary: Record<string, unknown>;
+  let notices: CameraNotice[] = [];
+  if (input.massKg === null || input.latticeSpacingUm === null || orbitals === null) {
+    // Dimensionless mode: no mass, no Wannier function; the visibility of the lattice
+    // structure factor alone (envelope 1), and no picture.
+    let structure = momentumStructureFactor(field, { imagingAxis: optics.axis });
+    if (bonds) structure = withBondCoherence(structure, bonds);
+    const v = interferenceVisibility(structure, {
+      latticeSpacingUm: input.latticeSpacingUm ?? 1,
+      envelope: structureFactorOnlyEnvelope,
+      diskRadiusInTwoHbarKl: tofUsed.visibilityDiskRadiusInTwoHbarKl,
+    });
+    visibilitySummary = {
+      value: v.visibility,
+      measuredOn: 'the momentum distribution n(k) of the lattice structure factor (no picture: dimensionless mode)',
+      definition,
+      peakAtoms: v.peakAtoms,
+      diagonalAtoms: v.diagonalAtoms,
+      diskRadiusInTwoHbarKl: v.diskRadiusInTwoHbarKl,
+      envelope: structureFactorOnlyNote,
+      strongCouplingCorrection: bonds !== undefined,
+    };
     tofSummary = {
       written: false,
-      reason: 'the atomic mass, lattice spacing and Wannier width are needed (laboratory mode); the visibility is still computed from the order parameter',
+      reason: 'the atomic mass, lattice spacing and Wannier functions are needed (laboratory mode); the visibility is still computed from the order parameter',
     };
   } else {
-    const image = timeOfFlightImage(structure, {
-      latticeSpacingUm: input.latticeSpacingUm,
+    const picture = timeOfFlightPicture({
+      field,
+      imagingAxis: optics.axis,
       massKg: input.massKg,
+      latticeSpacingUm: input.latticeSpacingUm,
+      orbitals,
       flightTimeMs: tofUsed.flightTimeMs,
-      envelope,
+      model: tofUsed.model,
+      ...(tofUsed.cameraPixelUm !== undefined ? { objectPixelUm: objectPlanePixelUm(tofUsed.cameraPixelUm, tofUsed.magnification) } : {}),
       brillouinZones: tofUsed.brillouinZones,
+      originUm: optics.originUm,
+      visibilityDiskRadiusInTwoHbarKl: tofUsed.visibilityDiskRadiusInTwoHbarKl,
+      ...(bonds ? { bondCoherence: bonds } : {}),
     });
-    let picture: PixelPicture = image;
-    let atomsOutside = 0;
-    if (tofUsed.cameraPixelUm !== undefined) {
-      const pixelUm = objectPlanePixelUm(tofUsed.cameraPixelUm, tofUsed.magnification);
-      const resampled = resampleToCamera(image, {
-        cellUm: image.pixelUm,
-        pixelUm,
-        originUm: { x: image.xCentresUm[0], y: image.yCentresUm[0] },
-      });
-      picture = resampled;
-      atomsOutside = resampled.atomsOutside;
-    }
     add(
       picture,
       {
-          name: 'time_of_flight',
-        title: `${input.name}: time of flight, ${tofUsed.flightTimeMs} ms`,
-        description:
-          `far-field density after ${tofUsed.flightTimeMs} ms of free expansion: n(k) = |w(k)|^2 [|sum_i e^{-ik.r_i} phi_i|^2 + sum_i (n_i - |phi_i|^2)] ` +
-          'at k = m x / (hbar t), atoms per pixel; coordinates from the zero-momentum point',
+        name: 'time_of_flight',
+        title: `${input.name}: time of flight, ${tofUsed.flightTimeMs} ms (${picture.label})`,
+        description: picture.description,
         axisNote: ' after flight',
-        extra: { flightTimeMs: tofUsed.flightTimeMs, firstOrderPeakUm: image.firstOrderPeakUm, momentumPixelPerUm: image.kStepPerUm },
+        extra: picture.metadata,
+        logView: true,
       },
-      atomsOutside,
+      picture.atomsOutsideFrame,
     );
+    visibilitySummary = {
+      value: picture.visibility.visibility,
+      measuredOn: `the time-of-flight picture (${picture.label})`,
+      definition,
+      peakAtoms: picture.visibility.peakAtoms,
+      diagonalAtoms: picture.visibility.diagonalAtoms,
+      diskRadiusInTwoHbarKl: picture.visibility.diskRadiusInTwoHbarKl,
+      momentumDistributionValue: picture.momentumVisibility.visibility,
+      momentumDistributionNote: 'the same V of the momentum distribution n(k) (the far-field limit, t -> infinity), with the same envelope',
+      envelope: `|w~(k)|^2 of the site orbitals: ${orbitals[0].description}; ${orbitals[1].description}`,
+      strongCouplingCorrection: picture.strongCouplingCorrection,
+    };
     tofSummary = {
       written: true,
-      flightTimeMs: tofUsed.flightTimeMs,
-      pixelUm: picture.pixelUm,
-      firstOrderPeakUm: image.firstOrderPeakUm,
+      ...picture.metadata,
       brillouinZones: tofUsed.brillouinZones,
-      atomsInImage: image.atomsInImage,
-      atomNumber: image.atomNumber,
-      note: 'atomsInImage falls short of the atom number by the envelope tail outside the field of view and by the overlap of neighbouring Gaussian Wannier functions',
+      atomsInImage: picture.atomsInPicture,
+      atomNumber: picture.atomNumber,
+      notice: picture.farField.notice,
     };
+    if (picture.farField.notice !== null) notices = [picture.farField.notice];
   }
 
   return {
@@ -237,14 +273,15 @@ export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, 
     lengthUnit: unit,
     pictures,
     summary: {
-      lengthUnit: unit.note,
+      ...lengthUnitEntries(unit),
       camera: {
         settings: camera === undefined ? 'defaults (no camera section in the scenario)' : 'from the scenario',
         imagingAxis: axisLetters[optics.axis],
         magnification: cameraUsed.magnification,
-        cameraPixelUm: cameraUsed.cameraPixelUm ?? optics.pixelUm * cameraUsed.magnification,
-        objectPlanePixelUm: optics.pixelUm,
-        psfSigmaUm: optics.psfSigmaUm,
+        // Neutral keys in lengthUnit; ...Um keys only in laboratory mode (lengthKeys.ts).
+        ...lengthEntry('cameraPixelSize', 'cameraPixelUm', optics.cameraPixel, unit),
+        ...lengthEntry('objectPlanePixelSize', 'objectPlanePixelUm', optics.pixelUm, unit),
+        ...lengthEntry('psfSigma', 'psfSigmaUm', optics.psfSigmaUm, unit),
         psf: optics.psfSource,
         noise: noiseSummary,
         frame: grid !== undefined ? { widthPx: grid.nx, heightPx: grid.ny } : 'automatic: the whole lattice plus 4 PSF sigmas and one pixel',
@@ -252,5 +289,6 @@ export function cameraPictures(input: CloudForImaging, camera?: CameraSettings, 
       timeOfFlight: tofSummary,
       visibility: visibilitySummary,
     },
+    notices,
   };
 }

@@ -15,14 +15,17 @@ export interface PixelPicture extends PlanarField {
 
 /** How lengths are labelled: micrometres, or lattice spacings in dimensionless mode. */
 export interface LengthUnit {
+  /** Code written in metadata beside neutral keys (pixelSize, ...): 'um' or 'sites' (as the scenario's landscape lengthUnit). */
+  code: 'um' | 'sites';
   /** Short unit for axis labels, e.g. 'µm' or 'sites'. */
   short: string;
   /** Sentence for sidecars and summaries. */
   note: string;
 }
 
-export const micrometres: LengthUnit = { short: 'µm', note: 'micrometres' };
+export const micrometres: LengthUnit = { code: 'um', short: 'µm', note: 'micrometres' };
 export const latticeSites: LengthUnit = {
+  code: 'sites',
   short: 'sites',
   note: 'lattice spacings (dimensionless mode: no lattice spacing is known, so 1 site = 1 length unit)',
 };

@@ -65,23 +65,3 @@ export function siteFieldsFrom(solution: SiteSolution, compressibility: Float64A
     compressibility: compressibility ?? new Float64Array(n),
   };
 }
-
-/**
- * Transitional: the former entry point, taking the solver state by its shape (no import of
- * the solver). Callers should switch to siteFieldsFrom(siteArraysOf(state), compressibility)
- * (src/solver/siteArrays.ts); then this goes.
- * @deprecated use siteFieldsFrom
- */
-export function siteFieldsOf(
-  state: {
-    fields: { phi: Float64Array; eps: Float64Array };
-    measure: { density: Float64Array; densitySq: Float64Array; parityOdd: Float64Array; entropy: Float64Array };
-  },
-  compressibility: Float64Array | null,
-): SiteFields {
-  const { fields, measure } = state;
-  return siteFieldsFrom(
-    { orderParameter: fields.phi, sitePotential: fields.eps, density: measure.density, densitySquared: measure.densitySq, parityOdd: measure.parityOdd, entropy: measure.entropy },
-    compressibility,
-  );
-}

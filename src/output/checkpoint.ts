@@ -46,8 +46,8 @@ export function checkpointPath(outDir: string): string {
 }
 
 /** The physics hash a checkpoint of `scenario` carries. */
-export function checkpointHash(scenario: Scenario): string {
-  return scenarioHash(scenario, 'physics');
+export function checkpointHash(scenario: Scenario, inputFileHashes: readonly string[] = []): string {
+  return scenarioHash(scenario, 'physics', inputFileHashes);
 }
 
 /** Write (or replace, when it is ours) the checkpoint folder at `path`. */
@@ -69,8 +69,11 @@ export async function writeCheckpoint(path: string, c: Checkpoint, inputs: reado
   });
 }
 
-/** Read a checkpoint for `scenario`; every problem is an InputError naming the file and what to do. */
-export function readCheckpoint(path: string, scenario: Scenario): Checkpoint {
+/**
+ * Read a checkpoint for `scenario` (whose input files have the SHA-256s `inputFileHashes`,
+ * landscapeFileHashes); every problem is an InputError naming the file and what to do.
+ */
+export function readCheckpoint(path: string, scenario: Scenario, inputFileHashes: readonly string[] = []): Checkpoint {
   const meta = join(path, CHECKPOINT_FILE);
   let text: string;
   try {
@@ -92,7 +95,7 @@ export function readCheckpoint(path: string, scenario: Scenario): Checkpoint {
     );
   }
   const h = header.data;
-  if (h.scenarioHash !== checkpointHash(scenario)) {
+  if (h.scenarioHash !== checkpointHash(scenario, inputFileHashes)) {
     throw new InputError(`--resume: the checkpoint at ${path} belongs to a different scenario (or different --set overrides); solve without --resume`);
   }
   const field = join(path, CHECKPOINT_FIELD_FILE);

@@ -2,7 +2,7 @@
 // boundaries and of the lobe tips, and report.html. Writers only: the map comes from
 // src/solver/phaseMap.ts.
 
-import { toCsv } from '../formats/csv.js';
+import { csvTable } from '../formats/csvTable.js';
 import { renderFieldMapSvg } from '../figures/fieldMapSvg.js';
 import { svgToPng } from '../figures/svgToPng.js';
 import { renderReportHtml } from '../report/renderReport.js';
@@ -63,22 +63,24 @@ export function writeDiagramFiles(result: PhaseMapResult, s: DiagramSettings, se
       boundaryZ.push(b.zJ[k]);
     }
   }
-  const header = [
-    `tiercake ${toolVersion()} homogeneous Gutzwiller mean-field phase map, energies in units of U`,
-    `k_B T/U = ${temperature}, nmax = ${nmax}; z = coordination number`,
-  ];
-  const boundaryCsv = toCsv(
+  const creator = `tiercake ${toolVersion()}`;
+  const common = [`k_B T/U = ${temperature}, nmax = ${nmax}; z = coordination number; energies in units of U`];
+  const boundary = csvTable(
+    'lobe_boundaries.csv',
     [
-      { name: 'filling', values: boundaryFilling },
-      { name: 'mu_over_U', values: boundaryMu },
-      { name: 'zJ_over_U', values: boundaryZ },
+      { name: 'filling', values: boundaryFilling, unit: 'atoms per site', datatype: 'integer', description: 'filling n of the lobe (n - 1 < mu/U < n); 0 is the edge of the empty lattice' },
+      { name: 'mu_over_U', values: boundaryMu, unit: '1', description: 'chemical potential over U' },
+      { name: 'zJ_over_U', values: boundaryZ, unit: '1', description: 'coordination number times hopping, over U, at the edge of the superfluid' },
     ],
-    [
-      ...header,
-      temperature > 0
-        ? 'edge of the superfluid, zJ chi(mu, T) = 1, grouped by the integer interval of mu/U (filling)'
-        : 'Mott-lobe boundary zJ_c(mu) = 1/chi(mu) for each filling n (n - 1 < mu/U < n)',
-    ],
+    {
+      title: 'homogeneous Gutzwiller mean-field phase boundary',
+      description:
+        temperature > 0
+          ? 'edge of the superfluid, zJ chi(mu, T) = 1, grouped by the integer interval of mu/U (filling)'
+          : 'Mott-lobe boundary zJ_c(mu) = 1/chi(mu) for each filling n (n - 1 < mu/U < n)',
+      creator,
+      notes: common,
+    },
   );
   const gridZ = new Float64Array(columns * rows);
   const gridMu = new Float64Array(columns * rows);
@@ -86,29 +88,32 @@ export function writeDiagramFiles(result: PhaseMapResult, s: DiagramSettings, se
     gridZ[c * rows + r] = result.zJ[c];
     gridMu[c * rows + r] = result.mu[r];
   }
-  const gridCsv = toCsv(
+  const grid = csvTable(
+    'phase_map_grid.csv',
     [
-      { name: 'zJ_over_U', values: gridZ },
-      { name: 'mu_over_U', values: gridMu },
-      { name: 'phi', values: result.orderParameter },
-      { name: 'density', values: result.density },
+      { name: 'zJ_over_U', values: gridZ, unit: '1', description: 'coordination number times hopping, over U' },
+      { name: 'mu_over_U', values: gridMu, unit: '1', description: 'chemical potential over U' },
+      { name: 'phi', values: result.orderParameter, unit: 'sqrt(atoms per site)', description: 'homogeneous order parameter <b>' },
+      { name: 'density', values: result.density, unit: 'atoms per site', description: 'homogeneous density <n>' },
     ],
-    header,
+    { title: 'homogeneous Gutzwiller mean-field phase map', description: 'order parameter and density on the (zJ/U, mu/U) grid, one row per grid point', creator, notes: common },
   );
   const lobes = lobesOf(result);
-  const tipsCsv = toCsv(
+  const tips = csvTable(
+    'lobe_tips.csv',
     [
-      { name: 'filling', values: lobes.map((b) => b.filling) },
-      { name: 'tip_mu_over_U', values: lobes.map((b) => b.tipMu) },
-      { name: 'tip_zJ_over_U', values: lobes.map((b) => b.tipZJ) },
+      { name: 'filling', values: lobes.map((b) => b.filling), unit: 'atoms per site', datatype: 'integer', description: 'filling n of the Mott lobe' },
+      { name: 'tip_mu_over_U', values: lobes.map((b) => b.tipMu), unit: '1', description: 'mu/U at the lobe tip' },
+      { name: 'tip_zJ_over_U', values: lobes.map((b) => b.tipZJ), unit: '1', description: 'zJ/U at the lobe tip (largest zJ/U of the lobe)' },
     ],
-    [...header, 'largest zJ/U of each computed boundary curve (the lobe tip at T = 0)'],
+    { title: 'Mott-lobe tips of the homogeneous mean field', description: 'largest zJ/U of each computed boundary curve (the lobe tip at T = 0)', creator, notes: common },
   );
 
   folder.write('phase_map.png', png);
-  folder.write('lobe_boundaries.csv', boundaryCsv);
-  folder.write('lobe_tips.csv', tipsCsv);
-  folder.write('phase_map_grid.csv', gridCsv);
+  for (const table of [boundary, tips, grid]) {
+    folder.write(table.file, table.csv);
+    folder.write(table.metadataFile, table.metadata);
+  }
   folder.write(
     'report.html',
     renderReportHtml({

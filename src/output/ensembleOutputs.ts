@@ -6,7 +6,7 @@
 // src/ensemble/ensembleStatistics.ts.
 
 import { encodeNpy } from '../formats/npy.js';
-import { toCsv } from '../formats/csv.js';
+import { csvTable, type CsvTable } from '../formats/csvTable.js';
 import type { OutputFolder } from './outputFolder.js';
 import { renderFieldMapSvg } from '../figures/fieldMapSvg.js';
 import { renderLinePlotSvg } from '../figures/linePlotSvg.js';
@@ -14,7 +14,7 @@ import { renderHistogramSvg } from '../figures/histogramSvg.js';
 import { sideBySideSvg } from '../figures/composeSvg.js';
 import type { HistogramSpec } from '../figures/plotSpec.js';
 import { phaseNames, PhaseCode } from '../observables/phaseCodes.js';
-import { inAllUnits } from '../scenario/resolveScenario.js';
+import { inAllUnits, outputEnergyUnit } from '../scenario/resolveScenario.js';
 import type { EnsembleAccumulation } from '../pipeline/ensemble/blockPartial.js';
 import { binEdges } from '../pipeline/ensemble/histogramBins.js';
 import type { EnsembleStatistics } from '../pipeline/ensemble/ensembleStatistics.js';
@@ -77,51 +77,71 @@ export function histogramForDisplay(o: EnsembleOutcome): ReturnType<typeof histo
   };
 }
 
-export function histogramsCsv(o: EnsembleOutcome): string {
+export function histogramsCsv(o: EnsembleOutcome): CsvTable {
   const t = histogramTable(o);
   const bins = t.density.length;
-  return toCsv(
+  return csvTable(
+    'histograms.csv',
     [
-      { name: 'bin_low', values: t.edges.subarray(0, bins) },
-      { name: 'bin_high', values: t.edges.subarray(1, bins + 1) },
-      { name: 'density_sites', values: t.density },
-      { name: 'density_fraction', values: t.densityFraction },
-      { name: 'condensate_sites', values: t.condensate },
-      { name: 'condensate_fraction', values: t.condensateFraction },
+      { name: 'bin_low', values: t.edges.subarray(0, bins), unit: 'atoms per site', description: 'lower edge of the bin (included)' },
+      { name: 'bin_high', values: t.edges.subarray(1, bins + 1), unit: 'atoms per site', description: 'upper edge of the bin (excluded; included in the last bin)' },
+      { name: 'density_sites', values: t.density, unit: '', datatype: 'integer', description: 'site samples whose local density n_i falls in the bin' },
+      { name: 'density_fraction', values: t.densityFraction, unit: '1', description: 'density_sites / all samples' },
+      { name: 'condensate_sites', values: t.condensate, unit: '', datatype: 'integer', description: 'site samples whose condensate density |phi_i|^2 falls in the bin' },
+      { name: 'condensate_fraction', values: t.condensateFraction, unit: '1', description: 'condensate_sites / all samples' },
     ],
-    [
-      `tiercake ${toolVersion()} ensemble histograms of scenario ${o.scenario.name}, ${o.stats.realisations} realisations`,
-      'values in atoms per site: local density n_i and condensate density |phi_i|^2; bin [bin_low, bin_high), the top edge in the last bin',
-      `counted: every non-empty site (n_i >= ${o.context.thresholds.emptyDensityMax}) of every realisation, ${t.samples} samples; fraction = sites / samples`,
-      `above the range (nmax = ${o.bins.maxAtoms}): ${o.total.densityHistogram.overflow} density and ${o.total.condensateHistogram.overflow} condensate samples, not in any bin`,
-    ],
+    {
+      title: `ensemble histograms of scenario ${o.scenario.name}`,
+      description: `Histograms of the local density and the condensate density over ${o.stats.realisations} disorder realisations.`,
+      creator: `tiercake ${toolVersion()}`,
+      notes: [
+        `counted: every non-empty site (n_i >= ${o.context.thresholds.emptyDensityMax}) of every realisation, ${t.samples} samples`,
+        `above the range (nmax = ${o.bins.maxAtoms}): ${o.total.densityHistogram.overflow} density and ${o.total.condensateHistogram.overflow} condensate samples, not in any bin`,
+      ],
+    },
   );
 }
 
-export function realisationsCsv(o: EnsembleOutcome): string {
+export function realisationsCsv(o: EnsembleOutcome): CsvTable {
   const r = o.total.records;
   const u = o.context.units.interaction;
-  const phaseColumns = phaseNames.map((name, code) => ({ name: `sites_${snake(name)}`, values: r.map((x) => x.phaseSites[code]) }));
-  return toCsv(
+  const phaseColumns = phaseNames.map((name, code) => ({
+    name: `sites_${snake(name)}`,
+    values: r.map((x) => x.phaseSites[code]),
+    unit: '',
+    datatype: 'integer' as const,
+    description: `sites labelled ${name} in the realisation`,
+  }));
+  return csvTable(
+    'realisations.csv',
     [
-      { name: 'realisation', values: r.map((x) => x.index) },
-      { name: 'converged', values: r.map((x) => (x.converged ? 1 : 0)) },
-      { name: 'sweeps', values: r.map((x) => x.sweeps) },
-      { name: 'nmax_used', values: r.map((x) => x.nmaxUsed) },
-      { name: 'mu_over_U', values: r.map((x) => x.mu / u) },
-      { name: 'kT_over_U', values: r.map((x) => x.temperature / u) },
-      { name: 'atoms', values: r.map((x) => x.atoms) },
-      { name: 'condensed_atoms', values: r.map((x) => x.condensedAtoms) },
-      { name: 'superfluid_spans', values: r.map((x) => (x.superfluidSpans ? 1 : 0)) },
-      { name: 'superfluid_clusters', values: r.map((x) => x.superfluidClusters) },
-      { name: 'largest_cluster_sites', values: r.map((x) => x.largestClusterSites) },
+      { name: 'realisation', values: r.map((x) => x.index), unit: '', datatype: 'integer', description: `realisation index r (disorder seed "${o.baseSeed}/r")` },
+      { name: 'converged', values: r.map((x) => (x.converged ? 1 : 0)), unit: '', datatype: 'integer', description: '1 when the solve converged, 0 when not' },
+      { name: 'sweeps', values: r.map((x) => x.sweeps), unit: '', datatype: 'integer', description: 'sweeps of every stage of the solve' },
+      { name: 'nmax_used', values: r.map((x) => x.nmaxUsed), unit: 'atoms per site', datatype: 'integer', description: 'highest occupation kept' },
+      { name: 'mu_over_U', values: r.map((x) => x.mu / u), unit: '1', description: 'chemical potential over U at the trap centre' },
+      { name: 'kT_over_U', values: r.map((x) => x.temperature / u), unit: '1', description: 'k_B T over U at the trap centre' },
+      { name: 'atoms', values: r.map((x) => x.atoms), unit: 'atoms', description: 'atom number' },
+      { name: 'condensed_atoms', values: r.map((x) => x.condensedAtoms), unit: 'atoms', description: 'sum of |phi_i|^2' },
+      {
+        name: 'superfluid_spans',
+        values: r.map((x) => (x.superfluidSpans ? 1 : 0)),
+        unit: '',
+        datatype: 'integer',
+        description:
+          '1 when a superfluid cluster spans the bulk of the cloud (density above phases.bulkDensityFraction of the peak, eroded by phases.bulkErosionSites): ' +
+          'it touches opposite faces of the bulk, wraps a periodic axis, or encloses the trap centre; superfluid on the dilute rim does not count',
+      },
+      { name: 'superfluid_clusters', values: r.map((x) => x.superfluidClusters), unit: '', datatype: 'integer', description: 'connected superfluid clusters in the bulk' },
+      { name: 'largest_cluster_sites', values: r.map((x) => x.largestClusterSites), unit: '', datatype: 'integer', description: 'sites of the largest superfluid cluster in the bulk' },
       ...phaseColumns,
     ],
-    [
-      `tiercake ${toolVersion()} ensemble of scenario ${o.scenario.name}: one row per disorder realisation`,
-      seedRuleText(o.baseSeed),
-      'U = on-site interaction at the trap centre; superfluid_spans = 1 when a connected superfluid cluster spans the cloud',
-    ],
+    {
+      title: `ensemble of scenario ${o.scenario.name}: one row per disorder realisation`,
+      description: seedRuleText(o.baseSeed),
+      creator: `tiercake ${toolVersion()}`,
+      notes: ['U = on-site interaction at the trap centre'],
+    },
   );
 }
 
@@ -229,8 +249,8 @@ export function buildEnsembleSummary(o: EnsembleOutcome, files: string[]): Recor
       baseSeed: o.baseSeed,
       seedRule: seedRuleText(o.baseSeed),
     },
-    energyUnit: units.internal,
-    energyUnitNote: 'Energies are given in every available unit: J (hopping), U (interaction at the trap centre), and Hz, nK in laboratory mode',
+    energyUnit: outputEnergyUnit(o.scenario, units).name,
+    energyUnitNote: 'the scenario\'s energy unit; energy blocks give each value in every available unit: J (hopping), U (interaction at the trap centre), and Hz, kHz, nK in laboratory mode',
     lattice: {
       shape: o.context.shape,
       periodic: o.context.periodic,
@@ -281,9 +301,11 @@ export function writeEnsembleFiles(o: EnsembleOutcome, folder: OutputFolder, rep
     folder.write(f.file, f.bytes);
     files.push(f.file);
   }
-  folder.write('histograms.csv', histogramsCsv(o));
-  folder.write('realisations.csv', realisationsCsv(o));
-  files.push('histograms.csv', 'realisations.csv');
+  for (const table of [histogramsCsv(o), realisationsCsv(o)]) {
+    folder.write(table.file, table.csv);
+    folder.write(table.metadataFile, table.metadata);
+    files.push(table.file, table.metadataFile);
+  }
   const images = ensembleImages(o);
   for (const img of images) {
     folder.write(img.file, img.png);

@@ -3,12 +3,13 @@
 
 import { renderLinePlotSvg } from '../figures/linePlotSvg.js';
 import { svgToPng } from '../figures/svgToPng.js';
-import { hubbardCsv, type hubbardTable } from '../pipeline/hubbardTable.js';
+import { hubbardCsvTable, type hubbardTable } from '../pipeline/hubbardTable.js';
+import { toolVersion } from './toolVersion.js';
 import type { OutputFolder } from './outputFolder.js';
 
 export type HubbardRows = ReturnType<typeof hubbardTable>;
 
-/** Stage hubbard.csv, hubbard.png and hubbard.txt in `folder` (the caller commits it). */
+/** Stage hubbard.csv (+ its CSVW metadata), hubbard.png and hubbard.txt in `folder` (the caller commits it). */
 export function writeHubbardFiles(rows: HubbardRows, text: string, title: { speciesName: string; wavelengthNm: number }, folder: OutputFolder): void {
   const depth = rows.map((r) => r.depthEr);
   const svg = renderLinePlotSvg({
@@ -20,7 +21,9 @@ export function writeHubbardFiles(rows: HubbardRows, text: string, title: { spec
       { label: 'on-site interaction U', x: depth, y: rows.map((r) => r.UHz) },
     ],
   });
-  folder.write('hubbard.csv', hubbardCsv(rows));
+  const table = hubbardCsvTable(rows, { species: title.speciesName, wavelengthNm: title.wavelengthNm, creator: `tiercake ${toolVersion()}` });
+  folder.write(table.file, table.csv);
+  folder.write(table.metadataFile, table.metadata);
   folder.write('hubbard.png', svgToPng(svg));
   folder.write('hubbard.txt', text);
 }

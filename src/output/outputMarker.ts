@@ -30,6 +30,8 @@ export const OutputMarkerSchema = z.strictObject({
   createdIso: z.string(),
   files: z.array(RelativeFile).max(1_000_000),
   note: z.string(),
+  /** cautions already shown for this folder (e.g. 'laser-safety'); shown again only for a new folder */
+  cautions: z.array(z.string().min(1).max(100)).max(100).optional(),
 });
 
 export type OutputMarker = z.infer<typeof OutputMarkerSchema>;
@@ -40,6 +42,8 @@ export interface OutputIdentity {
   command: string;
   /** scenarioHash() of the scenario as run, or null (diagram, hubbard) */
   scenarioHash: string | null;
+  /** cautions shown for this folder, recorded in the marker (cautionsShownFor reads them back) */
+  cautions?: readonly string[];
 }
 
 export function markerText(identity: OutputIdentity, files: readonly string[], createdIso: string): string {
@@ -52,6 +56,7 @@ export function markerText(identity: OutputIdentity, files: readonly string[], c
     createdIso,
     files: [...files].sort(),
     note: 'written by tiercake; it replaces this folder only while the folder holds no file other than those listed here',
+    ...(identity.cautions !== undefined && identity.cautions.length > 0 ? { cautions: [...identity.cautions] } : {}),
   };
   return `${JSON.stringify(marker, null, 2)}\n`;
 }
@@ -77,4 +82,11 @@ export function readMarker(folder: string): OutputMarker | null | { error: strin
   const result = OutputMarkerSchema.safeParse(parsed);
   if (!result.success) return { error: `its ${OUTPUT_MARKER} is not a tiercake marker` };
   return result.data;
+}
+
+/** The cautions the marker of `folder` records as shown ([] for a folder without a valid marker). */
+export function cautionsShownFor(folder: string): string[] {
+  const marker = readMarker(folder);
+  if (marker === null || 'error' in marker) return [];
+  return marker.cautions ?? [];
 }

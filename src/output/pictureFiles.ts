@@ -19,6 +19,7 @@ import { encodeGray16 } from '../formats/pngCodec.js';
 import { renderFieldMapSvg } from '../figures/fieldMapSvg.js';
 import { svgToPng } from '../figures/svgToPng.js';
 import type { LengthUnit, PixelPicture } from '../imaging/pixelPicture.js';
+import { lengthEntry, lengthUnitEntries } from '../imaging/lengthKeys.js';
 import type { WrittenImage } from './solveOutputs.js';
 
 export interface PictureDescription {
@@ -109,6 +110,9 @@ export interface ColourPictureOptions {
   /** Smallest length of the image's longer side, pixels (default 420; smaller for pictures shown side by side). */
   minImagePx?: number;
   maxImagePx?: number;
+  /** 'log': logarithmic colour scale over `logDecades` decades below the maximum (default linear). */
+  colorScale?: 'linear' | 'log';
+  logDecades?: number;
 }
 
 /** Colour figure of a picture (SVG): axes in the length unit, colour bar, scale bar, title. */
@@ -131,6 +135,8 @@ export function colourPictureFigure(picture: PixelPicture, options: ColourPictur
     ...(options.valueRange !== undefined ? { valueRange: options.valueRange } : {}),
     ...(options.minImagePx !== undefined ? { minImagePx: options.minImagePx } : {}),
     ...(options.maxImagePx !== undefined ? { maxImagePx: options.maxImagePx } : {}),
+    ...(options.colorScale !== undefined ? { colorScale: options.colorScale } : {}),
+    ...(options.logDecades !== undefined ? { logDecades: options.logDecades } : {}),
   });
 }
 
@@ -162,14 +168,15 @@ export function pictureFiles(picture: PixelPicture, d: PictureDescription): Pict
     clippedPixels: q.clippedPixels,
     widthPx: nx,
     heightPx: ny,
-    pixelUm: picture.pixelUm,
-    lengthUnit: d.lengthUnit.note,
-    firstPixelCentreUm: { x: picture.xCentresUm[0], y: picture.yCentresUm[0] },
+    // Lengths under neutral keys with their unit; ...Um keys only when they are micrometres (lengthKeys.ts).
+    ...lengthEntry('pixelSize', 'pixelUm', picture.pixelUm, d.lengthUnit),
+    ...lengthUnitEntries(d.lengthUnit),
+    ...lengthEntry('firstPixelCentre', 'firstPixelCentreUm', { x: picture.xCentresUm[0], y: picture.yCentresUm[0] }, d.lengthUnit),
     origin: 'coordinates are measured from the trap centre (in-situ) or from the zero-momentum point (time of flight)',
     orientation:
       `the .npy has shape (${nx}, ${ny}), axis 0 = ${d.axisNames[0]}, axis 1 = ${d.axisNames[1]}; ` +
       `in both PNGs ${d.axisNames[0]} grows to the right and ${d.axisNames[1]} upwards, so element (i, j) is column i, row ${ny - 1} - j from the top; ` +
-      'element (0, 0), the bottom-left pixel, is centred at firstPixelCentreUm',
+      'element (0, 0), the bottom-left pixel, is centred at firstPixelCentre',
     atomsInPicture: total,
     ...(d.countsPerAtom !== undefined ? { countsPerAtom: d.countsPerAtom } : {}),
     ...(d.extra ?? {}),

@@ -3,30 +3,34 @@
 // plain results of src/pipeline/solveScenario.ts and compute no physics.
 
 import { encodeNpy } from '../formats/npy.js';
-import { toCsv } from '../formats/csv.js';
+import { csvTable, type CsvColumnSpec, type CsvTable } from '../formats/csvTable.js';
 import type { OutputFolder } from './outputFolder.js';
 import { renderFieldMapSvg } from '../figures/fieldMapSvg.js';
 import { renderPhaseMapSvg } from '../figures/phaseMapSvg.js';
 import { renderLinePlotSvg } from '../figures/linePlotSvg.js';
 import { svgToPng } from '../figures/svgToPng.js';
 import { columnDensity } from '../imaging/columnDensity.js';
-import { inAllUnits } from '../scenario/resolveScenario.js';
-import { phaseNames } from '../observables/phaseCodes.js';
+import { outputEnergyUnit } from '../scenario/resolveScenario.js';
 import type { SolveArtifacts } from '../pipeline/solveScenario.js';
+import type { RunWarning } from '../pipeline/runWarnings.js';
 import { toolVersion } from './toolVersion.js';
 import type { CameraPictureFiles } from './cameraOutputs.js';
+import { buildSummary } from './solveSummary.js';
+import type { ImageEntry } from './fieldIndex.js';
 
 export interface WrittenImage {
   file: string;
   title: string;
+  /** unit of the colour scale (for the images index of summary.json) */
+  unit?: string;
   png: Uint8Array;
   /** The figure the PNG was rendered from (the report inlines it). */
   svg: string;
 }
 
 /** A figure as an image file: the SVG and the PNG rendered from it. */
-export function figureImage(file: string, title: string, svg: string): WrittenImage {
-  return { file, title, svg, png: svgToPng(svg) };
+export function figureImage(file: string, title: string, svg: string, unit?: string): WrittenImage {
+  return { file, title, svg, png: svgToPng(svg), ...(unit !== undefined ? { unit } : {}) };
 }
 
 /** A 2D slice or projection of a lattice field, for pictures. */
@@ -51,122 +55,63 @@ export function centralPlane(field: ArrayLike<number>, shape: readonly number[],
 
 const axisNames = ['x', 'y', 'z'];
 
-function energyBlock(value: number, a: SolveArtifacts): Record<string, number> {
-  return inAllUnits(value, a.resolved.units);
-}
+export { buildSummary } from './solveSummary.js';
 
-/** The machine-readable summary (inputs echoed, results, convergence, timings). */
-export function buildSummary(a: SolveArtifacts, files: string[], imaging?: Record<string, unknown>): Record<string, unknown> {
-  const { outcome, resolved, classification, shells } = a;
-  const totals = outcome.solve.totals;
-  const relax = outcome.solve.relax;
-  const temperature = outcome.temperature;
-  const atoms = totals.atoms;
-  const spacing = resolved.latticeSpacingUm;
-  return {
-    tool: { name: 'tiercake', version: toolVersion() },
-    scenario: a.scenario,
-    mode: resolved.mode,
-    energyUnit: resolved.units.internal,
-    energyUnitNote:
-      'Energies below are given in every available unit: J (nearest-neighbour hopping), U (on-site interaction at the trap centre)' +
-      (resolved.units.hertz !== null ? ', Hz (energy/h) and nK (energy/k_B)' : ''),
-    lattice: {
-      shape: resolved.geometry.shape,
-      periodic: resolved.geometry.periodic,
-      sites: resolved.geometry.siteCount,
-      coordination: resolved.geometry.coordination,
-      latticeSpacingUm: spacing,
-      trapCentreSites: resolved.trapCentre,
-      trapCoefficientPerSite2: resolved.trapCoefficient.map((k) => energyBlock(k, a)),
-    },
-    laboratory: resolved.laboratory,
-    parameters: {
-      hopping: energyBlock(resolved.units.hopping, a),
-      interaction: energyBlock(resolved.units.interaction, a),
-      interactionOverHopping: resolved.units.interaction / resolved.units.hopping,
-      chemicalPotential: energyBlock(outcome.solve.mu, a),
-      kT: energyBlock(temperature, a),
-      nmaxUsed: outcome.truncation.nmaxUsed,
-    },
-    results: {
-      atoms,
-      condensedAtoms: totals.condensedAtoms,
-      condensateFraction: atoms > 0 ? totals.condensedAtoms / atoms : 0,
-      [temperature > 0 ? 'freeEnergy' : 'energy']: energyBlock(totals.freeEnergy, a),
-      grandPotential: energyBlock(totals.grandPotential, a),
-      entropy: totals.entropy,
-      entropyPerAtom: atoms > 0 ? totals.entropy / atoms : 0,
-      temperatureSearch: outcome.temperatureSearch,
-    },
-    convergence: {
-      converged: outcome.converged,
-      stopped: outcome.stopped,
-      sweeps: relax.sweeps,
-      totalSweeps: outcome.totalSweeps,
-      residual: relax.residual,
-      errorEstimate: relax.errorEstimate,
-      contractionRate: relax.contractionRate,
-      extrapolations: relax.extrapolations,
-      tolerance: a.scenario.solver.tolerance,
-      chemicalPotentialSearch: outcome.solve.muSearch,
-      residualHistory: outcome.solve.residualHistory,
-    },
-    truncation: outcome.truncation,
-    phases: {
-      thresholds: classification.thresholds,
-      compressibleWithoutCondensate: classification.compressibleWithoutCondensate,
-      sitesPerPhase: classification.counts,
-      atomsPerPhase: Object.fromEntries(phaseNames.map((n) => [n, shells.byPhase[n].atoms])),
-      mottSitesByFilling: classification.mottSitesByFilling,
-      superfluidClusters: classification.clusters.count,
-      largestSuperfluidCluster: classification.clusters.largestSize,
-      superfluidSpans: classification.superfluidSpans,
-      superfluidPuddleSites: classification.superfluidPuddleSites,
-    },
-    shells: shells.shells.map((s) => ({
-      ...s,
-      innerRadiusUm: spacing !== null ? s.innerRadius * spacing : null,
-      outerRadiusUm: spacing !== null ? s.outerRadius * spacing : null,
-    })),
-    ...(imaging !== undefined ? { imaging } : {}),
-    threads: a.threadsUsed,
-    timings: a.timings,
-    files,
-  };
-}
-
-export function profilesCsv(a: SolveArtifacts): string {
+/**
+ * profiles.csv and its CSV-on-the-Web metadata (csvTable.ts): the same columns, names and
+ * units in every mode; a column a mode cannot fill (micrometres and Hz in dimensionless
+ * mode) holds nan there.
+ */
+export function profilesCsv(a: SolveArtifacts): CsvTable {
   const p = a.profile;
   const spacing = a.resolved.latticeSpacingUm;
+  const units = a.resolved.units;
   const f = p.fields;
-  const columns = [
-    { name: 'radius_sites', values: p.meanRadius },
-    ...(spacing !== null ? [{ name: 'radius_um', values: Array.from(p.meanRadius, (r) => r * spacing) }] : []),
-    { name: 'bin_inner_sites', values: p.binInner },
-    { name: 'sites', values: p.count },
-    { name: 'density_mean', values: f.density.mean },
-    { name: 'density_std', values: f.density.std },
-    { name: 'condensate_mean', values: f.condensateDensity.mean },
-    { name: 'condensate_std', values: f.condensateDensity.std },
-    { name: 'variance_mean', values: f.numberVariance.mean },
-    { name: 'variance_std', values: f.numberVariance.std },
-    { name: 'entropy_mean', values: f.entropy.mean },
-    { name: 'parity_odd_mean', values: f.parityOdd.mean },
-    { name: `local_mu_${a.resolved.units.internal}`, values: p.localChemicalPotential ?? new Float64Array(p.count.length) },
+  const bins = p.count.length;
+  const missing = new Float64Array(bins).fill(Number.NaN);
+  const localMu = p.localChemicalPotential ?? missing;
+  const scaled = (values: ArrayLike<number>, factor: number | null): Float64Array =>
+    factor === null ? missing : Float64Array.from(values, (v) => v * factor);
+  const columns: CsvColumnSpec[] = [
+    { name: 'radius_sites', values: p.meanRadius, unit: 'lattice spacings', description: 'mean trap-scaled distance from the trap centre of the sites in the bin' },
+    { name: 'radius_um', values: scaled(p.meanRadius, spacing), unit: 'um', description: 'the same in micrometres (laboratory mode; nan in dimensionless mode)' },
+    { name: 'bin_inner_sites', values: p.binInner, unit: 'lattice spacings', description: 'inner edge of the annular bin (trap-scaled radius)' },
+    { name: 'sites', values: p.count, unit: '', datatype: 'integer', description: 'sites in the bin' },
+    { name: 'density_mean', values: f.density.mean, unit: 'atoms per site', description: 'mean density n over the bin' },
+    { name: 'density_std', values: f.density.std, unit: 'atoms per site', description: 'standard deviation of n over the sites of the bin' },
+    { name: 'condensate_mean', values: f.condensateDensity.mean, unit: 'atoms per site', description: 'mean condensate density |phi|^2 over the bin' },
+    { name: 'condensate_std', values: f.condensateDensity.std, unit: 'atoms per site', description: 'standard deviation of |phi|^2 over the bin' },
+    { name: 'variance_mean', values: f.numberVariance.mean, unit: 'atoms^2 per site', description: 'mean on-site number variance <n^2> - <n>^2' },
+    { name: 'variance_std', values: f.numberVariance.std, unit: 'atoms^2 per site', description: 'standard deviation of the number variance over the bin' },
+    { name: 'entropy_mean', values: f.entropy.mean, unit: 'k_B per site', description: 'mean site entropy' },
+    { name: 'parity_odd_mean', values: f.parityOdd.mean, unit: '1', description: 'mean probability of an odd occupation (what a parity-projected image shows)' },
+    { name: 'local_mu_over_U', values: scaled(localMu, 1 / units.interaction), unit: '1', description: 'local chemical potential mu - eps(r) over the interaction U at the trap centre' },
+    {
+      name: 'local_mu_hz',
+      values: units.hertz !== null ? scaled(localMu, 1 / units.hertz) : missing,
+      unit: 'Hz',
+      description: 'local chemical potential mu - eps(r) as energy/h (laboratory mode; nan in dimensionless mode)',
+    },
   ];
-  return toCsv(columns, [
-    `tiercake ${toolVersion()} radial profile of scenario ${a.scenario.name}`,
-    `radius: trap-scaled distance from the trap centre (sites${spacing !== null ? '; radius_um in micrometres' : ''}); bins of ${a.scenario.profiles.binWidthSites} sites`,
-    `per bin: mean and standard deviation over the sites in the bin; local_mu = mu - eps(r) in units of ${a.resolved.units.internal}`,
-  ]);
+  return csvTable('profiles.csv', columns, {
+    title: `radial profiles of scenario ${a.scenario.name}`,
+    description:
+      `Radial profiles in annular bins of the trap-scaled radius (${a.scenario.profiles.binWidthSites} sites wide) about the trap centre: ` +
+      'per bin, the mean and standard deviation over the sites in it; empty bins hold nan.',
+    creator: `tiercake ${toolVersion()}`,
+    notes: ['trap-scaled radius: sqrt(sum_d s_d^2 (x_d - c_d)^2) with s_d = sqrt(k_d / k_x), so the trap is round in these units'],
+  });
 }
 
-/** npy files: name -> bytes. */
+/**
+ * npy files: name -> bytes, in the lattice's axis order (fieldIndex.ts). Energies in the
+ * run's energy unit (the scenario's): site_potential in it, compressibility per it.
+ */
 export function fieldFiles(a: SolveArtifacts): Array<{ file: string; bytes: Uint8Array }> {
   const shape = a.resolved.geometry.shape;
   const f = a.fields;
   const c = a.classification;
+  const perUnit = outputEnergyUnit(a.scenario, a.resolved.units).internalPerUnit;
   const list: Array<[string, Float64Array | Int32Array | Uint8Array]> = [
     ['density', f.density],
     ['order_parameter', f.orderParameter],
@@ -174,10 +119,16 @@ export function fieldFiles(a: SolveArtifacts): Array<{ file: string; bytes: Uint
     ['number_variance', f.numberVariance],
     ['parity_odd', f.parityOdd],
     ['entropy', f.entropy],
-    ['site_potential', f.sitePotential],
-    ['compressibility', f.compressibility],
+    ['site_potential', perUnit === 1 ? f.sitePotential : f.sitePotential.map((v) => v / perUnit)],
+    ['compressibility', perUnit === 1 ? f.compressibility : f.compressibility.map((v) => v * perUnit)],
     ['phase', c.codes],
     ['mott_filling', c.mottFilling],
+    ...(c.localDensity !== undefined
+      ? ([
+          ['lda_phase', c.localDensity.codes],
+          ['lda_mott_filling', c.localDensity.mottFilling],
+        ] as Array<[string, Uint8Array | Int32Array]>)
+      : []),
   ];
   return list.map(([name, data]) => ({ file: `fields/${name}.npy`, bytes: encodeNpy(data, shape) }));
 }
@@ -209,7 +160,7 @@ export function solveImages(a: SolveArtifacts): WrittenImage[] {
         { label: 'number variance', x, y: a.fields.numberVariance, style: { line: 'dashed' } },
       ],
     });
-    images.push(figureImage('images/chain_profile.png', 'Site-by-site profile of the chain', svg));
+    images.push(figureImage('images/chain_profile.png', 'Site-by-site profile of the chain', svg, 'atoms per site'));
     return images;
   }
 
@@ -232,6 +183,7 @@ export function solveImages(a: SolveArtifacts): WrittenImage[] {
         ...(colorMap ? { colorMap } : {}),
         ...(scaleBar ? { scaleBar } : {}),
       }),
+      bar,
     );
   const density = centralPlane(a.fields.density, shape, centre);
   images.push(fieldPicture('images/density_plane.png', `Density n_i${planeLabel}`, density, `${name}: density${planeLabel}`, 'atoms per site'));
@@ -251,7 +203,7 @@ export function solveImages(a: SolveArtifacts): WrittenImage[] {
     yAxis,
     ...(scaleBar ? { scaleBar } : {}),
   });
-  images.push(figureImage('images/phase_plane.png', `Phase of each site${planeLabel}`, phaseSvg));
+  images.push(figureImage('images/phase_plane.png', `Phase of each site${planeLabel}`, phaseSvg, 'phase label (legend in the figure)'));
   const parity = centralPlane(a.fields.parityOdd, shape, centre);
   images.push(
     fieldPicture('images/parity_plane.png', `Parity-projected occupation P_odd${planeLabel}`, parity, `${name}: parity-projected P(odd)${planeLabel}`, 'probability'),
@@ -291,14 +243,17 @@ export function writeSolveFiles(
   camera: CameraPictureFiles,
   folder: OutputFolder,
   reportHtml: (images: WrittenImage[], imaging: Record<string, unknown>) => string,
+  warnings: readonly RunWarning[] = a.readingWarnings,
 ): string[] {
   const files: string[] = [];
   for (const f of fieldFiles(a)) {
     folder.write(f.file, f.bytes);
     files.push(f.file);
   }
-  folder.write('profiles.csv', profilesCsv(a));
-  files.push('profiles.csv');
+  const profiles = profilesCsv(a);
+  folder.write('profiles.csv', profiles.csv);
+  folder.write(profiles.metadataFile, profiles.metadata);
+  files.push('profiles.csv', profiles.metadataFile);
   const images = solveImages(a);
   for (const img of images) {
     folder.write(img.file, img.png);
@@ -317,9 +272,14 @@ export function writeSolveFiles(
     folder.write(img.file, img.png);
     files.push(img.file);
   }
+  const imageIndex: ImageEntry[] = [
+    ...images.map((img) => ({ file: img.file, meaning: img.title, unit: img.unit ?? 'see the colour bar' })),
+    ...camera.index,
+  ];
   images.push(...camera.images);
   files.push('summary.json', 'report.html');
-  folder.write('summary.json', `${JSON.stringify(buildSummary(a, files, camera.summary), jsonReplacer, 2)}\n`);
+  const summary = buildSummary(a, files, { imaging: camera.summary, warnings, images: imageIndex });
+  folder.write('summary.json', `${JSON.stringify(summary, jsonReplacer, 2)}\n`);
   folder.write('report.html', reportHtml(images, camera.summary));
   return files;
 }

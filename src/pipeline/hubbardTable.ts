@@ -5,6 +5,7 @@
 import { hubbardFromLab, type HubbardParameters } from '../physics/hubbardParameters.js';
 import { ParameterError } from '../physics/parameterError.js';
 import { resolveSpecies, type SpeciesInput } from '../physics/species.js';
+import { csvTable, type CsvTable } from '../formats/csvTable.js';
 
 export interface HubbardTableOptions {
   species: SpeciesInput;
@@ -83,8 +84,12 @@ interface Column {
   header: string;
   unit: string;
   csvName: string;
+  /** unit for the CSV metadata ('1' for a pure number) */
+  csvUnit: string;
+  description: string;
   text: (row: HubbardTableRow) => string;
-  csv: (row: HubbardTableRow) => string;
+  value: (row: HubbardTableRow) => number;
+  integer?: boolean;
 }
 
 /** Four significant figures without exponent for ordinary magnitudes. */
@@ -98,34 +103,50 @@ function sig(value: number, digits = 4): string {
   return value.toExponential(digits - 1);
 }
 
-/** Full double precision for files, so that a reader loses nothing. */
-function full(value: number): string {
-  return String(value);
-}
-
 const columns: Column[] = [
-  { header: 'depth', unit: 'E_r', csvName: 'depth_Er', text: (r) => sig(r.depthEr), csv: (r) => full(r.depthEr) },
-  { header: 'E_r', unit: 'Hz', csvName: 'recoil_Hz', text: (r) => sig(r.recoilHz), csv: (r) => full(r.recoilHz) },
-  { header: 'J', unit: 'Hz', csvName: 'J_Hz', text: (r) => sig(r.JHz), csv: (r) => full(r.JHz) },
-  { header: 'U', unit: 'Hz', csvName: 'U_Hz', text: (r) => sig(r.UHz), csv: (r) => full(r.UHz) },
-  { header: 'U/J', unit: '', csvName: 'U_over_J', text: (r) => sig(r.UoverJ), csv: (r) => full(r.UoverJ) },
+  { header: 'depth', unit: 'E_r', csvName: 'depth_Er', csvUnit: 'E_r', description: 'lattice depth per axis in recoil energies', text: (r) => sig(r.depthEr), value: (r) => r.depthEr },
+  { header: 'E_r', unit: 'Hz', csvName: 'recoil_Hz', csvUnit: 'Hz', description: 'recoil energy h^2 / (2 m lambda^2), as energy/h', text: (r) => sig(r.recoilHz), value: (r) => r.recoilHz },
+  { header: 'J', unit: 'Hz', csvName: 'J_Hz', csvUnit: 'Hz', description: 'nearest-neighbour hopping J, as energy/h', text: (r) => sig(r.JHz), value: (r) => r.JHz },
+  { header: 'U', unit: 'Hz', csvName: 'U_Hz', csvUnit: 'Hz', description: 'on-site interaction U, as energy/h', text: (r) => sig(r.UHz), value: (r) => r.UHz },
+  { header: 'U/J', unit: '', csvName: 'U_over_J', csvUnit: '1', description: 'U over J', text: (r) => sig(r.UoverJ), value: (r) => r.UoverJ },
   {
     header: '(U/zJ)/5.83',
     unit: '',
     csvName: 'U_over_zJ_relative_to_mean_field_critical',
+    csvUnit: '1',
+    description: '(U / zJ) / (3 + 2 sqrt 2): 1 at the mean-field n = 1 Mott transition',
     text: (r) => sig(r.UoverZJRelativeToCritical),
-    csv: (r) => full(r.UoverZJRelativeToCritical),
+    value: (r) => r.UoverZJRelativeToCritical,
   },
-  { header: 'Wannier rms', unit: 'nm', csvName: 'wannier_rms_width_nm', text: (r) => sig(r.wannierWidthNm), csv: (r) => full(r.wannierWidthNm) },
-  { header: 'band gap', unit: 'E_r', csvName: 'band_gap_Er', text: (r) => sig(r.bandGapEr), csv: (r) => full(r.bandGapEr) },
+  {
+    header: 'Wannier rms',
+    unit: 'nm',
+    csvName: 'wannier_rms_width_nm',
+    csvUnit: 'nm',
+    description: 'rms width of |w(x)|^2 of the lowest-band Wannier function along a lattice axis',
+    text: (r) => sig(r.wannierWidthNm),
+    value: (r) => r.wannierWidthNm,
+  },
+  { header: 'band gap', unit: 'E_r', csvName: 'band_gap_Er', csvUnit: 'E_r', description: 'gap between the lowest two bands', text: (r) => sig(r.bandGapEr), value: (r) => r.bandGapEr },
   {
     header: 'J2/J',
     unit: '',
     csvName: 'nnn_over_nn',
+    csvUnit: '1',
+    description: 'next-nearest hopping over nearest hopping (negative); 0 when below the round-off of the band energies (see nnn_resolved)',
     text: (r) => (r.nnnResolved ? sig(r.nnnOverNn, 3) : '~0'),
-    csv: (r) => full(r.nnnOverNn),
+    value: (r) => r.nnnOverNn,
   },
-  { header: 'J2 resolved', unit: '', csvName: 'nnn_resolved', text: (r) => (r.nnnResolved ? 'yes' : 'no'), csv: (r) => (r.nnnResolved ? '1' : '0') },
+  {
+    header: 'J2 resolved',
+    unit: '',
+    csvName: 'nnn_resolved',
+    csvUnit: '',
+    description: '1 when the next-nearest hopping is above the numerical round-off, 0 when not',
+    text: (r) => (r.nnnResolved ? 'yes' : 'no'),
+    value: (r) => (r.nnnResolved ? 1 : 0),
+    integer: true,
+  },
 ];
 
 /** Right-aligned text table with a units line, followed by the validity warnings of each row. */
@@ -148,9 +169,31 @@ export function formatHubbardTable(rows: readonly HubbardTableRow[]): string {
   return `${out.join('\n')}\n`;
 }
 
-/** CSV with a header row naming every column with its unit. */
+/**
+ * hubbard.csv with its CSV-on-the-Web metadata (src/formats/csvTable.ts): header row first,
+ * full double precision, units and meaning of every column in hubbard.csv-metadata.json.
+ */
+export function hubbardCsvTable(rows: readonly HubbardTableRow[], about: { species: string; wavelengthNm: number; creator: string }): CsvTable {
+  const warnings = [...new Set(rows.flatMap((r) => r.warnings.map((w) => `${sig(r.depthEr)} E_r: ${w}`)))];
+  return csvTable(
+    'hubbard.csv',
+    columns.map((c) => ({
+      name: c.csvName,
+      values: rows.map((r) => c.value(r)),
+      unit: c.csvUnit,
+      description: c.description,
+      ...(c.integer ? { datatype: 'integer' as const } : {}),
+    })),
+    {
+      title: `Hubbard parameters against lattice depth, ${about.species} at ${about.wavelengthNm} nm`,
+      description: 'J and U from the band structure and the maximally localised Wannier functions of the lattice, one row per depth',
+      creator: about.creator,
+      ...(warnings.length > 0 ? { notes: warnings.map((w) => `validity warning at ${w}`) } : {}),
+    },
+  );
+}
+
+/** The CSV text of hubbardCsvTable (header row first). */
 export function hubbardCsv(rows: readonly HubbardTableRow[]): string {
-  const header = columns.map((c) => c.csvName).join(',');
-  const body = rows.map((row) => columns.map((c) => c.csv(row)).join(','));
-  return `${[header, ...body].join('\n')}\n`;
+  return hubbardCsvTable(rows, { species: '', wavelengthNm: 0, creator: '' }).csv;
 }

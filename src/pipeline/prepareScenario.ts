@@ -20,6 +20,8 @@ export interface PreparedScenario {
   /** the scenario JSON with the overrides applied */
   raw: Record<string, unknown>;
   resolved: ResolvedScenario;
+  /** what the --set overrides switched (an alternative key dropped), for the command to print */
+  overrideNotes: string[];
 }
 
 export interface PrepareOptions {
@@ -32,7 +34,7 @@ export const DEFAULT_MEMORY_LIMIT_BYTES = 8 * 2 ** 30;
 
 /** Validate, resolve and refuse what cannot run; allocates only the model arrays. */
 export function prepareScenario(path: string, overrides: readonly string[] = [], options: PrepareOptions = {}): PreparedScenario {
-  const { scenario, raw } = loadScenario(path, overrides);
+  const { scenario, raw, notes } = loadScenario(path, overrides);
   const sites = scenario.lattice.shape.reduce((a, b) => a * b, 1);
   const t = scenario.temperature;
   const thermal = (t.kT ?? 0) > 0 || (t.nanokelvin ?? 0) > 0 || (t.entropyPerAtom ?? 0) > 0;
@@ -48,7 +50,7 @@ export function prepareScenario(path: string, overrides: readonly string[] = [],
   const resolved = resolveScenario(scenario, { scenarioDirectory: dirname(path) });
   checkPhysicalConsistency(resolved);
   checkCamera(resolved);
-  return { scenario, raw, resolved };
+  return { scenario, raw, resolved, overrideNotes: notes };
 }
 
 /**

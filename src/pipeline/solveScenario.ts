@@ -9,12 +9,14 @@ import { runLattice, type RunOutcome, type RunProgress } from '../solver/runLatt
 import { kernelModule } from '../solver/kernel/kernelModule.js';
 import { defaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 import { createSweepExecutor, createSweepPool, type SweepPool } from '../solver/sweepExecutor.js';
-import { siteFieldsOf, type SiteFields } from '../observables/siteFields.js';
+import { siteFieldsFrom, type SiteFields } from '../observables/siteFields.js';
+import { siteArraysOf } from '../solver/siteArrays.js';
 import type { SiteClassification } from '../observables/siteClassification.js';
 import { classifyOutcome, runRequestOf } from './runRequest.js';
 import { scaledRadii, shellSummary, type ShellSummary } from '../observables/shellSummary.js';
 import { radialProfile, type RadialProfile } from '../observables/radialProfile.js';
 import type { PreparedScenario } from './prepareScenario.js';
+import { readingWarningsOfSolve, type ReadingWarning } from '../observables/readingWarnings.js';
 import type { ResolvedScenario } from '../scenario/resolveScenario.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
 
@@ -56,6 +58,10 @@ export interface SolveArtifacts {
   axisScale: number[];
   shells: ShellSummary;
   profile: RadialProfile;
+  /** what cannot be trusted in the solution as it stands (readingWarnings.ts) */
+  readingWarnings: ReadingWarning[];
+  /** threads asked for (the caller's `threads`) */
+  threadsRequested: number;
   threadsUsed: number;
   timings: { resolveSeconds: number; solveSeconds: number; analysisSeconds: number };
 }
@@ -110,12 +116,18 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     if (ownPool) await ownPool.destroy();
   }
   const t2 = clock();
-  const fields = siteFieldsOf(outcome.state, outcome.compressibility);
+  const fields = siteFieldsFrom(siteArraysOf(outcome.state), outcome.compressibility);
   const geometry = model.geometry;
   const classification = classifyOutcome(resolved, outcome, fields);
   const axisScale = trapAxisScale(resolved.trapCoefficient);
   const radius = scaledRadii(geometry.shape, resolved.trapCentre, axisScale);
-  const shells = shellSummary(fields.density, fields.condensateDensity, classification.codes, classification.mottFilling, radius);
+  const shells = shellSummary(fields.density, fields.condensateDensity, classification.codes, classification.mottFilling, radius, scenario.profiles.binWidthSites);
+  const readingWarnings = readingWarningsOfSolve(
+    outcome,
+    fields.density,
+    { tolerance: scenario.solver.tolerance, topWeightMax: scenario.truncation.topWeightMax, fixedAtoms: resolved.chemical.kind === 'atoms' },
+    { coefficient: resolved.trapCoefficient, centre: resolved.trapCentre },
+  );
   const profile = radialProfile(
     {
       density: fields.density,
@@ -144,6 +156,8 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     axisScale,
     shells,
     profile,
+    readingWarnings,
+    threadsRequested: options.threads,
     threadsUsed: threads,
     timings: { resolveSeconds: options.prepareSeconds ?? 0, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000 },
   };

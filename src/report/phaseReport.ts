@@ -9,7 +9,7 @@ import { phaseNames, phaseTitles } from '../observables/phaseCodes.js';
 import { thresholdReasons, type PhaseThresholds } from '../observables/phaseThresholds.js';
 import type { SiteClassification } from '../observables/siteClassification.js';
 import type { ShellSummary } from '../observables/shellSummary.js';
-import type { ReadingWarning } from '../observables/readingWarnings.js';
+
 import type { StatusLine } from './reportModel.js';
 
 export interface PhaseReportInput {
@@ -177,7 +177,7 @@ function spanningText(c: SiteClassification): string {
 }
 
 /** Status banners for the reading warnings (the not-converged one is the error banner already shown). */
-export function warningStatusLines(warnings: readonly ReadingWarning[]): StatusLine[] {
+export function warningStatusLines(warnings: readonly { code: string; message: string }[]): StatusLine[] {
   return warnings
     .filter((w) => w.code !== 'not-converged')
     .map((w) => ({ level: w.code === 'empty-cloud' ? ('error' as const) : ('warning' as const), text: `${w.code}: ${w.message}` }));

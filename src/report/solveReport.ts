@@ -5,7 +5,8 @@
 import type { ReportBlock, ReportDocument, StatusLine, KeyValueRow } from './reportModel.js';
 import { cautionsFor } from './cautions.js';
 import { inAllUnits } from '../scenario/resolveScenario.js';
-import { fractionOfAtoms, type ReadingWarning } from '../observables/readingWarnings.js';
+import { fractionOfAtoms } from '../observables/readingWarnings.js';
+import type { RunWarning } from '../pipeline/runWarnings.js';
 import { phaseReportBlocks, warningStatusLines } from './phaseReport.js';
 import type { SolveArtifacts } from '../pipeline/solveScenario.js';
 import type { WrittenImage } from '../output/solveOutputs.js';
@@ -30,8 +31,8 @@ export function buildSolveReport(
   images: WrittenImage[],
   createdIso: string,
   imaging: Record<string, unknown> = {},
-  /** reading warnings (readingWarnings.ts), shown as banners at the top */
-  warnings: readonly ReadingWarning[] = [],
+  /** every warning of the run (pipeline/runWarnings.ts), shown as banners at the top */
+  warnings: readonly RunWarning[] = a.readingWarnings,
 ): ReportDocument {
   const { outcome, resolved, scenario, classification, shells, profile } = a;
   const totals = outcome.solve.totals;
@@ -52,7 +53,6 @@ export function buildSolveReport(
     });
   }
   status.push(...warningStatusLines(warnings));
-  for (const w of resolved.laboratory?.warnings ?? []) status.push({ level: 'warning', text: w });
   if (outcome.truncation.nmaxTried.length > 1) {
     status.push({ level: 'warning', text: `Fock space raised automatically: nmax ${outcome.truncation.nmaxTried.join(' -> ')}.` });
   }
@@ -117,11 +117,16 @@ export function buildSolveReport(
   const visibility = imaging.visibility as { value?: number; definition?: string } | undefined;
   if (visibility?.value !== undefined) {
     const empty = fractionOfAtoms(1, totals.atoms) === null;
+    const measuredOn = (visibility as { measuredOn?: string }).measuredOn;
     resultRows.push({
       label: 'time-of-flight visibility V',
       value: empty ? null : visibility.value,
-      note: empty ? 'no atoms: undefined' : 'Gerbier et al., PRL 95, 050404 (2005); definition in summary.json',
+      note: empty ? 'no atoms: undefined' : `measured on ${measuredOn ?? 'the momentum distribution'}; Gerbier et al., PRL 95, 050404 (2005); definition in summary.json`,
     });
+    const farField = (visibility as { momentumDistributionValue?: number }).momentumDistributionValue;
+    if (farField !== undefined) {
+      resultRows.push({ label: 'visibility of n(k) (far-field limit)', value: empty ? null : farField, note: 'the same disks on the momentum distribution, t → ∞' });
+    }
   }
   const convergenceRows: KeyValueRow[] = [
     { label: 'converged', value: outcome.converged ? 'yes' : 'NO' },
@@ -194,6 +199,7 @@ export function buildSolveReport(
           ...(labRows.length > 0
             ? [{ kind: 'keyValueTable' as const, caption: 'Lattice from the laboratory description (band structure and Wannier functions)', rows: labRows }]
             : []),
+          ...landscapeBlocks(a),
           { kind: 'keyValueTable', caption: 'Totals', rows: resultRows },
         ],
       },
@@ -236,6 +242,28 @@ export function buildSolveReport(
     footer: `tiercake ${toolVersion()}`,
   };
   return doc;
+}
+
+/** The scenario's landscape terms, as summary.json lists them (resolveLandscape.ts records). */
+function landscapeBlocks(a: SolveArtifacts): ReportBlock[] {
+  const terms = a.resolved.landscape.records;
+  if (terms.length === 0) return [];
+  return [
+    {
+      kind: 'table',
+      caption: 'Landscape terms added to the site potential (scenario key "landscape"), with their range over the lattice and how each reaches the sites',
+      columns: [{ header: 'term' }, { header: 'kind' }, { header: 'minimum' }, { header: 'maximum' }, { header: 'unit' }, { header: 'file (SHA-256)' }, { header: 'method' }],
+      rows: terms.map((t) => [
+        `[${t.index}] ${t.name}`,
+        t.kind,
+        t.minimum,
+        t.maximum,
+        t.energyUnit,
+        t.file !== null ? `${t.file.path} (${t.file.sha256.slice(0, 12)}…)` : '—',
+        t.method,
+      ]),
+    },
+  ];
 }
 
 function inAllUnitsArray(values: Float64Array, unit: number): Float64Array {

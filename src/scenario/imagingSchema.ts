@@ -4,9 +4,11 @@
 // far-field approximation; optional strong-coupling correction). Both are optional in a
 // scenario; when absent, cameraOutputs.ts uses the defaults documented below.
 //
-// Lengths: in laboratory mode every `...Um` length is in micrometres. In dimensionless
-// mode (no lattice spacing known) the same keys are read in lattice spacings
-// ("1 site = 1 length unit"), and the pictures say so in their axis labels.
+// Lengths: a key ending in Um is in micrometres and exists only in laboratory mode; a key
+// ending in Sites is in lattice spacings and works in both modes (in laboratory mode it is
+// multiplied by the lattice spacing). A dimensionless scenario (no lattice spacing known)
+// that gives a ...Um key is refused with the name of its ...Sites twin (scenarioSchema.ts),
+// so no key ending in Um is ever read as lattice spacings.
 //
 // PSF width from the optics: sigma = 0.21 lambda / NA, the Gaussian approximation of the
 // Airy core (Zhang, Zerubia, Olivo-Marin, Appl. Opt. 46, 1819 (2007)).
@@ -24,7 +26,7 @@ export const PointSpreadFromOpticsSchema = z
 
 export const PointSpreadSigmaUmSchema = z
   .strictObject({
-    sigmaUm: z.number().min(0).describe('Gaussian PSF standard deviation in the object plane, µm (lattice spacings in dimensionless mode); 0 for none'),
+    sigmaUm: z.number().min(0).describe('Gaussian PSF standard deviation in the object plane, µm (laboratory mode; use sigmaSites in dimensionless mode); 0 for none'),
   })
   .describe('Gaussian PSF of a given width in micrometres');
 
@@ -60,7 +62,11 @@ export const CameraSchema = z
     cameraPixelUm: positive()
       .max(10_000)
       .optional()
-      .describe('camera pixel size on the sensor, µm; default: magnification x half a lattice spacing (object-plane pixel a/2)'),
+      .describe('camera pixel size on the sensor, µm (laboratory mode); default: magnification x half a lattice spacing (object-plane pixel a/2)'),
+    cameraPixelSites: positive()
+      .max(10_000)
+      .optional()
+      .describe('or: camera pixel size on the sensor in lattice spacings (the object-plane pixel is cameraPixelSites / magnification sites); the key for dimensionless mode'),
     psf: PointSpreadSchema.optional().describe(
       'point-spread function: {wavelengthNm, numericalAperture}, {sigmaUm} or {sigmaSites}; default sigma = 0.5 lattice spacing',
     ),
@@ -90,7 +96,7 @@ export const TimeOfFlightSchema = z
     cameraPixelUm: positive()
       .max(10_000)
       .optional()
-      .describe('camera pixel size on the sensor, µm; default: the momentum grid itself (about 64 pixels per Brillouin zone)'),
+      .describe('camera pixel size on the sensor, µm; default: the momentum grid itself (about 64 pixels per Brillouin zone); the picture needs laboratory mode'),
     magnification: positive().max(10_000).default(1).describe('magnification of the time-of-flight imaging system'),
     brillouinZones: z.int().min(1).max(15).default(3).describe('Brillouin zones shown per axis (odd); 3 shows the first-order peaks'),
     visibilityDiskRadiusInTwoHbarKl: positive()
@@ -104,6 +110,26 @@ export const TimeOfFlightSchema = z
     }
   })
   .describe('time-of-flight picture: expansion time, camera pixel and magnification, and the visibility measurement');
+
+/**
+ * Problems of the camera and time-of-flight sections that depend on the mode: in
+ * dimensionless mode a key ending in Um would hold lattice spacings, so it is refused with
+ * the key to use instead. Paths are relative to the scenario root.
+ */
+export function imagingModeIssues(camera: CameraSettings | undefined, tof: TimeOfFlightSettings | undefined, laboratory: boolean): Array<[PropertyKey[], string]> {
+  const out: Array<[PropertyKey[], string]> = [];
+  if (camera?.cameraPixelUm !== undefined && camera.cameraPixelSites !== undefined) {
+    out.push([['camera', 'cameraPixelUm'], 'give one of cameraPixelUm and cameraPixelSites']);
+  }
+  if (laboratory) return out;
+  const why = 'a dimensionless scenario has no lattice spacing in micrometres';
+  if (camera?.cameraPixelUm !== undefined) out.push([['camera', 'cameraPixelUm'], `give camera.cameraPixelSites (in lattice spacings) instead: ${why}`]);
+  if (camera?.psf !== undefined && 'sigmaUm' in camera.psf) out.push([['camera', 'psf', 'sigmaUm'], `give camera.psf.sigmaSites (in lattice spacings) instead: ${why}`]);
+  if (tof?.cameraPixelUm !== undefined) {
+    out.push([['timeOfFlight', 'cameraPixelUm'], 'remove it: there is no time-of-flight picture in dimensionless mode (it needs the atomic mass and the lattice spacing)']);
+  }
+  return out;
+}
 
 export type CameraSettings = z.output<typeof CameraSchema>;
 export type CameraSettingsInput = z.input<typeof CameraSchema>;

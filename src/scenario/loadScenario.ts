@@ -430,13 +430,59 @@ function kindOf(v: unknown): string {
 }
 
 /**
+ * Keys that are alternatives to each other: a scenario gives one of each set (the schema
+ * refuses two). Setting one by --set switches the mode: the alternatives already in the
+ * file are dropped, so `--set particles.atoms=N` on a fixed-mu scenario solves at fixed N.
+ * `parent` is the path of the group; each entry of `sets` is one alternative (a set of
+ * keys that go together, e.g. a PSF from wavelength and aperture).
+ */
+export const ALTERNATIVE_KEYS: ReadonlyArray<{ parent: readonly string[]; sets: ReadonlyArray<readonly string[]> }> = [
+  { parent: ['particles'], sets: [['atoms'], ['chemicalPotential']] },
+  { parent: ['temperature'], sets: [['kT'], ['nanokelvin'], ['entropyPerAtom']] },
+  { parent: ['camera'], sets: [['cameraPixelUm'], ['cameraPixelSites']] },
+  { parent: ['camera', 'psf'], sets: [['sigmaUm'], ['sigmaSites'], ['wavelengthNm', 'numericalAperture']] },
+  { parent: ['disorder'], sets: [['grainSites'], ['grainUm'], ['numericalAperture', 'wavelengthNm']] },
+  { parent: ['laboratory', 'transverse'], sets: [['trapFrequencyHz'], ['depthEr', 'wavelengthNm']] },
+  { parent: ['laboratory', 'species'], sets: [['scatteringLengthBohr'], ['scatteringLengthNm']] },
+];
+
+export interface OverrideResult {
+  raw: Record<string, unknown>;
+  /** what the overrides switched, one sentence each, e.g. that particles.atoms replaced particles.chemicalPotential */
+  notes: string[];
+}
+
+/** The alternatives dropped by setting `path` (key path of a leaf); [] when it has none. */
+function alternativesOf(path: readonly (string | number)[]): { parent: readonly string[]; drop: string[] } | null {
+  if (path.length < 2) return null;
+  const parent = path.slice(0, -1);
+  const key = path[path.length - 1];
+  for (const group of ALTERNATIVE_KEYS) {
+    if (group.parent.length !== parent.length || !group.parent.every((p, i) => p === parent[i])) continue;
+    const own = group.sets.find((set) => set.includes(String(key)));
+    if (!own) return null;
+    return { parent: group.parent, drop: group.sets.filter((set) => set !== own).flat().filter((k) => !own.includes(k)) };
+  }
+  return null;
+}
+
+/**
  * Apply "a.b.c=value" overrides to a copy of `raw`. Numeric segments index lists
  * (lattice.shape.0=32), up to one past the end (which appends). A misspelt key is refused
  * with the nearest valid one; a path that runs into a number or a text, or names a key
- * inside a list, is refused rather than silently replacing what is there.
+ * inside a list, is refused rather than silently replacing what is there. Setting one of
+ * a set of alternatives (ALTERNATIVE_KEYS) drops the others from the file and says so in
+ * the notes; giving two alternatives in the same command is refused.
  */
 export function applyOverrides(raw: Record<string, unknown>, overrides: readonly string[]): Record<string, unknown> {
+  return applyOverridesWithNotes(raw, overrides).raw;
+}
+
+export function applyOverridesWithNotes(raw: Record<string, unknown>, overrides: readonly string[]): OverrideResult {
   const root = structuredClone(raw);
+  const notes: string[] = [];
+  /** leaf paths set so far (dotted) -> the --set item that set them */
+  const setBy = new Map<string, string>();
   for (const item of overrides) {
     const eq = item.indexOf('=');
     const shown = quoted(item);
@@ -475,6 +521,23 @@ export function applyOverrides(raw: Record<string, unknown>, overrides: readonly
       const container = node as Record<string | number, unknown>;
       if (k === path.length - 1) {
         container[key] = value;
+        const alternatives = alternativesOf(schemaPath);
+        if (alternatives !== null && !Array.isArray(container)) {
+          const dotted = alternatives.parent.join('.');
+          for (const other of alternatives.drop) {
+            const earlier = setBy.get(`${dotted}.${other}`);
+            if (earlier !== undefined) {
+              throw new InputError(
+                `--set ${shown}: ${dotted}.${String(key)} and ${dotted}.${other} (set by --set ${quoted(earlier)}) are alternatives; give only one of them`,
+              );
+            }
+            if (Object.hasOwn(container, other)) {
+              delete container[other];
+              notes.push(`--set ${dotted}.${String(key)} replaces ${dotted}.${other} of the scenario file (the two are alternatives)`);
+            }
+          }
+        }
+        setBy.set(schemaPath.join('.'), item);
         break;
       }
       const next = Object.hasOwn(container, key) ? container[key] : undefined;
@@ -492,7 +555,7 @@ export function applyOverrides(raw: Record<string, unknown>, overrides: readonly
       }
     }
   }
-  return root;
+  return { raw: root, notes };
 }
 
 export function validateScenario(raw: unknown, source: string): Scenario {
@@ -502,8 +565,8 @@ export function validateScenario(raw: unknown, source: string): Scenario {
   throw new InputError(`${source} is not a valid scenario:\n  ${lines.join('\n  ')}`);
 }
 
-/** File -> overrides -> validated scenario. */
-export function loadScenario(path: string, overrides: readonly string[] = []): { scenario: Scenario; raw: Record<string, unknown> } {
-  const raw = applyOverrides(readScenarioFile(path), overrides);
-  return { scenario: validateScenario(raw, `scenario ${quoted(path)}`), raw };
+/** File -> overrides -> validated scenario (with the notes of the overrides that switched a mode). */
+export function loadScenario(path: string, overrides: readonly string[] = []): { scenario: Scenario; raw: Record<string, unknown>; notes: string[] } {
+  const { raw, notes } = applyOverridesWithNotes(readScenarioFile(path), overrides);
+  return { scenario: validateScenario(raw, `scenario ${quoted(path)}`), raw, notes };
 }

@@ -223,30 +223,51 @@ function disorderInputError(err: unknown): unknown {
   return new InputError(`disorder.${disorderKeyOf[m[1]] ?? m[1]}${m[2] ?? ''}: ${m[3]}`);
 }
 
+/** The scenario's energy unit (energyUnit; default J in dimensionless mode, Hz in laboratory mode). */
+export type ScenarioEnergyUnit = 'J' | 'U' | 'Hz' | 'kHz' | 'nK';
+
+/**
+ * The one energy unit of a run's outputs: the scenario's own (fields, CSV columns and every
+ * bare energy in summary.json use it) and the internal energy of one of it.
+ */
+export interface OutputEnergyUnit {
+  name: ScenarioEnergyUnit;
+  /** internal energy of one `name` (multiply a value in `name` by this to get the internal unit) */
+  internalPerUnit: number;
+}
+
+export function outputEnergyUnit(scenario: Scenario, units: EnergyUnits): OutputEnergyUnit {
+  const name: ScenarioEnergyUnit = scenario.energyUnit ?? (scenario.hubbard ? 'J' : 'Hz');
+  switch (name) {
+    case 'J':
+      return { name, internalPerUnit: units.hopping };
+    case 'U':
+      return { name, internalPerUnit: units.interaction };
+    case 'Hz':
+      return { name, internalPerUnit: units.hertz ?? NaN };
+    case 'kHz':
+      return { name, internalPerUnit: 1000 * (units.hertz ?? NaN) };
+    case 'nK':
+      return { name, internalPerUnit: units.nanokelvin ?? NaN };
+  }
+}
+
 /** Converts an energy written in the scenario's unit into the internal unit. */
 export function energyParser(scenario: Scenario, units: EnergyUnits): (value: number, field: string) => number {
-  const unit = scenario.energyUnit ?? (scenario.hubbard ? 'J' : 'Hz');
+  const unit = outputEnergyUnit(scenario, units);
   return (value: number, field: string): number => {
-    switch (unit) {
-      case 'J':
-        return value * units.hopping;
-      case 'U':
-        return value * units.interaction;
-      case 'Hz':
-        return value * (units.hertz ?? NaN);
-      case 'kHz':
-        return value * 1000 * (units.hertz ?? NaN);
-      case 'nK':
-        if (units.nanokelvin === null) throw new InputError(`${field}: nK needs laboratory mode`);
-        return value * units.nanokelvin;
-    }
+    if (unit.name === 'nK' && units.nanokelvin === null) throw new InputError(`${field}: nK needs laboratory mode`);
+    return value * unit.internalPerUnit;
   };
 }
 
 /** A value in the internal unit expressed in every unit system available. */
 export function inAllUnits(value: number, units: EnergyUnits): Record<string, number> {
   const out: Record<string, number> = { J: value / units.hopping, U: value / units.interaction };
-  if (units.hertz !== null) out.Hz = value / units.hertz;
+  if (units.hertz !== null) {
+    out.Hz = value / units.hertz;
+    out.kHz = value / (1000 * units.hertz);
+  }
   if (units.nanokelvin !== null) out.nK = value / units.nanokelvin;
   return out;
 }

@@ -4,7 +4,7 @@
 // (see formatScenarioError.ts).
 
 import * as z from 'zod';
-import { CameraSchema, TimeOfFlightSchema } from './imagingSchema.js';
+import { CameraSchema, imagingModeIssues, TimeOfFlightSchema } from './imagingSchema.js';
 import { LandscapeSchema, landscapeIssues } from './landscapeSchema.js';
 
 const finite = (): z.ZodNumber => z.number();
@@ -288,6 +288,7 @@ export const ScenarioSchema = z
     if (t.entropyPerAtom !== undefined && s.particles.atoms === undefined) {
       issue(['temperature', 'entropyPerAtom'], 'fixed entropy per atom needs a fixed atom number: give particles.atoms');
     }
+    for (const [path, message] of imagingModeIssues(s.camera, s.timeOfFlight, s.laboratory !== undefined)) issue(path, message);
     for (const [path, message] of landscapeIssues(s.landscape, {
       dims,
       laboratory: s.laboratory !== undefined,

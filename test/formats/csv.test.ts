@@ -37,8 +37,8 @@ describe('toCsv', () => {
     expect(lines[5]).toBe('-0');
   });
 
-  it('writes NaN and infinities as nan, inf, -inf', () => {
-    expect(toCsv([{ name: 'x', values: [Number.NaN, Infinity, -Infinity] }])).toBe('x\nnan\ninf\n-inf\n');
+  it('writes NaN as nan and infinities as INF, -INF (the xsd:double forms)', () => {
+    expect(toCsv([{ name: 'x', values: [Number.NaN, Infinity, -Infinity] }])).toBe('x\nnan\nINF\n-INF\n');
   });
 
   it('explains unequal columns and a # that readers would take for a comment', () => {

@@ -124,4 +124,31 @@ describe('reading and writing', () => {
     expect(Array.from(v2.data)).toEqual(expected);
     expect(readNpyHeader(readFileSync(join(dir, 'v2.npy'))).version).toEqual([2, 0]);
   });
+
+  it('Fortran order: refused by default, transposed into C order when accepted (numpy.asfortranarray as the reference)', () => {
+    // Element (i, j, k) of a (2, 3, 4) array sits at i + 2 (j + 3 k) in Fortran order (numpy.lib.format).
+    const shape = [2, 3, 4];
+    const c = Array.from({ length: 24 }, (_, n) => n * 1.5 - 3);
+    const stored = new Float64Array(24);
+    for (let i = 0; i < 2; i++) for (let j = 0; j < 3; j++) for (let k = 0; k < 4; k++) stored[i + 2 * (j + 3 * k)] = c[(i * 3 + j) * 4 + k];
+    const bytes = npyWith("{'descr': '<f8', 'fortran_order': True, 'shape': (2, 3, 4), }", new Uint8Array(stored.buffer));
+    expect(() => decodeNpy(bytes, 'f.npy')).toThrow(/Fortran order/);
+    let problem = '';
+    try {
+      decodeNpy(bytes, 'f.npy');
+    } catch (e) {
+      problem = (e as NpyFormatError).problem;
+    }
+    expect(problem).toBe('unsupported');
+    const read = decodeNpy(bytes, 'f.npy', { fortranOrder: 'accept' });
+    expect(read.shape).toEqual(shape);
+    expect(read.header.fortranOrder).toBe(true);
+    expect(Array.from(read.data)).toEqual(c);
+    if (!hasNumpy()) return;
+    const file = join(dir, 'fortran.npy');
+    execFileSync('python3', ['-c', 'import numpy, sys; numpy.save(sys.argv[1], numpy.asfortranarray(numpy.arange(24.0).reshape(2, 3, 4) * 1.5 - 3))', file]);
+    const fromNumpy = decodeNpy(readFileSync(file), 'fortran.npy', { fortranOrder: 'accept' });
+    expect(fromNumpy.header.fortranOrder).toBe(true);
+    expect(Array.from(fromNumpy.data)).toEqual(c);
+  });
 });

@@ -4,7 +4,7 @@
 // Quantum Optics, ch. 3); the condensate density of a product state is |<b>|^2 = phi^2.
 
 import { describe, expect, it } from 'vitest';
-import { siteFieldsFrom, siteFieldsOf, type SiteSolution } from '../../src/observables/siteFields.js';
+import { siteFieldsFrom, type SiteSolution } from '../../src/observables/siteFields.js';
 import { siteArraysOf } from '../../src/solver/siteArrays.js';
 import type { SolverState } from '../../src/solver/solverState.js';
 
@@ -66,7 +66,7 @@ describe('siteFieldsFrom', () => {
     expect(() => siteFieldsFrom(solution, new Float64Array(3))).toThrow(/compressibility: expected 1 values, got 3/);
   });
 
-  it('takes a solver state through siteArraysOf, as the transitional siteFieldsOf does', () => {
+  it('takes a solver state through siteArraysOf (phi, eps and the measured arrays by name)', () => {
     const phi = Float64Array.of(0.2, 0.7);
     const eps = Float64Array.of(-1, 1);
     const measure = {
@@ -80,7 +80,11 @@ describe('siteFieldsFrom', () => {
     };
     const state = { fields: { phi, eps }, measure } as unknown as SolverState;
     const viaArrays = siteFieldsFrom(siteArraysOf(state), null);
-    expect(viaArrays).toEqual(siteFieldsOf(state, null));
+    expect(Array.from(viaArrays.orderParameter)).toEqual([0.2, 0.7]);
+    expect(Array.from(viaArrays.sitePotential)).toEqual([-1, 1]);
+    expect(Array.from(viaArrays.density)).toEqual([1, 1.3]);
+    expect(Array.from(viaArrays.entropy)).toEqual([0, 0.4]);
+    expect(Array.from(viaArrays.parityOdd)).toEqual([1, 0.6]);
     expect(viaArrays.numberVariance[1]).toBeCloseTo(2.1 - 1.69, 14);
   });
 });

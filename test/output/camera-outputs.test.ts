@@ -81,20 +81,22 @@ describe('camera pictures conserve atoms', () => {
     ];
     for (const { shape, axis } of cases) {
       const cloud = syntheticCloud(shape, `conserve/${shape.length}/${axis}`);
-      const camera = CameraSchema.parse({ imagingAxis: axis, magnification: 40, cameraPixelUm: 13, psf: { sigmaSites: 0.7 } });
+      const camera = CameraSchema.parse({ imagingAxis: axis, magnification: 40, cameraPixelSites: 13, psf: { sigmaSites: 0.7 } });
       const pictures = cameraPictures(cloud, camera);
       const inSitu = decodeNpy(arrayOf(pictures, 'images/in_situ.npy'));
       const parity = decodeNpy(arrayOf(pictures, 'images/parity_expected.npy'));
       expect(Math.abs(sum(inSitu.data) - sum(cloud.density)) / sum(cloud.density)).toBeLessThan(1e-9);
       expect(Math.abs(sum(parity.data) - sum(cloud.parityOdd)) / sum(cloud.parityOdd)).toBeLessThan(1e-9);
       // Object-plane pixel = camera pixel / magnification (13 / 40 sites here).
-      expect(sidecarOf(pictures, 'images/in_situ.json').pixelUm).toBeCloseTo(13 / 40, 12);
+      // In lattice spacings here (no lattice spacing known): the neutral key, with its unit.
+      expect(sidecarOf(pictures, 'images/in_situ.json').pixelSize).toBeCloseTo(13 / 40, 12);
+      expect(sidecarOf(pictures, 'images/in_situ.json').lengthUnit).toBe('sites');
     }
   });
 
   it('a cropped frame reports the atoms it cuts off, so that picture + outside = sites', () => {
     const cloud = syntheticCloud([30, 30], 'conserve/crop');
-    const camera = CameraSchema.parse({ cameraPixelUm: 1, psf: { sigmaSites: 0 }, framePixels: [20, 24] });
+    const camera = CameraSchema.parse({ cameraPixelSites: 1, psf: { sigmaSites: 0 }, framePixels: [20, 24] });
     const pictures = cameraPictures(cloud, camera);
     const entry = (pictures.summary.pictures as Array<Record<string, number | string>>).find((p) => p.name === 'in_situ');
     const inSitu = decodeNpy(arrayOf(pictures, 'images/in_situ.npy'));
@@ -106,7 +108,7 @@ describe('camera pictures conserve atoms', () => {
 
   it('a single parity shot shows exactly its bright sites, and shot noise keeps the mean', () => {
     const cloud = syntheticCloud([24, 20], 'conserve/shot');
-    const camera = CameraSchema.parse({ cameraPixelUm: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom: 50, seed: 'shot-test' } });
+    const camera = CameraSchema.parse({ cameraPixelSites: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom: 50, seed: 'shot-test' } });
     const pictures = cameraPictures(cloud, camera);
     const shot = decodeNpy(arrayOf(pictures, 'images/parity_shot.npy'));
     const bright = Number(sidecarOf(pictures, 'images/parity_shot.json').brightSites);
@@ -125,7 +127,7 @@ describe('16-bit PNG and its sidecar', () => {
   // ny - 1 - j. Rounding to the nearest grey level errs by at most half a level.
   it('reproduces the float image within half a grey level, and noisy counts exactly', () => {
     const cloud = syntheticCloud([16, 22], 'gray16');
-    const camera = CameraSchema.parse({ cameraPixelUm: 0.5, psf: { sigmaSites: 0.6 }, noise: { kind: 'photon', countsPerAtom: 20, seed: 'g' } });
+    const camera = CameraSchema.parse({ cameraPixelSites: 0.5, psf: { sigmaSites: 0.6 }, noise: { kind: 'photon', countsPerAtom: 20, seed: 'g' } });
     const pictures = cameraPictures(cloud, camera);
     for (const name of ['in_situ', 'in_situ_shot', 'parity_expected']) {
       const float = decodeNpy(arrayOf(pictures, `images/${name}.npy`));
@@ -178,7 +180,7 @@ describe('parity-projected wedding cake', () => {
     );
     const solved = await solveScenario(prepareScenario(path, ['solver.compressibility=false']), { threads: 1 });
     // One pixel per site, no blur: pixel (i + 1, j + 1) is site (i, j) (one-pixel margin).
-    const camera = CameraSchema.parse({ cameraPixelUm: 1, psf: { sigmaSites: 0 } });
+    const camera = CameraSchema.parse({ cameraPixelSites: 1, psf: { sigmaSites: 0 } });
     const pictures = cameraPictures(cloudForImaging(solved), camera);
     const expected = decodeNpy(arrayOf(pictures, 'images/parity_expected.npy'));
     const shot = decodeNpy(arrayOf(pictures, 'images/parity_shot.npy'));
@@ -273,7 +275,8 @@ describe('time of flight and visibility', () => {
     expect(pictures.arrays.some((a) => a.file.includes('time_of_flight'))).toBe(false);
     expect((pictures.summary.timeOfFlight as { written: boolean }).written).toBe(false);
     // Dimensionless mode says so: lengths in lattice spacings.
-    expect(String(pictures.summary.lengthUnit)).toContain('1 site = 1 length unit');
+    expect(pictures.summary.lengthUnit).toBe('sites');
+    expect(String(pictures.summary.lengthUnitNote)).toContain('1 site = 1 length unit');
   });
 
   it('refuses a PSF from wavelength and NA in dimensionless mode, naming the setting', () => {

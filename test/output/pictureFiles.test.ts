@@ -7,7 +7,7 @@
 
 import { describe, expect, it } from 'vitest';
 import { pictureFiles, quantiseGray16, scaleBarLength, toPngRowOrder } from '../../src/output/pictureFiles.js';
-import { latticeSites } from '../../src/imaging/pixelPicture.js';
+import { latticeSites, micrometres } from '../../src/imaging/pixelPicture.js';
 import { decodeNpy } from '../../src/formats/npy.js';
 
 describe('picture files', () => {
@@ -43,7 +43,14 @@ describe('picture files', () => {
     expect(files.image.file).toBe('images/test.png');
     expect(Array.from(decodeNpy(files.arrays[0].bytes).data)).toEqual(Array.from(values));
     expect(files.sidecar.atomsInPicture).toBe(values.reduce((s, v) => s + v, 0));
-    expect(files.sidecar.firstPixelCentreUm).toEqual({ x: -0.75, y: -0.5 });
+    // Lattice spacings (dimensionless mode): neutral keys with their unit, no key ending in Um.
+    expect(files.sidecar.firstPixelCentre).toEqual({ x: -0.75, y: -0.5 });
+    expect(files.sidecar.pixelSize).toBe(0.5);
+    expect(files.sidecar.lengthUnit).toBe('sites');
+    expect(Object.keys(files.sidecar).filter((k) => k.endsWith('Um'))).toEqual([]);
+    // Micrometres (laboratory mode): the same plus the ...Um keys, which then hold micrometres.
+    const lab = pictureFiles(picture, { name: 'test', title: 'test picture', description: 'd', axisNames: ['x', 'y'], lengthUnit: micrometres });
+    expect(lab.sidecar).toMatchObject({ pixelSize: 0.5, pixelUm: 0.5, lengthUnit: 'um', firstPixelCentreUm: { x: -0.75, y: -0.5 } });
     expect(Array.from(files.image.png.subarray(1, 4))).toEqual([0x50, 0x4e, 0x47]); // "PNG"
   });
 });

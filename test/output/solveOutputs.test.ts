@@ -38,10 +38,12 @@ describe('solve outputs', () => {
     writeFileSync(path, JSON.stringify({ name: 'small', energyUnit: 'U', lattice: { shape: [6, 5] }, hubbard: { hopping: 0.02 }, trap: { coefficient: 0.02 }, particles: { chemicalPotential: 0.6 } }));
     const a = await solveScenario(prepareScenario(path), { threads: 1 });
     const fields = fieldFiles(a);
-    expect(fields.length).toBe(10);
+    // 10 physics and label fields + the two local-density-approximation label fields.
+    expect(fields.length).toBe(12);
     for (const f of fields) expect(decodeNpy(f.bytes).shape).toEqual([6, 5]);
     expect(Array.from(decodeNpy(fields.find((f) => f.file === 'fields/density.npy')!.bytes).data)).toEqual(Array.from(a.fields.density));
-    expect(profilesCsv(a).split('\n').find((l) => !l.startsWith('#'))).toMatch(/^radius_sites,bin_inner_sites,sites,density_mean,/);
+    // The header row is the first line (no comments): numpy and pandas read it without options.
+    expect(profilesCsv(a).csv.split('\n')[0]).toMatch(/^radius_sites,radius_um,bin_inner_sites,sites,density_mean,/);
     const out = join(dir, 'out');
     let files: string[] = [];
     await writeOutputFolder(checkOutputTarget(out, { option: '--out' }), { command: 'solve', scenarioHash: null }, (folder) => {

@@ -51,7 +51,7 @@ describe('compare round trip', () => {
   it('fits N within 1 % and kT within 10 % from a noisy 16-bit exposure and its sidecar', async () => {
     const truth = await solveScenario(prepareScenario(scenarioPath, []), { threads: 1 });
     expect(Math.abs(truth.outcome.solve.totals.atoms - trueAtoms)).toBeLessThan(1e-3);
-    const camera = CameraSchema.parse({ cameraPixelUm: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom: 1000, seed: 'roundtrip' } });
+    const camera = CameraSchema.parse({ cameraPixelSites: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom: 1000, seed: 'roundtrip' } });
     const pictures = cameraPictureFiles(cameraPictures(cloudForImaging(truth), camera));
     const pngFile = pictures.arrays.find((a) => a.file === 'images/in_situ_shot.gray16.png');
     const sidecar = pictures.texts.find((t) => t.file === 'images/in_situ_shot.json');

@@ -35,7 +35,7 @@ const body = {
   particles: { atoms: trueAtoms },
   truncation: { nmax: 5 },
   solver: { compressibility: false },
-  camera: { cameraPixelUm: 1, psf: { sigmaSites: 0.6 } },
+  camera: { cameraPixelSites: 1, psf: { sigmaSites: 0.6 } },
 };
 const path = join(dir, 'fit-layer.json');
 writeFileSync(path, JSON.stringify(body));

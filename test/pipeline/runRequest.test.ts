@@ -11,7 +11,8 @@ import { classifyOutcome, NMAX_CEILING, runRequestOf } from '../../src/pipeline/
 import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { runLattice } from '../../src/solver/runLattice.js';
 import { createSweepExecutor } from '../../src/solver/sweepExecutor.js';
-import { siteFieldsOf } from '../../src/observables/siteFields.js';
+import { siteFieldsFrom } from '../../src/observables/siteFields.js';
+import { siteArraysOf } from '../../src/solver/siteArrays.js';
 import { PhaseCode } from '../../src/observables/phaseCodes.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tiercake-request-'));
@@ -41,7 +42,7 @@ describe('runRequestOf and classifyOutcome', () => {
     expect(request.truncation.nmaxLimit).toBe(Math.max(4, NMAX_CEILING));
     const outcome = await runLattice(request, (state) => createSweepExecutor(state, null, 1));
     expect(observed.length).toBeGreaterThan(0);
-    const fields = siteFieldsOf(outcome.state, outcome.compressibility);
+    const fields = siteFieldsFrom(siteArraysOf(outcome.state), outcome.compressibility);
     const labels = classifyOutcome(resolved, outcome, fields);
     expect(Array.from(labels.codes).every((c) => c === PhaseCode.mott)).toBe(true);
     expect(Array.from(labels.mottFilling).every((n) => n === 1)).toBe(true);

@@ -8,6 +8,7 @@ import { inAllUnits } from '../../scenario/resolveScenario.js';
 import { ExitCode } from '../../scenario/inputError.js';
 import { declare, readOptions, type RawOptions } from '../options.js';
 import { memoryLimitBytes } from '../machine.js';
+import { solveWarnings } from '../../pipeline/runWarnings.js';
 
 const OPTIONS = ['set'] as const;
 
@@ -23,7 +24,7 @@ export function registerCheck(program: Command, context: CommandContext): void {
 
 export function runCheck(scenarioPath: string, raw: RawOptions): number {
   const o = readOptions(raw, OPTIONS);
-  const { resolved } = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
+  const { resolved, overrideNotes } = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
   const u = resolved.units;
   const show = (label: string, v: number): string => {
     const all = inAllUnits(v, u);
@@ -42,7 +43,21 @@ export function runCheck(scenarioPath: string, raw: RawOptions): number {
     resolved.thermal.kind === 'temperature' ? show('k_B T', resolved.thermal.kT) : `  entropy per atom       ${resolved.thermal.entropyPerAtom} k_B`,
     `  nmax                   ${resolved.scenario.truncation.nmax}${resolved.scenario.truncation.automatic ? ' (raised automatically if needed)' : ''}`,
   ];
-  for (const w of resolved.laboratory?.warnings ?? []) lines.push(`  warning: ${w}`);
+  const terms = resolved.landscape.records;
+  if (terms.length > 0) {
+    lines.push(`  landscape              ${terms.length} term${terms.length > 1 ? 's' : ''}`);
+    for (const t of terms) {
+      const range = `${t.minimum.toPrecision(4)} .. ${t.maximum.toPrecision(4)} ${t.energyUnit}`;
+      const file = t.file !== null ? `; file ${t.file.path} (sha256 ${t.file.sha256.slice(0, 12)}...)` : '';
+      lines.push(`    [${t.index}] ${t.name} (${t.kind}): ${range}${file}`);
+      lines.push(`        ${t.method}`);
+    }
+  } else {
+    lines.push('  landscape              none');
+  }
+  for (const note of overrideNotes) lines.push(`  note: ${note}`);
+  // The warnings known before solving (the laboratory model, the landscape).
+  for (const w of solveWarnings({ readingWarnings: [], resolved })) lines.push(`  warning: ${w.code}: ${w.message}`);
   process.stdout.write(`${lines.join('\n')}\n`);
   return ExitCode.done;
 }

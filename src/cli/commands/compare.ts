@@ -5,6 +5,8 @@
 // report (src/report/compareReport.ts). Exit codes: 0 done; 2 bad input; 3 the solve at the
 // best values did not converge.
 
+import { fitAtBoundWarnings } from '../../pipeline/fitAtBound.js';
+import { warningLine } from '../../pipeline/runWarnings.js';
 import type { Command } from 'commander';
 import { writeOutputFolder } from '../../output/outputFolder.js';
 import { writeCompareFiles, type CompareProvenance } from '../../output/compareOutputs.js';
@@ -77,6 +79,7 @@ export async function runCompareCommand(scenarioPath: string, raw: RawOptions): 
       process.stderr.write(`compare: solve ${evaluation}: ${shown}${converged ? '' : ' (not converged)'}\n`);
     },
   });
+  for (const w of fitAtBoundWarnings(result.parameters)) process.stderr.write(`${warningLine(w)}\n`);
   const provenance: CompareProvenance = {
     scenarioPath,
     overrides,

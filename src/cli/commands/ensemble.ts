@@ -6,7 +6,7 @@
 // did not converge, results written and flagged; 130 interrupted, nothing written).
 
 import type { Command } from 'commander';
-import { join, resolve } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { OutputFolder, writeOutputFolder } from '../../output/outputFolder.js';
 import { renderReportHtml } from '../../report/renderReport.js';
 import { formatBlockList, planBlocks, shardBlocks } from '../../pipeline/ensemble/blockPlan.js';
@@ -17,7 +17,7 @@ import { runEnsembleBlocks, type ParallelMode, type WorkerModule } from '../../p
 import { ensembleContextOf, realisationScenario } from '../../pipeline/ensemble/solveRealisation.js';
 import { prepareScenario } from '../../pipeline/prepareScenario.js';
 import { PARALLEL_MIN_SITES } from '../../pipeline/solveScenario.js';
-import { scenarioHash } from '../../scenario/scenarioHash.js';
+import { landscapeFileHashes, scenarioHash } from '../../scenario/scenarioHash.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import { writeShardBlock, writeShardHeader, type EnsembleIdentity, type ShardBlockEntry } from '../../output/ensembleShard.js';
 import { shardFolderName } from '../../output/shardSet.js';
@@ -31,6 +31,7 @@ import { progressFor } from '../progress.js';
 import { whileInterruptible } from '../signals.js';
 import { resolveShard } from '../shardOption.js';
 import { outputTarget, reportCommit } from '../outputOption.js';
+import { commandPrefix } from '../invocation.js';
 
 const OPTIONS = ['realisations', 'blockSize', 'shard', 'shardFromEnv', 'shards', 'threads', 'parallelOver', 'binsPerAtom', 'set', 'out', 'force', 'quiet', 'jsonProgress'] as const;
 
@@ -69,7 +70,8 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
   const threads = o.threads ?? defaultThreads();
   const parallelChoice = o.parallelOver ?? 'auto';
 
-  const { scenario, raw: scenarioRaw, resolved } = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
+  const { scenario, raw: scenarioRaw, resolved, overrideNotes } = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
+  for (const note of overrideNotes) process.stderr.write(`tiercake: note: ${note}\n`);
   if (!scenario.disorder) {
     throw new InputError(
       'disorder: the scenario has no disorder block, so every realisation would be the same; add one, ' +
@@ -82,7 +84,14 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
 
   const plan = planBlocks(realisations, blockSize);
   const bins = histogramBins(scenario.truncation.nmax, binsPerAtom);
-  const identity: EnsembleIdentity = { scenario, scenarioHash: scenarioHash(scenario), baseSeed, plan, bins, context: ensembleContextOf(resolved) };
+  const identity: EnsembleIdentity = {
+    scenario,
+    scenarioHash: scenarioHash(scenario, 'whole', landscapeFileHashes(resolved)),
+    baseSeed,
+    plan,
+    bins,
+    context: ensembleContextOf(resolved),
+  };
   const blocks = shard ? shardBlocks(plan, shard.index, shard.count) : Array.from({ length: plan.blockCount }, (_, b) => b);
   const siteCount = resolved.geometry.siteCount;
   const parallelOver: ParallelMode = parallelChoice === 'auto' ? (siteCount < PARALLEL_MIN_SITES ? 'realisations' : 'lattice') : (parallelChoice as ParallelMode);
@@ -102,6 +111,20 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
   };
   let sweeps = 0;
   let run;
+  // Progress: realisations done of those this process runs, the blocks completed, and, while
+  // a realisation is solved on this thread, its sweeps (workers report finished realisations).
+  const blockOf = (r: number): number => Math.floor(r / plan.blockSize);
+  const blocksBefore = (done: number): number => {
+    let complete = 0;
+    let seen = 0;
+    for (const b of blocks) {
+      seen += Math.min(plan.blockSize, realisations - b * plan.blockSize);
+      if (seen <= done) complete++;
+    }
+    return complete;
+  };
+  const toRun = blocks.reduce((n, b) => n + Math.min(plan.blockSize, realisations - b * plan.blockSize), 0);
+  progress.update({ stage: `realisation 0/${toRun}`, sweep: 0, residual: NaN, fraction: 0, detail: `blocks 0 of ${blocks.length} done` });
   try {
     run = await whileInterruptible((interrupted) =>
       runEnsembleBlocks({
@@ -114,12 +137,28 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
         siteCount,
         threads,
         parallelOver,
+        scenarioDirectory: dirname(scenarioPath),
         ...(hooks.realisationWorker ? { realisationWorker: hooks.realisationWorker } : {}),
         ...(hooks.sweepWorker ? { sweepWorker: hooks.sweepWorker } : {}),
         shouldStop: interrupted,
+        onSweep: ({ index, done, sweep, residual, stage }) => {
+          progress.update({
+            stage: `realisation ${done + 1}/${toRun}`,
+            sweep: sweeps + sweep,
+            residual,
+            fraction: done / toRun,
+            detail: `index ${index} in block ${blockOf(index)}, ${stage === 'solve' ? 'solving' : stage}; blocks ${blocksBefore(done)} of ${blocks.length} done`,
+          });
+        },
         onRealisation: ({ done, total: count, record }) => {
           sweeps += record.sweeps;
-          progress.update({ stage: `realisation ${done}/${count}`, sweep: sweeps, residual: NaN, fraction: done / count, detail: record.converged ? '' : `realisation ${record.index} NOT CONVERGED` });
+          progress.update({
+            stage: `realisation ${done}/${count}`,
+            sweep: sweeps,
+            residual: NaN,
+            fraction: done / count,
+            detail: `blocks ${blocksBefore(done)} of ${blocks.length} done${record.converged ? '' : `; realisation ${record.index} NOT CONVERGED`}`,
+          });
         },
       }),
     );
@@ -137,7 +176,8 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
   const runInfo = { threads: run.threadsUsed, parallelOver: run.parallelOver, seconds };
   const records = total ? total.records : shardEntries.flatMap((e) => e.records);
   const notConverged = records.filter((r) => !r.converged).length;
-  const threadNote = `${run.threadsUsed} thread${run.threadsUsed > 1 ? 's' : ''}, parallel over ${run.parallelOver}`;
+  const fewer = run.threadsUsed < threads ? `: only ${toRun} realisation${toRun === 1 ? '' : 's'} to run side by side` : '';
+  const threadNote = `${run.threadsUsed} thread${run.threadsUsed > 1 ? 's' : ''}${fewer}, parallel over ${run.parallelOver}`;
 
   if (shard && shardFolder) {
     let commit;
@@ -155,7 +195,7 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
         ` in ${seconds.toFixed(1)} s (${threadNote})`,
       ...(notConverged > 0 ? [`  ${notConverged} realisation${notConverged > 1 ? 's' : ''} NOT CONVERGED (flagged in the merged result)`] : []),
       `  partial result in ${shardFolder.finalPath}`,
-      `  merge when every shard is done: tiercake merge ${collect} --out <folder>`,
+      `  merge when every shard is done: ${commandPrefix()} merge ${collect} --out <folder>`,
     ];
     process.stdout.write(`${lines.join('\n')}\n`);
     return notConverged > 0 ? ExitCode.notConverged : ExitCode.done;

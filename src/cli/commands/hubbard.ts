@@ -15,6 +15,10 @@ import type { CommandContext } from '../main.js';
 import { declare, readOptions, type RawOptions } from '../options.js';
 import { parseInteger, parseReal } from '../numberText.js';
 import { outputTarget, reportCommit } from '../outputOption.js';
+import { cautionsShownFor } from '../../output/outputMarker.js';
+
+/** Marker name of the laser-safety caution (outputMarker.ts `cautions`). */
+export const LASER_CAUTION_ID = 'laser-safety';
 
 const OPTIONS = ['species', 'massU', 'scatteringBohr', 'wavelengthNm', 'depth', 'axes', 'confinementHz', 'powerW', 'waistUm', 'out', 'force'] as const;
 
@@ -70,18 +74,24 @@ export async function runHubbard(raw: RawOptions): Promise<number> {
     throw err;
   }
   let text = formatHubbardTable(rows);
+  const caution = power ? `CAUTION: ${laserSafetyCaution}\n` : '';
   if (power) {
     text +=
       `\nDepth estimate for ${o.powerW} W in a ${o.waistUm} µm waist: ${power.depthEr.toFixed(2)} E_r ` +
-      `(${(power.depthHz / 1000).toFixed(2)} kHz), scattering rate ${power.scatteringRateAtMaximumPerS.toExponential(2)} /s.\n` +
-      `CAUTION: ${laserSafetyCaution}\n`;
+      `(${(power.depthHz / 1000).toFixed(2)} kHz), scattering rate ${power.scatteringRateAtMaximumPerS.toExponential(2)} /s.\n`;
   }
-  process.stdout.write(text);
+  // The laser caution goes with the depth estimate once per output folder: always into
+  // hubbard.txt and the folder's marker, on the terminal when the folder is new (or its
+  // marker does not record it) and on every run without --out (there is no folder to keep it).
+  const shownBefore = target !== null && target.existing.kind === 'owned' && cautionsShownFor(target.path).includes(LASER_CAUTION_ID);
+  process.stdout.write(text + (power && !shownBefore ? caution : ''));
   if (target) {
     const speciesName = typeof species === 'string' ? species : 'custom species';
     const finalRows = rows;
-    const { commit } = await writeOutputFolder(target, { command: 'hubbard', scenarioHash: null }, (folder) =>
-      writeHubbardFiles(finalRows, text, { speciesName, wavelengthNm: o.wavelengthNm as number }, folder),
+    const fileText = text + caution;
+    const identity = { command: 'hubbard', scenarioHash: null, ...(power ? { cautions: [LASER_CAUTION_ID] } : {}) };
+    const { commit } = await writeOutputFolder(target, identity, (folder) =>
+      writeHubbardFiles(finalRows, fileText, { speciesName, wavelengthNm: o.wavelengthNm as number }, folder),
     );
     reportCommit(commit);
     process.stdout.write(`written to ${target.path}\n`);

@@ -11,8 +11,12 @@ import { cameraPictureFiles } from '../../output/cameraOutputs.js';
 import { renderReportHtml } from '../../report/renderReport.js';
 import { buildSolveReport } from '../../report/solveReport.js';
 import { prepareScenario } from '../../pipeline/prepareScenario.js';
-import { solveScenario } from '../../pipeline/solveScenario.js';
 import { solvePictures } from '../../pipeline/solvePictures.js';
+import { solveWarnings, warningLine } from '../../pipeline/runWarnings.js';
+import { PARALLEL_MIN_SITES, solveScenario } from '../../pipeline/solveScenario.js';
+import { fractionOfAtoms } from '../../observables/readingWarnings.js';
+import { landscapeFileHashes } from '../../scenario/scenarioHash.js';
+import { commandPrefix } from '../invocation.js';
 import { scenarioHash } from '../../scenario/scenarioHash.js';
 import { ExitCode } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
@@ -40,13 +44,12 @@ export async function runSolveCommand(scenarioPath: string, raw: RawOptions): Pr
   const t0 = performance.now();
   const prepared = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
   const prepareSeconds = (performance.now() - t0) / 1000;
+  for (const note of prepared.overrideNotes) process.stderr.write(`tiercake: note: ${note}\n`);
   const outDir = resolve(o.out ?? `out/${prepared.scenario.name}`);
   const target = outputTarget(o.out ?? outDir, { force: o.force ?? false, inputs: [scenarioPath] });
   const checkpointDir = typeof o.resume === 'string' ? resolve(o.resume) : checkpointPath(outDir);
-  const resumeFrom = o.resume ? readCheckpoint(checkpointDir, prepared.scenario) : null;
+  const resumeFrom = o.resume ? readCheckpoint(checkpointDir, prepared.scenario, landscapeFileHashes(prepared.resolved)) : null;
   const progress = progressFor(o);
-  // Validity warnings of the laboratory model (shallow lattice, pseudo-potential, ...).
-  for (const w of prepared.resolved.laboratory?.warnings ?? []) process.stderr.write(`tiercake: warning: ${w}\n`);
 
   const artifacts = await whileInterruptible((interrupted) =>
     solveScenario(prepared, {
@@ -63,7 +66,7 @@ export async function runSolveCommand(scenarioPath: string, raw: RawOptions): Pr
     await writeCheckpoint(
       checkpointDir,
       {
-        scenarioHash: checkpointHash(artifacts.scenario),
+        scenarioHash: checkpointHash(artifacts.scenario, landscapeFileHashes(artifacts.resolved)),
         mu: outcome.solve.mu,
         temperature: outcome.temperature,
         nmax: outcome.model.nmax,
@@ -74,22 +77,30 @@ export async function runSolveCommand(scenarioPath: string, raw: RawOptions): Pr
       [scenarioPath],
     );
     progress.done();
-    const again = `tiercake solve ${scenarioPath} --resume${typeof o.resume === 'string' ? ` ${checkpointDir}` : ''}${o.out ? ` --out ${o.out}` : ''}`;
+    const again = `${commandPrefix()} solve ${scenarioPath} --resume${typeof o.resume === 'string' ? ` ${checkpointDir}` : ''}${o.out ? ` --out ${o.out}` : ''}`;
     process.stderr.write(`tiercake: interrupted after ${outcome.totalSweeps} sweeps; checkpoint written to ${checkpointDir}\n  continue with: ${again}\n`);
     return ExitCode.interrupted;
   }
-  const pictures = cameraPictureFiles(solvePictures(artifacts));
-  const { commit } = await writeOutputFolder(target, { command: 'solve', scenarioHash: scenarioHash(artifacts.scenario) }, (folder) => {
+  const pictureSet = solvePictures(artifacts);
+  const pictures = cameraPictureFiles(pictureSet);
+  const warnings = solveWarnings(artifacts, pictureSet.notices);
+  const { commit } = await writeOutputFolder(target, { command: 'solve', scenarioHash: scenarioHash(artifacts.scenario, 'whole', landscapeFileHashes(artifacts.resolved)) }, (folder) => {
     const createdIso = new Date().toISOString();
-    writeSolveFiles(artifacts, pictures, folder, (images, imaging) => renderReportHtml(buildSolveReport(artifacts, images, createdIso, imaging)));
+    writeSolveFiles(artifacts, pictures, folder, (images, imaging) => renderReportHtml(buildSolveReport(artifacts, images, createdIso, imaging, warnings)), warnings);
   });
   if (resumeFrom) removeCheckpoint(checkpointDir);
   progress.done();
   reportCommit(commit);
+  for (const w of warnings) process.stderr.write(`${warningLine(w)}\n`);
   const t = outcome.solve.totals;
+  const fraction = fractionOfAtoms(t.condensedAtoms, t.atoms);
+  const threadText =
+    artifacts.threadsUsed < artifacts.threadsRequested
+      ? `1 thread: ${artifacts.resolved.geometry.siteCount} sites are below the parallel threshold of ${PARALLEL_MIN_SITES} sites`
+      : `${artifacts.threadsUsed} thread${artifacts.threadsUsed > 1 ? 's' : ''}`;
   const lines = [
-    `${artifacts.scenario.name}: ${outcome.converged ? 'converged' : 'NOT CONVERGED'} after ${outcome.totalSweeps} sweeps (${artifacts.timings.solveSeconds.toFixed(2)} s, ${artifacts.threadsUsed} thread${artifacts.threadsUsed > 1 ? 's' : ''})`,
-    `  atoms ${t.atoms.toPrecision(8)}, condensate fraction ${(t.condensedAtoms / Math.max(t.atoms, 1e-300)).toFixed(4)}, mu = ${(outcome.solve.mu / artifacts.resolved.units.interaction).toPrecision(6)} U`,
+    `${artifacts.scenario.name}: ${outcome.converged ? 'converged' : 'NOT CONVERGED'} after ${outcome.totalSweeps} sweeps (${artifacts.timings.solveSeconds.toFixed(2)} s, ${threadText})`,
+    `  atoms ${t.atoms.toPrecision(8)}, condensate fraction ${fraction === null ? 'undefined (no atoms)' : fraction.toFixed(4)}, mu = ${(outcome.solve.mu / artifacts.resolved.units.interaction).toPrecision(6)} U`,
     `  shells: ${artifacts.shells.shells.map((s) => `n=${s.filling} (${s.sites} sites)`).join(', ') || 'none'}`,
     `  results in ${outDir}`,
   ];

@@ -20,15 +20,13 @@
 // the block being filled and the total, never all blocks at once.
 
 import { PhaseCode, phaseNames } from '../../observables/phaseCodes.js';
+import { chanMerge, welfordAdd, type RunningMoments } from '../../numerics/runningMoments.js';
 import type { BlockRange } from './blockPlan.js';
 import { binOf, type HistogramBins } from './histogramBins.js';
 import type { RealisationRecord, RealisationResult } from './solveRealisation.js';
 
-/** Running mean and sum of squared deviations per site. */
-export interface SiteMoments {
-  mean: Float64Array;
-  m2: Float64Array;
-}
+/** Running mean and sum of squared deviations per site (src/numerics/runningMoments.ts). */
+export type SiteMoments = RunningMoments;
 
 /** Histogram counts over the fixed bins, and values above the range. */
 export interface HistogramCounts {
@@ -91,16 +89,6 @@ export function blockComplete(partial: BlockPartial): boolean {
   return partial.count === partial.range.count;
 }
 
-function welfordAdd(m: SiteMoments, x: Float64Array, count: number): void {
-  const mean = m.mean;
-  const m2 = m.m2;
-  for (let i = 0; i < x.length; i++) {
-    const d = x[i] - mean[i];
-    mean[i] += d / count;
-    m2[i] += d * (x[i] - mean[i]);
-  }
-}
-
 /** Adds the next realisation of the block (realisation order is enforced). */
 export function addRealisation(partial: BlockPartial, result: RealisationResult, bins: HistogramBins): void {
   const expected = partial.range.first + partial.count;
@@ -130,19 +118,6 @@ export function addRealisation(partial: BlockPartial, result: RealisationResult,
     else ch.counts[kc] += 1;
   }
   partial.records.push(result.record);
-}
-
-function chanMerge(into: SiteMoments, intoCount: number, from: SiteMoments, fromCount: number): void {
-  const n = intoCount + fromCount;
-  const wFrom = fromCount / n;
-  const wCross = (intoCount * fromCount) / n;
-  const mean = into.mean;
-  const m2 = into.m2;
-  for (let i = 0; i < mean.length; i++) {
-    const d = from.mean[i] - mean[i];
-    mean[i] += d * wFrom;
-    m2[i] += from.m2[i] + d * d * wCross;
-  }
 }
 
 function addCounts(into: Float64Array, from: Float64Array): void {

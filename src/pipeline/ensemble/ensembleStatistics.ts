@@ -11,14 +11,9 @@
 
 import { phaseNames, type PhaseName } from '../../observables/phaseCodes.js';
 import type { EnsembleAccumulation } from './blockPartial.js';
+import { sampleSpread, scalarSummary, type ScalarSummary } from '../../numerics/runningMoments.js';
 
-export interface ScalarSummary {
-  mean: number;
-  /** sample standard deviation (0 for one realisation) */
-  spread: number;
-  min: number;
-  max: number;
-}
+export { scalarSummary, type ScalarSummary };
 
 export interface EnsembleStatistics {
   realisations: number;
@@ -49,30 +44,6 @@ export interface EnsembleStatistics {
   finiteTemperature: boolean;
 }
 
-export function scalarSummary(values: readonly number[]): ScalarSummary {
-  const n = values.length;
-  if (n === 0) return { mean: NaN, spread: NaN, min: NaN, max: NaN };
-  let sum = 0;
-  let min = Infinity;
-  let max = -Infinity;
-  for (const v of values) {
-    sum += v;
-    if (v < min) min = v;
-    if (v > max) max = v;
-  }
-  const mean = sum / n;
-  let ss = 0;
-  for (const v of values) ss += (v - mean) * (v - mean);
-  return { mean, spread: n > 1 ? Math.sqrt(ss / (n - 1)) : 0, min, max };
-}
-
-function spreadOf(m2: Float64Array, count: number): Float64Array {
-  const out = new Float64Array(m2.length);
-  if (count < 2) return out;
-  for (let i = 0; i < m2.length; i++) out[i] = Math.sqrt(m2[i] > 0 ? m2[i] / (count - 1) : 0);
-  return out;
-}
-
 export function ensembleStatistics(total: EnsembleAccumulation): EnsembleStatistics {
   const r = total.count;
   const records = total.records;
@@ -90,9 +61,9 @@ export function ensembleStatistics(total: EnsembleAccumulation): EnsembleStatist
   return {
     realisations: r,
     densityMean: Float64Array.from(total.density.mean),
-    densitySpread: spreadOf(total.density.m2, r),
+    densitySpread: sampleSpread(total.density.m2, r, 0),
     condensateMean: Float64Array.from(total.condensate.mean),
-    condensateSpread: spreadOf(total.condensate.m2, r),
+    condensateSpread: sampleSpread(total.condensate.m2, r, 0),
     phaseFraction,
     spanningRealisations: spanning,
     spanningFraction: p,

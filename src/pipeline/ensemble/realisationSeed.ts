@@ -11,12 +11,14 @@
 // - two ensembles with different S share no realisation (the seed text is hashed as a
 //   whole into the generator state, see src/lattice/seededRandom.ts).
 
-/** The seed of realisation `index` for the scenario seed `baseSeed`. */
+import { streamName } from '../../numerics/seededRandom.js';
+
+/** The seed of realisation `index` for the scenario seed `baseSeed` (the stream "baseSeed/index"). */
 export function realisationSeed(baseSeed: string, index: number): string {
   if (!Number.isInteger(index) || index < 0) {
     throw new RangeError(`realisationSeed index: expected a whole number >= 0, got ${index}`);
   }
-  return `${baseSeed}/${index}`;
+  return streamName(baseSeed, index);
 }
 
 /**

@@ -12,10 +12,12 @@ export interface RealisationTask {
   /** the scenario's own disorder seed; realisation r uses `${baseSeed}/${r}` */
   baseSeed: string;
   index: number;
+  /** folder of the scenario file (landscape files are relative to it) */
+  scenarioDirectory?: string;
 }
 
 export default async function runRealisationTask(task: RealisationTask): Promise<RealisationResult> {
-  const result = await solveRealisation(task.scenario, task.baseSeed, task.index);
+  const result = await solveRealisation(task.scenario, task.baseSeed, task.index, undefined, undefined, task.scenarioDirectory);
   const movable = {
     [Piscina.transferableSymbol]: [result.density.buffer, result.condensateDensity.buffer, result.phaseCodes.buffer],
     [Piscina.valueSymbol]: result,

@@ -55,6 +55,14 @@ export interface EnsembleRunOptions {
   onBlock: (partial: BlockPartial) => void;
   /** after each realisation has been added to its block */
   onRealisation?: (progress: { done: number; total: number; record: RealisationRecord }) => void;
+  /**
+   * During a realisation solved on this thread ('lattice', or one thread): after each sweep,
+   * with the realisation being solved and how many are done (worker threads report only
+   * finished realisations).
+   */
+  onSweep?: (progress: { index: number; done: number; total: number; sweep: number; residual: number; stage: string }) => void;
+  /** folder of the scenario file: landscape files are read relative to it */
+  scenarioDirectory?: string;
   /** polled between realisations and during sweeps; true stops the run */
   shouldStop?: () => boolean;
 }
@@ -120,7 +128,17 @@ export async function runEnsembleBlocks(options: EnsembleRunOptions): Promise<En
           stopped = true;
           break;
         }
-        const result = await solveRealisation(options.raw, options.baseSeed, index, makeExecutor, () => (stop() ? 'stop' : undefined));
+        const result = await solveRealisation(
+          options.raw,
+          options.baseSeed,
+          index,
+          makeExecutor,
+          (p) => {
+            options.onSweep?.({ index, done, total: order.length, sweep: p.totalSweeps, residual: p.change, stage: p.stage });
+            return stop() ? 'stop' : undefined;
+          },
+          options.scenarioDirectory,
+        );
         if (stop()) {
           stopped = true;
           break;
@@ -166,7 +184,12 @@ async function runInWorkers(
     while (next < order.length) {
       while (!stop() && launched < order.length && launched - next < windowSize) {
         const index = order[launched++];
-        const task = pool.run({ scenario: options.raw, baseSeed: options.baseSeed, index });
+        const task = pool.run({
+          scenario: options.raw,
+          baseSeed: options.baseSeed,
+          index,
+          ...(options.scenarioDirectory !== undefined ? { scenarioDirectory: options.scenarioDirectory } : {}),
+        });
         task.catch(() => {}); // awaited below in order; this only silences early rejections
         pending.set(index, task);
       }

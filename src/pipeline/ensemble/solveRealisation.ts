@@ -11,7 +11,8 @@ import type { Scenario } from '../../scenario/scenarioSchema.js';
 import { runLattice, type ExecutorFactory, type RunProgress } from '../../solver/runLattice.js';
 import { classifyOutcome, runRequestOf } from '../runRequest.js';
 import { createSweepExecutor } from '../../solver/sweepExecutor.js';
-import { siteFieldsOf } from '../../observables/siteFields.js';
+import { siteFieldsFrom } from '../../observables/siteFields.js';
+import { siteArraysOf } from '../../solver/siteArrays.js';
 import { defaultPhaseThresholds, type PhaseThresholds } from '../../observables/siteClassification.js';
 import { phaseNames } from '../../observables/phaseCodes.js';
 import { withRealisationSeed, realisationSeed } from './realisationSeed.js';
@@ -90,11 +91,13 @@ export async function solveRealisation(
   index: number,
   makeExecutor: ExecutorFactory = serialExecutor,
   observer?: (p: RunProgress) => void | 'stop',
+  /** folder of the scenario file: landscape files are read relative to it (as in `solve`) */
+  scenarioDirectory?: string,
 ): Promise<RealisationResult> {
   const scenario = realisationScenario(raw, baseSeed, index);
-  const resolved = resolveScenario(scenario);
+  const resolved = resolveScenario(scenario, scenarioDirectory !== undefined ? { scenarioDirectory } : {});
   const outcome = await runLattice(runRequestOf(resolved, observer), makeExecutor);
-  const fields = siteFieldsOf(outcome.state, outcome.compressibility);
+  const fields = siteFieldsFrom(siteArraysOf(outcome.state), outcome.compressibility);
   const classification = classifyOutcome(resolved, outcome, fields, false);
   const record: RealisationRecord = {
     index,

@@ -210,17 +210,26 @@ describe('.npy (NEP 1), header validated completely', () => {
   it('header faults are named: dtype, shape, keys, byte count', async () => {
     const v = testFrame();
     const cases: [Uint8Array, string, RegExp][] = [
-      [buildNpy('<f8', [height, width], v, { headerText: "{'descr': '<c16', 'fortran_order': False, 'shape': (6, 10), }" }), 'unsupported', /dtype '<c16' is not read/],
-      [buildNpy('<f8', [height, width], v, { headerText: "{'descr': '<f8', 'fortran_order': False, 'shape': (-6, 10), }" }), 'damaged', /must list non-negative integers/],
-      [buildNpy('<f8', [height, width], v, { headerText: "{'descr': '<f8', 'shape': (6, 10), }" }), 'damaged', /lacks fortran_order/],
-      [buildNpy('<f8', [height, width], v, { headerText: "{'descr': '<f8', 'fortran_order': 0, 'shape': (6, 10), }" }), 'damaged', /cannot be parsed/],
+      // The messages are those of the project's one .npy reader (src/formats/npy.ts).
+      [buildNpy('<f8', [height, width], v, { headerText: "{'descr': '<c16', 'fortran_order': False, 'shape': (6, 10), }" }), 'unsupported', /dtype "<c16" is not supported/],
+      [buildNpy('<f8', [height, width], v, { headerText: "{'descr': '<f8', 'fortran_order': False, 'shape': (-6, 10), }" }), 'damaged', /every axis length must be a non-negative integer/],
+      [buildNpy('<f8', [height, width], v, { headerText: "{'descr': '<f8', 'shape': (6, 10), }" }), 'damaged', /has no 'fortran_order'/],
+      [buildNpy('<f8', [height, width], v, { headerText: "{'descr': '<f8', 'fortran_order': 0, 'shape': (6, 10), }" }), 'damaged', /expected True or False/],
       [buildNpy('<f8', [height, width], v, { headerText: "{'descr': '<f8', 'fortran_order': False, 'shape': (6, 10), 'extra': True, }" }), 'damaged', /unknown key 'extra'/],
-      [buildNpy('<f8', [height, width + 1], v), 'truncated', /needs 528 data bytes, the file has 480 \(cut short\)/],
+      [buildNpy('<f8', [height, width + 1], v), 'truncated', /needs 528 data bytes, the file holds 480; the file is truncated/],
       [buildNpy('<f8', [height, width - 1], v), 'damaged', /extra bytes after the array/],
       [buildNpy('<f8', [width * height], v), 'not-an-image', /shape \(60\); expected \(rows, cols\)/],
     ];
     for (const [bytes, problem, pattern] of cases) await expectReadError(bytes, 'bad.npy', problem, pattern);
     expect(parseNpyHeader(buildNpy('<u2', [height, width], v), 'x.npy')).toMatchObject({ descr: '<u2', shape: [6, 10], fortranOrder: false, version: [1, 0] });
+    expect(() => parseNpyHeader(new Uint8Array([1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11]), 'x.npy')).toThrow(/^x\.npy: not a NumPy \.npy file/);
+    let problem = '';
+    try {
+      parseNpyHeader(new Uint8Array(11), 'x.npy');
+    } catch (e) {
+      problem = (e as FrameReadError).problem;
+    }
+    expect(problem).toBe('unknown-format');
   });
 });
 
