@@ -151,7 +151,7 @@ export const LANDSCAPE_AMPLITUDES: Record<string, readonly string[]> = {
 
 /** Keys that can never be ramped, with the reason. */
 const NOT_RAMPABLE: Array<[RegExp, string]> = [
-  [/^particles\./, 'the evolution is a closed system: the atom number is conserved and the chemical potential is only a phase (gauge); ramp the trap or the lattice instead'],
+  [/^particles\./, 'a closed system conserves N (mu is only a phase); ramp the trap or the lattice'],
   [/^temperature\./, 'the evolution starts from the T = 0 ground state and keeps a pure product state; temperature cannot be ramped'],
   [/^truncation\.|^solver\.|^phases\.|^profiles\.|^camera\.|^timeOfFlight\.|^lattice\.|^evolution\./, 'not a parameter of the Hamiltonian'],
 ];
