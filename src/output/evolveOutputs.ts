@@ -18,7 +18,7 @@ import type { PlanarField } from '../imaging/planarField.js';
 import type { EvolveArtifacts } from '../pipeline/evolveScenario.js';
 import type { EvolvePicture } from '../pipeline/evolvePictures.js';
 import type { OutputFolder } from './outputFolder.js';
-import { pictureFiles, colourPictureFigure } from './pictureFiles.js';
+import { pictureFiles } from './pictureFiles.js';
 import { figureImage, jsonReplacer, type WrittenImage } from './solveOutputs.js';
 import { toolVersion } from './toolVersion.js';
 
@@ -309,17 +309,25 @@ export function animationFrameSvgs(a: EvolveArtifacts): Array<{ svg: string; lab
       });
     const panels = [map(f.density, `density${column}`, densityMax), map(f.condensate, `condensate |phi|²${column}`, condensateMax, 'glacier')];
     if (f.farField) {
+      // interference peaks are a few pixels wide and fade as the cloud dephases: a log scale
+      // over three decades, shared by all frames, keeps them and the background visible
+      const p = f.farField.picture;
+      const unit = f.farField.lengthUnit.short;
+      const note = f.farField.axisNote ?? '';
       panels.push(
-        colourPictureFigure(f.farField.picture, {
-          title: f.farField.kind === 'time_of_flight' ? 'time of flight' : 'momentum distribution',
-          quantity: f.farField.quantity,
-          axisNames: f.farField.axisNames,
-          lengthUnit: f.farField.lengthUnit,
+        renderFieldMapSvg({
+          values: p.values,
+          nx: p.nx,
+          ny: p.ny,
+          title: f.farField.kind === 'time_of_flight' ? 'time of flight (log scale)' : 'momentum distribution (log scale)',
+          xAxis: { label: `${f.farField.axisNames[0]}${note} (${unit})`, origin: p.xCentresUm[0], step: p.pixelUm },
+          yAxis: { label: `${f.farField.axisNames[1]}${note} (${unit})`, origin: p.yCentresUm[0], step: p.pixelUm },
           colorMap: 'glacier',
-          valueRange: { min: 0, max: farMax },
+          colorScale: 'log',
+          valueRange: { min: farMax * 1e-3, max: farMax },
+          colorBarLabel: f.farField.quantity,
           minImagePx: 220,
           maxImagePx: 260,
-          ...(f.farField.axisNote !== undefined ? { axisNote: f.farField.axisNote } : {}),
         }),
       );
     }
