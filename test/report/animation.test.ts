@@ -37,7 +37,9 @@ describe('report animation', () => {
       page.on('pageerror', (e) => problems.push(e.message));
       await page.goto(pathToFileURL(file).href);
       const visible = (): Promise<number[]> =>
-        page.evaluate(() => [...document.querySelectorAll('.anim-frame')].map((f, k) => (getComputedStyle(f).visibility === 'visible' ? k : -1)).filter((k) => k >= 0));
+        page
+          .locator('.anim-frame')
+          .evaluateAll((els) => els.map((el: any, k) => (el.ownerDocument.defaultView.getComputedStyle(el).visibility === 'visible' ? k : -1)).filter((k) => k >= 0));
       expect(await visible()).toEqual([0]);
       await page.locator('.anim-controls label', { hasText: /^3$/ }).click();
       expect(await visible()).toEqual([2]);
