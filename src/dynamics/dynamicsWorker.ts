@@ -132,6 +132,9 @@ let seen = Atomics.load(control, Control.GENERATION);
 // synchronous traffic, read with receiveMessageOnPort on both sides.
 parentPort?.postMessage({ type: 'ready', index });
 for (;;) {
+  // Passes come back to back inside a step: a short spin catches the next one without a
+  // sleep and wake-up; between steps and outputs the worker sleeps in Atomics.wait.
+  for (let k = 0; k < 4000 && Atomics.load(control, Control.GENERATION) === seen; k++);
   Atomics.wait(control, Control.GENERATION, seen);
   const generation = Atomics.load(control, Control.GENERATION);
   if (generation === seen) continue;

@@ -118,7 +118,7 @@ describe('tiercake evolve', () => {
     for (let k = kHalf; k < at(3 * Math.PI); k++) if (condensed[k] > condensed[best]) best = k;
     const [a, b, c] = [condensed[best - 1], condensed[best], condensed[best + 1]];
     const peak = time[best] + (0.5 * step * (a - c)) / (a - 2 * b + c);
-    expect(Math.abs(peak - 2 * Math.PI)).toBeLessThan(1e-3);
+    expect(Math.abs(peak - 2 * Math.PI)).toBeLessThan(1e-8); // measured 5e-12: the samples are symmetric about the revival
     // atoms conserved, J = 0 recorded, quench in the summary
     const atoms = csv.column('atoms');
     expect(Math.max(...atoms.map((n) => Math.abs(n - atoms[0]) / atoms[0]))).toBeLessThan(1e-9);
