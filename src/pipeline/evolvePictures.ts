@@ -19,7 +19,7 @@ import { cameraOptics, cameraPicture, type CameraOptics, type CloudForImaging } 
 import { interferenceVisibility } from '../imaging/interferenceVisibility.js';
 import { timeOfFlightImage } from '../imaging/timeOfFlight.js';
 import { gaussianWannierEnvelope, type MomentumEnvelope } from '../imaging/wannierEnvelope.js';
-import { latticeSites, micrometres, type LengthUnit, type PixelPicture } from '../imaging/pixelPicture.js';
+import { micrometres, type LengthUnit, type PixelPicture } from '../imaging/pixelPicture.js';
 import { momentumStructureFactor, type MomentumStructureFactor } from '../observables/momentumStructureFactor.js';
 import { defaultTimeOfFlightSettings } from '../scenario/imagingSchema.js';
 import type { ResolvedScenario } from '../scenario/resolveScenario.js';
@@ -150,4 +150,3 @@ function momentumPicture(structure: MomentumStructureFactor): PixelPicture {
   return { values, nx: size, ny: size, pixelUm: 1 / m, xCentresUm: centres, yCentresUm: centres.slice() };
 }
 
-export { latticeSites };
