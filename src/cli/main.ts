@@ -19,6 +19,7 @@ import { registerKeys } from './commands/keys.js';
 import { registerEnsemble } from './commands/ensemble.js';
 import { registerMerge } from './commands/merge.js';
 import { parseKernelChoice, setDefaultKernelChoice } from '../solver/kernel/sweepKernels.js';
+import { registerEvolve } from './commands/evolve.js';
 
 /** Commands set this when they finish with a non-zero status without throwing. */
 export interface CommandContext {
@@ -44,6 +45,7 @@ export function buildProgram(context: CommandContext): Command {
   registerKeys(program, context);
   registerEnsemble(program, context);
   registerMerge(program, context);
+  registerEvolve(program, context);
   return program;
 }
 

@@ -108,6 +108,12 @@ export const OPTION_TABLE = {
     kind: 'choice',
     values: ['auto', 'realisations', 'lattice'],
   },
+  // evolve
+  modulationFrequencies: {
+    flags: '--modulation-frequencies <from:to:count | f>',
+    help: 'modulation spectrum of the evolved cloud at these frequencies h f, in the energy unit of the scenario (replaces evolution.spectrum frequencies)',
+    kind: 'text',
+  },
   binsPerAtom: { flags: '--bins-per-atom <b>', help: `histogram bins per atom per site (default ${DEFAULT_BINS_PER_ATOM})`, kind: 'integer', range: { min: 1, max: 10_000 } },
 } as const satisfies Record<string, Spec>;
 

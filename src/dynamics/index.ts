@@ -19,3 +19,4 @@ export * from './staticGround.js';
 export * from './adiabaticity.js';
 export * from './modulationSpectrum.js';
 export * from './oscillationFit.js';
+export * from './parallelRunner.js';

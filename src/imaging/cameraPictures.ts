@@ -68,7 +68,7 @@ export interface CameraPictureSet {
   /** summary.json "imaging" block without the per-picture list (the writer adds it with the file names) */
   summary: {
     /** 'um' or 'sites': the unit of every neutral length key (pixelSize, psfSigma, ...) */
-    lengthUnit: 'um' | 'sites';
+    lengthUnit: LengthUnit['code'];
     lengthUnitNote: string;
     camera: Record<string, unknown>;
     timeOfFlight: Record<string, unknown>;

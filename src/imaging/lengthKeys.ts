@@ -1,6 +1,7 @@
 // Lengths in metadata that cannot be read two ways (issue "units that cannot be misread"):
 // a length is written under a neutral key (`pixelSize`, `firstPixelCentre`, ...) beside
-// `lengthUnit`, "um" (micrometres, laboratory mode) or "sites" (lattice spacings,
+// `lengthUnit`, "um" (micrometres, laboratory mode), "lattice-momentum" (momentum pictures
+// in units of 2 hbar k_L) or "sites" (lattice spacings,
 // dimensionless mode, where no lattice spacing is known). Only when the length really is in
 // micrometres is it also written under the old `...Um` key, so readers of earlier files keep
 // working and a key ending in Um always holds micrometres.
@@ -13,6 +14,6 @@ export function lengthEntry<T>(key: string, umKey: string, value: T, unit: Lengt
 }
 
 /** The unit entries that go with neutral length keys. */
-export function lengthUnitEntries(unit: LengthUnit): { lengthUnit: 'um' | 'sites'; lengthUnitNote: string } {
+export function lengthUnitEntries(unit: LengthUnit): { lengthUnit: LengthUnit['code']; lengthUnitNote: string } {
   return { lengthUnit: unit.code, lengthUnitNote: unit.note };
 }

@@ -15,8 +15,11 @@ export interface PixelPicture extends PlanarField {
 
 /** How lengths are labelled: micrometres, or lattice spacings in dimensionless mode. */
 export interface LengthUnit {
-  /** Code written in metadata beside neutral keys (pixelSize, ...): 'um' or 'sites' (as the scenario's landscape lengthUnit). */
-  code: 'um' | 'sites';
+  /**
+   * Code written in metadata beside neutral keys (pixelSize, ...): 'um' or 'sites' (as the
+   * scenario's landscape lengthUnit), or 'lattice-momentum' for momentum pictures in units of 2 hbar k_L.
+   */
+  code: 'um' | 'sites' | 'lattice-momentum';
   /** Short unit for axis labels, e.g. 'µm' or 'sites'. */
   short: string;
   /** Sentence for sidecars and summaries. */

@@ -9,6 +9,7 @@ import { escapeMarkup } from '../figures/escapeMarkup.js';
 import { formatNumber, formatScientific } from '../figures/formatNumber.js';
 import { FIGURE_COLORS } from '../figures/figurePalette.js';
 import type {
+  AnimationBlock,
   CautionItem,
   CellValue,
   FigureBlock,
@@ -263,6 +264,59 @@ function residualHistoryHtml(block: ResidualHistoryBlock, idPrefix: string): str
   return plotFigure(svg, block.caption);
 }
 
+/**
+ * Frames stacked in one grid cell. A radio button per frame shows that frame (sibling
+ * selectors); the play switch runs one CSS animation per frame, each visible for its slot of
+ * the cycle (negative delays put frame k at k x frameMs into the cycle). No script, so the
+ * page's Content-Security-Policy stays as strict as ever.
+ */
+function animationHtml(block: AnimationBlock, idPrefix: string): string {
+  const n = block.frames.length;
+  if (n === 0) throw new RangeError('frames: expected at least one frame');
+  for (const f of block.frames) {
+    if (!/^<svg\b/.test(f.svg) || !f.svg.trimEnd().endsWith('</svg>')) throw new RangeError('frames: expected one <svg> element per frame');
+  }
+  const frameMs = block.frameMs ?? 400;
+  if (!(frameMs > 0) || !Number.isFinite(frameMs)) throw new RangeError(`frameMs: expected a positive number of milliseconds, got ${frameMs}`);
+  const id = `anim-${idPrefix}`;
+  const cycle = n * frameMs;
+  const slot = 100 / n;
+  const rules = [
+    `#${id} .anim-frames { display: grid; }`,
+    `#${id} .anim-frame { grid-area: 1 / 1; visibility: hidden; }`,
+    `#${id} .anim-frame svg { display: block; max-width: 100%; height: auto; }`,
+    `#${id} .anim-controls { display: flex; flex-wrap: wrap; gap: 4px; align-items: center; margin: 6px 0; font-size: 13px; }`,
+    `#${id} .anim-controls label { cursor: pointer; padding: 1px 6px; border: 1px solid var(--rule); border-radius: 3px; }`,
+    `#${id} input { position: absolute; opacity: 0; width: 1px; height: 1px; }`,
+    `#${id} .anim-play { font-weight: 600; }`,
+    `#${id} .anim-time { margin: 2px 0 4px; font-size: 14px; font-weight: 600; font-variant-numeric: tabular-nums; }`,
+    `#${id} input.anim-play-switch:checked ~ .anim-controls .anim-play { background: var(--ok-soft); }`,
+    `@keyframes ${id}-show { 0% { visibility: visible; } ${slot.toFixed(4)}% { visibility: hidden; } 100% { visibility: hidden; } }`,
+  ];
+  for (let k = 0; k < n; k++) {
+    rules.push(`#${id} input.anim-pick-${k}:checked ~ .anim-frames .anim-frame-${k} { visibility: visible; }`);
+    rules.push(`#${id} input.anim-pick-${k}:checked ~ .anim-controls .anim-label-${k} { background: var(--ok-soft); }`);
+    const delay = -(((n - k) % n) * frameMs);
+    rules.push(`#${id} input.anim-play-switch:checked ~ .anim-frames .anim-frame-${k} { animation: ${id}-show ${cycle}ms step-end ${delay}ms infinite; }`);
+  }
+  const inputs = [
+    `<input type="checkbox" class="anim-play-switch" id="${id}-play">`,
+    ...block.frames.map((_, k) => `<input type="radio" name="${id}" class="anim-pick-${k}" id="${id}-${k}"${k === 0 ? ' checked' : ''}>`),
+  ].join('');
+  const controls =
+    `<div class="anim-controls"><label class="anim-play" for="${id}-play">play / pause</label>` +
+    block.frames.map((f, k) => `<label class="anim-label-${k}" for="${id}-${k}" title="${escapeMarkup(f.label)}">${k + 1}</label>`).join('') +
+    '</div>';
+  const frames =
+    '<div class="anim-frames">' +
+    block.frames
+      .map((f, k) => `<div class="anim-frame anim-frame-${k}" role="img" aria-label="${escapeMarkup(f.label)}"><p class="anim-time">${escapeMarkup(`${k + 1}/${n}: ${f.label}`)}</p>${inlineSvg(f.svg)}</div>`)
+      .join('') +
+    '</div>';
+  const cap = block.caption ? `<figcaption>${escapeMarkup(block.caption)}</figcaption>` : '';
+  return `<figure class="block animation" id="${id}"><style>${rules.join('\n')}</style>${inputs}${controls}${frames}${cap}</figure>`;
+}
+
 function cautionHtml(items: (CautionItem | string)[]): string {
   const list = items
     .map((item) =>
@@ -298,6 +352,8 @@ function blockHtml(block: ReportBlock, idPrefix: string): string {
     }
     case 'residualHistory':
       return residualHistoryHtml(block, idPrefix);
+    case 'animation':
+      return animationHtml(block, idPrefix);
     default: {
       const unknown: { kind?: unknown } = block;
       throw new RangeError(`unknown block kind '${String(unknown.kind)}'`);

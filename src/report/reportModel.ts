@@ -44,7 +44,8 @@ export type ReportBlock =
   | HistogramBlock
   | CautionListBlock
   | CodeBlock
-  | ResidualHistoryBlock;
+  | ResidualHistoryBlock
+  | AnimationBlock;
 
 export interface ParagraphBlock {
   kind: 'paragraph';
@@ -141,5 +142,18 @@ export interface ResidualHistoryBlock {
   tolerance?: number;
   /** Name of the residual, e.g. 'max |delta phi|'. */
   residualLabel?: string;
+  caption?: string;
+}
+
+/**
+ * A sequence of figures shown one at a time (e.g. the frames of an evolution): a row of
+ * frame buttons steps through them and a play switch cycles them, in CSS alone (no script).
+ */
+export interface AnimationBlock {
+  kind: 'animation';
+  /** One `<svg>` element per frame from a src/figures builder, and its label (e.g. 't = 1.5 ms'). */
+  frames: Array<{ svg: string; label: string }>;
+  /** Display time of one frame while playing, milliseconds (default 400). */
+  frameMs?: number;
   caption?: string;
 }

@@ -63,6 +63,8 @@ function walk(node: JsonSchemaNode, prefix: string, rows: Row[]): void {
     if (nested) walk(child, path, rows);
     // A list of tagged groups (the landscape terms): the keys of each alternative, marked with its tag.
     const items = child.type === 'array' ? child.items : undefined;
+    // A list of plain groups (evolution.ramps): the keys of its entries.
+    if (items?.properties) walk(items, `${path}[i]`, rows);
     const alternatives = [...(items?.anyOf ?? []), ...((items as { oneOf?: JsonSchemaNode[] } | undefined)?.oneOf ?? [])].filter((a) => a.properties);
     for (const alt of alternatives) {
       const tag = Object.values(alt.properties ?? {}).map((p) => (p as { const?: unknown }).const).find((c) => c !== undefined);

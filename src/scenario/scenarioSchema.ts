@@ -6,6 +6,7 @@
 import * as z from 'zod';
 import { CameraSchema, imagingModeIssues, TimeOfFlightSchema } from './imagingSchema.js';
 import { LandscapeSchema, landscapeIssues } from './landscapeSchema.js';
+import { EvolutionSchema, evolutionIssues } from './evolutionSchema.js';
 
 const finite = (): z.ZodNumber => z.number();
 const positive = (): z.ZodNumber => z.number().positive();
@@ -188,6 +189,7 @@ export const ScenarioSchema = z
     profiles: ProfilesSchema.prefault({}),
     camera: CameraSchema.optional(),
     timeOfFlight: TimeOfFlightSchema.optional(),
+    evolution: EvolutionSchema.optional(),
   })
   .superRefine((s, ctx) => {
     const issue = (path: PropertyKey[], message: string): void => ctx.addIssue({ code: 'custom', path, message });
@@ -293,6 +295,19 @@ export const ScenarioSchema = z
       dims,
       laboratory: s.laboratory !== undefined,
       envelopeVariesHubbard: s.laboratory?.envelopeVariesHubbard === true,
+    })) {
+      issue(path, message);
+    }
+    for (const [path, message] of evolutionIssues(s.evolution, {
+      dims,
+      laboratory: s.laboratory !== undefined,
+      has: (key) =>
+        key === 'trap' ? s.trap !== undefined : key === 'disorder.width' ? s.disorder?.kind === 'box' : key === 'disorder.meanStrength' ? s.disorder?.kind === 'speckle' : false,
+      landscape: (s.landscape ?? []).map((t) => ({
+        kind: t.kind,
+        combined: t.kind === 'superlattice' && t.tunnelling === 'combined',
+        present: (key: string) => (t as Record<string, unknown>)[key] !== undefined,
+      })),
     })) {
       issue(path, message);
     }

@@ -162,6 +162,7 @@ interface HostileCase {
 }
 
 const solve = (...args: string[]): string[] => ['solve', 'scenario.json', '--threads', '1', '--quiet', ...args];
+const evolve = (...args: string[]): string[] => ['evolve', 'scenario.json', '--threads', '1', '--quiet', '--set', 'evolution={"duration":1}', ...args];
 const compare = (image: string, ...args: string[]): string[] => ['compare', 'scenario.json', '--image', `frames/${image}`, '--pixel-um', '1', '--out', 'cmp', '--threads', '1', '--quiet', ...args];
 const disorderScenario = JSON.stringify({
   name: 'hostile-ensemble',
@@ -241,6 +242,12 @@ const cases: HostileCase[] = [
   { title: 'a .npy of complex numbers', argv: compare('complex.npy'), newOut: 'cmp', names: /complex\.npy: dtype "<c16" is not supported/ },
   { title: 'a .npy with a broken header dict', argv: compare('broken-dict.npy'), newOut: 'cmp', names: /broken-dict\.npy: the header dict is malformed/ },
   { title: 'a .npy header with an unknown key', argv: compare('extra-key.npy'), newOut: 'cmp', names: /extra-key\.npy: the header dict has the unknown key 'x'/ },
+  // evolve (issue 18): the same folder rules, its own option and section checks
+  { title: 'evolve --out names a folder of unrelated files', argv: evolve('--out', 'thesis'), names: /--out thesis: the folder exists and was not written by tiercake.*--force/ },
+  { title: 'evolve --modulation-frequencies 0x1:2:3', argv: evolve('--modulation-frequencies', '0x1:2:3', '--out', 'new'), newOut: 'new', names: /--modulation-frequencies \(from\): expected .*got "0x1"/ },
+  { title: 'evolve: a ramp of the chemical potential', argv: evolve('--set', 'evolution.ramps=[{"path":"particles.chemicalPotential","points":[[0,1]]}]', '--out', 'new'), newOut: 'new', names: /evolution\.ramps\[0\]\.path: particles\.chemicalPotential cannot be ramped: a closed system conserves N/ },
+  { title: 'evolve: a scenario without an evolution section', argv: ['evolve', 'scenario.json', '--quiet', '--out', 'new'], newOut: 'new', names: /evolution: scenario\.json has no "evolution" section/ },
+  { title: 'evolve: a thermal start', argv: evolve('--set', 'temperature.kT=0.05', '--out', 'new'), newOut: 'new', names: /temperature: evolve starts from the T = 0 ground state; a thermal start is not supported/ },
   // --- were internal errors ---------------------------------------------------------
   { title: '--out under a regular file', argv: solve('--out', 'results.txt/run1'), names: /--out results\.txt\/run1: lies under .*results\.txt, which is a file, not a folder/ },
   { title: '--out under /dev/null', argv: solve('--out', '/dev/null/run1'), names: /--out \/dev\/null\/run1: lies under \/dev\/null, which is a device, not a folder/, child: true },

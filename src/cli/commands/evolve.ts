@@ -1,0 +1,128 @@
+// `tiercake evolve SCENARIO`: time evolution of the scenario's ground state under the ramps,
+// modulation and spectrum of its `evolution` section. Options -> prepareScenario ->
+// evolveScenario (src/pipeline) -> files in an output folder that appears complete or not at
+// all -> exit code (0 done, 3 the integrator failed or the start did not converge: results
+// written and flagged, 130 interrupted: nothing written).
+
+import type { Command } from 'commander';
+import { dirname, resolve } from 'node:path';
+import { writeOutputFolder } from '../../output/outputFolder.js';
+import { writeEvolveFiles } from '../../output/evolveOutputs.js';
+import { renderReportHtml } from '../../report/renderReport.js';
+import { buildEvolveReport } from '../../report/evolveReport.js';
+import { prepareScenario } from '../../pipeline/prepareScenario.js';
+import { evolveScenario, type EvolveProgress } from '../../pipeline/evolveScenario.js';
+import { EvolutionInterrupted } from '../../pipeline/interruptibleRunner.js';
+import { scenarioHash } from '../../scenario/scenarioHash.js';
+import { ExitCode, InputError } from '../../scenario/inputError.js';
+import type { CommandContext } from '../main.js';
+import { declare, readOptions, type RawOptions } from '../options.js';
+import { parseInteger, parseReal } from '../numberText.js';
+import { defaultThreads, memoryLimitBytes } from '../machine.js';
+import { progressFor, type ProgressReporter } from '../progress.js';
+import { whileInterruptible } from '../signals.js';
+import { outputTarget, reportCommit } from '../outputOption.js';
+
+const OPTIONS = ['out', 'force', 'set', 'threads', 'quiet', 'jsonProgress', 'modulationFrequencies'] as const;
+
+export function registerEvolve(program: Command, context: CommandContext): void {
+  const command = program
+    .command('evolve')
+    .description('evolve the ground state under the ramps and modulation of the scenario\'s "evolution" section; write evolution.csv, snapshots, a verdict and report.html')
+    .argument('<scenario>', 'scenario file (JSON) with an "evolution" section');
+  declare(command, OPTIONS, { out: { help: 'output folder (default: out/<scenario name>-evolve)' } }).action(async (scenarioPath: string, options: RawOptions) => {
+    context.exitCode = await runEvolveCommand(scenarioPath, options);
+  });
+}
+
+const frequencyRange = { min: 0, minOpen: true, what: 'a modulation frequency h f in the energy unit' } as const;
+
+/** '--modulation-frequencies 0.5:1.5:21' or a single value. */
+export function parseModulationFrequencies(text: string): number[] {
+  const parts = text.split(':');
+  if (parts.length === 1) return [parseReal(parts[0], '--modulation-frequencies', frequencyRange)];
+  if (parts.length !== 3) throw new InputError(`--modulation-frequencies: expected from:to:count or one frequency, got ${JSON.stringify(text)}`);
+  const from = parseReal(parts[0], '--modulation-frequencies (from)', frequencyRange);
+  const to = parseReal(parts[1], '--modulation-frequencies (to)', frequencyRange);
+  const count = parseInteger(parts[2], '--modulation-frequencies (count)', { min: 1, max: 2000 });
+  if (!(to >= from)) throw new InputError(`--modulation-frequencies: expected from <= to, got ${from} and ${to}`);
+  if (count === 1 && to !== from) throw new InputError('--modulation-frequencies: one frequency needs from = to (or give it alone)');
+  return Array.from({ length: count }, (_, k) => (count === 1 ? from : from + ((to - from) * k) / (count - 1)));
+}
+
+function evolveObserver(progress: ProgressReporter): (p: EvolveProgress) => void {
+  let last = 0;
+  return (p) => {
+    // the evolution reports often (between output times too): at most five lines a second
+    const now = Date.now();
+    if (p.stage === 'evolve' && now - last < 200) return;
+    if (p.stage === 'evolve') last = now;
+    if (p.solver) {
+      progress.update({ stage: p.stage === 'start' ? 'start state' : 'reference state', sweep: p.solver.totalSweeps, residual: p.solver.change, atoms: p.solver.atoms, mu: p.solver.mu });
+    } else if (p.stage === 'evolve') {
+      progress.update({ stage: 'evolving', sweep: 0, residual: NaN, fraction: p.total > 0 ? p.done / p.total : 1, detail: `t = ${p.done.toPrecision(4)} of ${p.total.toPrecision(4)}, ${p.detail ?? ''}` });
+    } else {
+      progress.update({ stage: 'spectrum', sweep: 0, residual: NaN, fraction: p.done / p.total, detail: `${p.done} of ${p.total} frequencies` });
+    }
+  };
+}
+
+export async function runEvolveCommand(scenarioPath: string, raw: RawOptions): Promise<number> {
+  const o = readOptions(raw, OPTIONS);
+  const threads = o.threads ?? defaultThreads();
+  const modulationFrequencies = o.modulationFrequencies !== undefined ? parseModulationFrequencies(o.modulationFrequencies) : undefined;
+  const prepared = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
+  if (!prepared.scenario.evolution) {
+    throw new InputError(`evolution: ${scenarioPath} has no "evolution" section; add one with at least "duration" (and "ramps"), e.g. --set 'evolution={"duration": 10}'`);
+  }
+  const outDir = resolve(o.out ?? `out/${prepared.scenario.name}-evolve`);
+  const target = outputTarget(o.out ?? outDir, { force: o.force ?? false, inputs: [scenarioPath] });
+  const progress = progressFor(o);
+  for (const w of prepared.resolved.laboratory?.warnings ?? []) process.stderr.write(`tiercake: warning: ${w}\n`);
+  let artifacts;
+  try {
+    artifacts = await whileInterruptible((interrupted) =>
+      evolveScenario(prepared, {
+        threads,
+        ...(modulationFrequencies ? { modulationFrequencies } : {}),
+        observer: evolveObserver(progress),
+        shouldStop: interrupted,
+        pause: () => new Promise<void>((done) => setImmediate(done)),
+        clock: () => performance.now(),
+        memoryLimitBytes: memoryLimitBytes(),
+        scenarioDirectory: dirname(scenarioPath),
+      }),
+    );
+  } catch (err) {
+    if (err instanceof EvolutionInterrupted) {
+      progress.done();
+      process.stderr.write('tiercake: interrupted; nothing was written (an evolution is not checkpointed: run it again)\n');
+      return ExitCode.interrupted;
+    }
+    throw err;
+  }
+  for (const w of artifacts.warnings) process.stderr.write(`tiercake: warning: [${w.code}] ${w.message}\n`);
+  const a = artifacts;
+  const { commit } = await writeOutputFolder(target, { command: 'evolve', scenarioHash: scenarioHash(a.prepared.scenario) }, (folder) => {
+    const createdIso = new Date().toISOString();
+    writeEvolveFiles(a, folder, (images, frames) => renderReportHtml(buildEvolveReport(a, images, frames, createdIso)));
+  });
+  progress.done();
+  reportCommit(commit);
+  const s = a.series;
+  const last = s.time.length - 1;
+  const v = a.verdict;
+  const lines = [
+    `${a.prepared.scenario.name}: evolution ${a.status === 'done' ? 'done' : 'FAILED'} to t = ${a.result.time} ${a.plan.timeUnit}: ${a.result.statistics.steps} steps, ${a.result.statistics.rejectedSteps} rejected (${a.timings.evolveSeconds.toFixed(2)} s, ${a.threadsUsed} thread${a.threadsUsed > 1 ? 's' : ''})`,
+    `  atoms ${s.atoms[0].toPrecision(8)} -> ${s.atoms[last].toPrecision(8)}, condensed ${s.condensedAtoms[0].toPrecision(5)} -> ${s.condensedAtoms[last].toPrecision(5)}, visibility ${s.visibility[0].toFixed(3)} -> ${s.visibility[last].toFixed(3)}`,
+    v
+      ? `  verdict: ${v.adiabaticOverall ? 'adiabatic' : 'NOT adiabatic'}; excess energy ${v.excessEnergyPerAtomInScale.toPrecision(3)} U per atom (threshold ${v.excessEnergyThresholdU} U); ` +
+        `excess defects per shell site ${v.shells.map((sh) => `n=${sh.filling}: ${sh.excessDefectsPerSite.toPrecision(3)}`).join(', ') || 'no shells'}`
+      : '  verdict: none (the evolution did not reach its end)',
+    ...(a.plan.quenches.length > 0 ? [`  quench at t = 0: ${a.plan.quenches.map((q) => q.path).join(', ')}`] : []),
+    ...(a.spectrum ? [`  modulation spectrum: ${a.spectrum.points.length} frequencies in spectrum.csv`] : []),
+    `  results in ${outDir}`,
+  ];
+  process.stdout.write(`${lines.join('\n')}\n`);
+  return a.trustworthy ? ExitCode.done : ExitCode.notConverged;
+}
