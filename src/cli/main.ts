@@ -17,6 +17,7 @@ import { registerCompare } from './commands/compare.js';
 import { registerKeys } from './commands/keys.js';
 import { registerEnsemble } from './commands/ensemble.js';
 import { registerMerge } from './commands/merge.js';
+import { registerScan } from './commands/scan.js';
 
 /** Commands set this when they finish with a non-zero status without throwing. */
 export interface CommandContext {
@@ -40,6 +41,7 @@ export function buildProgram(context: CommandContext): Command {
   registerKeys(program, context);
   registerEnsemble(program, context);
   registerMerge(program, context);
+  registerScan(program, context);
   return program;
 }
 
