@@ -33,6 +33,8 @@ import { chainPoints, pointCoordinates, pointValues, type ScanPlan } from './sca
 import { scenarioOfPoint, type DensityHold } from './scanPoint.js';
 import { scanRowOf, type ScanRow } from './scanRow.js';
 
+const yieldToEventLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
+
 /** Smallest phi a warm start begins with (see the file header). */
 export const WARM_PHI_FLOOR = 0.01;
 /** Largest extrapolation of the predictor, in steps of the last two points. */
@@ -183,6 +185,7 @@ export async function runScan(options: RunScanOptions): Promise<ScanRunSummary> 
     const solved = [...before];
     for (let position = start; position < points.length; position++) {
       const point = points[position];
+      await yieldToEventLoop(); // lets signal handlers run between points (a one-thread solve never yields)
       if (options.shouldStop?.()) {
         summary.stopped = true;
         return summary;
