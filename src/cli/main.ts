@@ -18,6 +18,8 @@ import { registerKeys } from './commands/keys.js';
 import { registerEnsemble } from './commands/ensemble.js';
 import { registerMerge } from './commands/merge.js';
 import { registerScan } from './commands/scan.js';
+import { registerSubmit } from './commands/submit.js';
+import { registerProgress } from './commands/progress.js';
 
 /** Commands set this when they finish with a non-zero status without throwing. */
 export interface CommandContext {
@@ -42,6 +44,8 @@ export function buildProgram(context: CommandContext): Command {
   registerEnsemble(program, context);
   registerMerge(program, context);
   registerScan(program, context);
+  registerSubmit(program, context);
+  registerProgress(program, context);
   return program;
 }
 
