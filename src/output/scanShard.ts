@@ -124,7 +124,7 @@ export function checkScanShardSet(shards: readonly LoadedScanShard[]): { plan: S
   const checks: Array<{ what: string; of: (s: LoadedScanShard) => unknown; fix: string }> = [
     { what: 'tiercake version', of: (s) => s.header.tool.version, fix: 'run every shard with the same tiercake version' },
     { what: 'scenario (SHA-256 of the scenario as run)', of: (s) => s.header.scenarioHash, fix: 'merge only shards of the same scenario file with the same --set overrides' },
-    { what: 'scan (axes, values, chain length, hold, --keep-points)', of: (s) => s.header.scanHash, fix: 'give every shard the same --vary, --log, --chain-length, --hold and --keep-points' },
+    { what: 'scan (axes, values, chain length, hold, --keep-points)', of: (s) => s.header.scanHash, fix: 'give every shard the same --vary, --log, --chain-length, --fixed and --keep-points' },
   ];
   for (const check of checks) {
     const expected = check.of(first);
@@ -165,7 +165,7 @@ export function checkScanShardSet(shards: readonly LoadedScanShard[]): { plan: S
       }
     }
     problems.push(
-      `${[...owners].join(', ')} ${owners.size === 1 ? 'is' : 'are'} missing: chains ${formatBlockList(coverage.missing)} of 0-${plan.chainCount - 1} ` +
+      `${[...owners].join(', ')} ${owners.size === 1 ? 'is' : 'are'} missing: ${coverage.missing.length === 1 ? 'chain' : 'chains'} ${formatBlockList(coverage.missing)} of the scan's ${plan.chainCount} ` +
         `(scenario ${h.scenarioHash.slice(0, 12)}); run the missing shards (or wait for them to finish) and merge again`,
     );
   }

@@ -42,10 +42,12 @@ import { outputTarget, reportCommit } from '../outputOption.js';
 
 const OPTIONS = ['vary', 'log', 'fixed', 'chainLength', 'keepPoints', 'shard', 'shardFromEnv', 'shards', 'threads', 'set', 'out', 'force', 'quiet', 'jsonProgress'] as const;
 
-/** Injection points for tests: the sweep workers' module and the environment. */
+/** Injection points for tests: the sweep workers' module, the environment, an interruption. */
 export interface ScanHooks {
   sweepWorker?: WorkerModule;
   env?: Readonly<Record<string, string | undefined>>;
+  /** asked with the number of points finished so far; true interrupts as SIGINT would */
+  interrupt?: (finished: number) => boolean;
 }
 
 export function registerScan(program: Command, context: CommandContext): void {
@@ -169,7 +171,7 @@ export async function runScanCommand(scenarioPath: string, raw: RawOptions, hook
         sweepPool: pool,
         done: (p) => work.done(p),
         onPoint,
-        shouldStop: interrupted,
+        shouldStop: () => interrupted() || (hooks.interrupt?.(finished) ?? false),
         observer: (p) =>
           progress.update({ stage: `point ${finished + 1}/${total}`, sweep: p.solve.totalSweeps, residual: p.solve.change, errorEstimate: p.solve.errorEstimate, atoms: p.solve.atoms, mu: p.solve.mu, fraction: finished / total }),
       }),

@@ -87,10 +87,10 @@ function checkDensityAxis(resolved: ResolvedScenario, hold: DensityHold): void {
   }
   if (hold === 'atoms') {
     if (resolved.chemical.kind !== 'atoms') {
-      throw new InputError(`--hold atoms: the scenario gives a chemical potential; give particles.atoms (the atom number held fixed) or use --hold trap`);
+      throw new InputError(`--fixed atoms: the scenario gives a chemical potential; give particles.atoms (the atom number held fixed) or use --fixed trap`);
     }
     if (resolved.scenario.laboratory?.beamWaistUm !== undefined) {
-      throw new InputError(`--hold atoms: the trap includes the lattice beams' envelope (laboratory.beamWaistUm), which a change of trap.frequencyHz does not scale; use --hold trap`);
+      throw new InputError(`--fixed atoms: the trap includes the lattice beams' envelope (laboratory.beamWaistUm), which a change of trap.frequencyHz does not scale; use --fixed trap`);
     }
   }
 }
@@ -150,8 +150,8 @@ export function checkAxisCombination(paths: readonly string[], hold: DensityHold
   const clash = hold === 'trap' ? other.startsWith('particles.') : other.startsWith('trap.');
   if (clash) {
     throw new InputError(
-      `--vary ${other}: with --vary ${CHARACTERISTIC_DENSITY} and --hold ${hold} the ${hold === 'trap' ? 'atom number' : 'trap'} already follows rho~; ` +
-        `scan ${hold === 'trap' ? 'the trap' : 'the atom number'} instead, or use --hold ${hold === 'trap' ? 'atoms' : 'trap'}`,
+      `--vary ${other}: with --vary ${CHARACTERISTIC_DENSITY} and --fixed ${hold} the ${hold === 'trap' ? 'atom number' : 'trap'} already follows rho~; ` +
+        `scan ${hold === 'trap' ? 'the trap' : 'the atom number'} instead, or use --fixed ${hold === 'trap' ? 'atoms' : 'trap'}`,
     );
   }
 }
