@@ -18,7 +18,7 @@ import { PARALLEL_MIN_SITES, type WorkerModule } from '../../pipeline/solveScena
 import { solvePictures } from '../../pipeline/solvePictures.js';
 import { chainPoints, DEFAULT_CHAIN_LENGTH, planScan, pointValues, shardChains, type ScanPlan } from '../../pipeline/scan/scanPlan.js';
 import { runScan, type ScanPointResult } from '../../pipeline/scan/runScan.js';
-import { CHARACTERISTIC_DENSITY, checkAxisCombination, directOverrides, scenarioOfPoint } from '../../pipeline/scan/scanPoint.js';
+import { CHARACTERISTIC_DENSITY, checkAxisCombination, checkNumericPath, directOverrides, scenarioOfPoint, valueAtPath } from '../../pipeline/scan/scanPoint.js';
 import { loadScenario } from '../../scenario/loadScenario.js';
 import { scanEnergyUnit, type ScanRow } from '../../pipeline/scan/scanRow.js';
 import { createSweepPool, type SweepPool } from '../../solver/sweepExecutor.js';
@@ -89,6 +89,9 @@ export function scanSetup(scenarioPath: string, o: { vary?: string[]; log?: bool
   const memory = memoryLimitBytes();
   const prepare = (extra: readonly string[]): PreparedScenario => prepareScenario(scenarioPath, [...overrides, ...extra], { memoryLimitBytes: memory });
   const base = prepare([]);
+  // A path that holds a text, a list or a group in the scenario is named now, before the
+  // schema refuses a number there with a message about the value.
+  for (const a of plan.axes) if (a.path !== CHARACTERISTIC_DENSITY && valueAtPath(base.scenario, a.path) !== undefined) checkNumericPath(base, a.path);
   // Every point's scenario must be valid before the first solve: a value the schema refuses
   // at point 17 is reported now, naming the point. The first point is resolved in full
   // (paths, the characteristic density); the others are validated (cheap).
