@@ -146,7 +146,7 @@ describe('submit, tasks run as SLURM would, progress, resubmission', () => {
     let p = await run(() => runProgressCommand(out, {}));
     expect(p.stdout).toMatch(/done {5}0-1\n/);
     expect(p.stdout).toMatch(/started {2}3\n/);
-    expect(p.stdout).toMatch(/missing {2}2\n/);
+    expect(p.stdout).toMatch(/missing {2}2 {2}\(nothing in the folder yet/);
     expect(p.stdout).toMatch(/shard 3: started, not finished \(1 block staged, last written \d+ s ago\)/);
     expect(p.stdout).toMatch(/merged {3}not yet/);
     const resubmit = p.stdout.split('\n').find((l) => l.includes('--only-shards 2 '));

@@ -41,7 +41,7 @@ function stateLines(states: readonly ShardState[], nowMs: number): string[] {
   const lines = [
     `  done     ${list(done)}${bad > 0 ? `  (${bad} point${bad === 1 ? '' : 's'} or realisation${bad === 1 ? '' : 's'} NOT CONVERGED, flagged)` : ''}`,
     `  started  ${list(of('started'))}`,
-    `  missing  ${list(of('missing'))}`,
+    `  missing  ${list(of('missing'))}${of('missing').length > 0 ? '  (nothing in the folder yet: still queued, or cancelled or failed before they started)' : ''}`,
   ];
   for (const s of of('started') as Extract<ShardState, { kind: 'started' }>[]) {
     lines.push(`    shard ${s.index}: started, not finished (${s.detail ? `${s.detail}, ` : ''}last written ${ago(s.lastWrittenMs, nowMs)}): running, or stopped`);
@@ -71,8 +71,9 @@ export async function runProgressCommand(dirGiven: string, _raw: Record<string, 
     const started = states.filter((s) => s.kind === 'started').map((s) => s.index);
     const tool = sub.tool.command;
     const resubmit = (list: number[]): string => shellWords([...tool, 'submit', ...sub.submitArgs, '--only-shards', indexList(list), '--out', dir]);
+    const arrays = jobs.map((j) => j.arrayJob).join(',');
     if (redo.length > 0) {
-      out.push(`resubmit the missing shards (${indexList(redo)}) with a new merge job:`);
+      out.push(`once squeue${arrays ? ` -j ${arrays}` : ''} no longer lists them, resubmit the missing shards (${indexList(redo)}) with a new merge job:`);
       out.push(`  ${resubmit(redo)}`);
       out.push(`  or by hand: sbatch --array=${indexList(redo)} ${shellWords([sub.arrayScript])}, then sbatch --dependency=afterok:<that job id> ${shellWords([sub.mergeScript])}`);
     }
