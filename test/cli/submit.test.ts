@@ -227,3 +227,24 @@ describe('submit, tasks run as SLURM would, progress, resubmission', () => {
     expect(none.message).toMatch(/holds no submission \(submit\.json\) and no shard folders/);
   });
 });
+
+describe('README "On a cluster"', () => {
+  it('its submit commands are valid (dry run here; npm run test:cluster runs them under SLURM)', async () => {
+    const { runCli } = await import('../../src/cli/main.js');
+    const readme = readFileSync(fileURLToPath(new URL('../../README.md', import.meta.url)), 'utf8');
+    const block = readme.slice(readme.indexOf('<!-- cluster:start -->'), readme.indexOf('<!-- cluster:end -->'));
+    const commands = block.split('\n').filter((l) => l.startsWith('tiercake submit '));
+    expect(commands.length).toBe(2);
+    const root = fileURLToPath(new URL('../..', import.meta.url));
+    for (const line of commands) {
+      const words = line
+        .slice('tiercake '.length)
+        .split(' ')
+        .map((w) => (w.startsWith('configs/') ? join(root, w) : w.startsWith('runs/') ? join(dir, w) : w));
+      const r = await run(() => runCli([...words, '--dry-run']));
+      expect(r.code, line).toBe(0);
+      expect(r.stdout).toContain('#SBATCH --array=0-3');
+      expect(r.stdout).toContain('#SBATCH --time=00:20:00');
+    }
+  });
+});
