@@ -259,4 +259,18 @@ if (want('tof')) {
   }
 }
 
+// 10. Warm starts of a scan -----------------------------------------------------------
+if (want('scan')) {
+  const { runScanBench } = await import('./scanBench.mjs');
+  for (const r of await runScanBench()) {
+    log(
+      'scan',
+      `80x80 layer, J/U 0.01-0.03, ${r.points} pts, ${r.name}: sweeps warm/cold`,
+      r.warm.sweeps / r.cold.sweeps,
+      'ratio',
+      `${r.warm.sweeps} vs ${r.cold.sweeps} sweeps, ${(100 * r.saving).toFixed(0)} % saved (chains of ${r.chainLength}); ${r.warm.seconds.toFixed(1)} s vs ${r.cold.seconds.toFixed(1)} s`,
+    );
+  }
+}
+
 await pool.destroy();

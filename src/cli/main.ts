@@ -20,6 +20,9 @@ import { registerEnsemble } from './commands/ensemble.js';
 import { registerMerge } from './commands/merge.js';
 import { parseKernelChoice, setDefaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 import { registerEvolve } from './commands/evolve.js';
+import { registerScan } from './commands/scan.js';
+import { registerSubmit } from './commands/submit.js';
+import { registerProgress } from './commands/progress.js';
 
 /** Commands set this when they finish with a non-zero status without throwing. */
 export interface CommandContext {
@@ -46,6 +49,9 @@ export function buildProgram(context: CommandContext): Command {
   registerEnsemble(program, context);
   registerMerge(program, context);
   registerEvolve(program, context);
+  registerScan(program, context);
+  registerSubmit(program, context);
+  registerProgress(program, context);
   return program;
 }
 

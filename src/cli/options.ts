@@ -10,6 +10,7 @@ import { InputError } from '../scenario/inputError.js';
 import { parseInteger, parseReal, type IntegerRange, type RealRange } from './numberText.js';
 import { MAX_REALISATIONS } from '../pipeline/ensemble/blockPlan.js';
 import { DEFAULT_BINS_PER_ATOM } from '../pipeline/ensemble/histogramBins.js';
+import { DEFAULT_CHAIN_LENGTH, MAX_SCAN_POINTS } from '../pipeline/scan/scanPlan.js';
 
 type Spec =
   | { flags: string; help: string; kind: 'integer'; range: IntegerRange }
@@ -115,6 +116,42 @@ export const OPTION_TABLE = {
     kind: 'text',
   },
   binsPerAtom: { flags: '--bins-per-atom <b>', help: `histogram bins per atom per site (default ${DEFAULT_BINS_PER_ATOM})`, kind: 'integer', range: { min: 1, max: 10_000 } },
+  // scan
+  vary: {
+    flags: '--vary <path=values>',
+    help: 'scenario value to scan: PATH=FROM:TO:COUNT (equal steps), PATH=FROM:TO:COUNT:log, or PATH=A,B,C; once or twice (a map); PATH may be characteristicDensity',
+    kind: 'repeatable',
+  },
+  log: { flags: '--log', help: 'logarithmic steps for every FROM:TO:COUNT axis', kind: 'flag' },
+  fixed: {
+    flags: '--fixed <what>',
+    help: 'with --vary characteristicDensity: what stays fixed, trap (the atom number follows, default) or atoms (the trap curvature follows)',
+    kind: 'choice',
+    values: ['trap', 'atoms'],
+  },
+  chainLength: {
+    flags: '--chain-length <L>',
+    help: `points per warm-start chain (default ${DEFAULT_CHAIN_LENGTH}); each chain starts cold, shards hold whole chains`,
+    kind: 'integer',
+    range: { min: 1, max: MAX_SCAN_POINTS },
+  },
+  keepPoints: { flags: '--keep-points', help: 'also write every point as `tiercake solve` would (points/point-NNNNNN/)', kind: 'flag' },
+  // submit
+  ensemble: {
+    flags: '--ensemble <N>',
+    help: 'submit a disorder ensemble of N realisations',
+    kind: 'integer',
+    range: { min: 1, max: MAX_REALISATIONS },
+  },
+  scan: { flags: '--scan', help: 'submit a scan (with --vary)', kind: 'flag' },
+  partition: { flags: '--partition <name>', help: 'SLURM partition of the jobs', kind: 'text' },
+  time: { flags: '--time <limit>', help: 'SLURM time limit of each shard task, e.g. 30, 02:00:00 or 1-00:00:00', kind: 'text' },
+  cpusPerTask: { flags: '--cpus-per-task <c>', help: 'cores of each shard task, also its --threads (default 1)', kind: 'integer', range: { min: 1, max: 256 } },
+  sbatchOption: { flags: '--sbatch-option <option>', help: 'extra sbatch option for every job, e.g. --sbatch-option=--account=lab42 (repeatable)', kind: 'repeatable' },
+  dryRun: { flags: '--dry-run', help: 'print the batch scripts and the sbatch commands; submit nothing, write nothing', kind: 'flag' },
+  hold: { flags: '--hold', help: 'submit the shard tasks held (release them with scontrol release JOB)', kind: 'flag' },
+  onlyShards: { flags: '--only-shards <list>', help: 'submit only these shards again (e.g. 2,5) into an earlier submission folder, with a new merge job', kind: 'text' },
+  sbatch: { flags: '--sbatch <command>', help: 'the sbatch program (default: sbatch from PATH)', kind: 'text' },
 } as const satisfies Record<string, Spec>;
 
 export type OptionName = keyof typeof OPTION_TABLE;

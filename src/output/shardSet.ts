@@ -79,9 +79,12 @@ export function checkShardSet(shards: readonly LoadedShard[]): ReturnType<typeof
     );
   }
   if (coverage.missing.length > 0) {
+    // Name the missing shards first (what a user resubmits), then the blocks.
+    const owners = [...new Set(coverage.missing.map((b) => ownerHint(b, shards, plan)).filter((h) => h.length > 0))];
     const hints = coverage.missing.slice(0, 4).map((b) => `block ${b}: ${ownerHint(b, shards, plan) || 'no shard given'}`);
     problems.push(
-      `${blocksAre(coverage.missing)} missing from blocks 0-${plan.blockCount - 1} (${hints.join('; ')}${coverage.missing.length > 4 ? '; ...' : ''}); ` +
+      `${owners.length > 0 ? `${owners.slice(0, 6).join(', ')}${owners.length > 6 ? ', ...' : ''} ${owners.length === 1 ? 'is' : 'are'} missing (scenario ${first.header.scenarioHash.slice(0, 12)}): ` : ''}` +
+        `${blocksAre(coverage.missing)} missing from blocks 0-${plan.blockCount - 1} (${hints.join('; ')}${coverage.missing.length > 4 ? '; ...' : ''}); ` +
         'run the missing shards (or wait for them to finish) and merge again',
     );
   }

@@ -38,8 +38,13 @@ export interface SolveOptions {
   sweepPool?: SweepPool;
   /** worker module override for the pool made here (tests) */
   workerModule?: WorkerModule;
-  /** continue from an interrupted run (checkpoint) */
-  resume?: { phi: Float64Array; mu: number; nmax: number };
+  /**
+   * continue from an interrupted run (checkpoint), or start from a neighbouring solution
+   * (scans): phi, mu (the fixed-N search starts there), nmax, and optionally k_B T
+   * (internal unit; the fixed-entropy search starts there) and dN/dmu (the fixed-N
+   * search's first step)
+   */
+  resume?: { phi: Float64Array; mu: number; nmax: number; kT?: number; atomSlope?: number };
   /** milliseconds of some monotonic clock, for the timings in the summary; default: no timings (0) */
   clock?: () => number;
   /** seconds the caller spent preparing the scenario, echoed in the timings */
@@ -85,7 +90,11 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
   const t1 = clock();
   const model = options.resume ? { ...resolved.model, nmax: options.resume.nmax } : resolved.model;
   const chemical =
-    options.resume && resolved.chemical.kind === 'atoms' ? { ...resolved.chemical, muGuess: options.resume.mu } : resolved.chemical;
+    options.resume && resolved.chemical.kind === 'atoms'
+      ? { ...resolved.chemical, muGuess: options.resume.mu, ...(options.resume.atomSlope !== undefined ? { slopeGuess: options.resume.atomSlope } : {}) }
+      : resolved.chemical;
+  const thermal =
+    options.resume?.kT !== undefined && resolved.thermal.kind === 'entropy' ? { ...resolved.thermal, kTGuess: options.resume.kT } : resolved.thermal;
   const threads = threadsFor(model.geometry.siteCount, options.threads);
   let ownPool: SweepPool | null = null;
   // TIERCAKE_KERNEL (set process-wide by the command line) overrides the scenario.
@@ -108,6 +117,7 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
         ...runRequestOf(resolved, options.observer),
         model,
         chemical,
+        thermal,
         ...(options.resume ? { initialPhi: options.resume.phi } : {}),
       },
       (state) => createSweepExecutor(state, pool, threads, { kernel }),

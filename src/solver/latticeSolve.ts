@@ -13,8 +13,11 @@ import type { SolverState } from './solverState.js';
 
 export type ChemicalPotentialMode =
   | { kind: 'mu'; mu: number }
-  /** muGuess: a starting point for the search (e.g. from a checkpoint) */
-  | { kind: 'atoms'; atoms: number; relativeTolerance: number; muGuess?: number };
+  /**
+   * muGuess: a starting point for the search (e.g. from a checkpoint); slopeGuess: dN/dmu
+   * near the answer (e.g. of a neighbouring scan point), for the first step
+   */
+  | { kind: 'atoms'; atoms: number; relativeTolerance: number; muGuess?: number; slopeGuess?: number };
 
 export interface LatticeSolveOptions {
   mode: ChemicalPotentialMode;
@@ -221,12 +224,15 @@ export async function solveLattice(
     }
     let guess = options.mode.muGuess ?? 0.5 * (lo + hi) - 0.5 * zJ;
     let nGuess = (await evaluate(guess)) - target;
-    // First step from a smoothed atomic-limit slope dN/dmu, a little long so that one step
-    // usually brackets the root.
+    // First step from the caller's slope dN/dmu, else from a smoothed atomic-limit slope,
+    // a little long so that one step usually brackets the root. A measured slope (a
+    // neighbouring solution) may take steps far below the atomic-limit floor of 1e-3 U.
     const h = 0.1 * uMax;
-    const slope = (atomicLimitAtoms(model, guess + h) - atomicLimitAtoms(model, guess - h)) / (2 * h);
+    const given = options.mode.slopeGuess;
+    const measured = given !== undefined && given > 0 && Number.isFinite(given);
+    const slope = measured ? given : (atomicLimitAtoms(model, guess + h) - atomicLimitAtoms(model, guess - h)) / (2 * h);
     const newton = slope > 0 ? (1.3 * Math.abs(nGuess)) / slope : 0.25 * uMax;
-    const step0 = Math.min(Math.max(newton, 1e-3 * uMax), 0.5 * uMax + zJ);
+    const step0 = Math.min(Math.max(newton, (measured ? 1e-9 : 1e-3) * uMax), 0.5 * uMax + zJ);
     let other = guess;
     let nOther = nGuess;
     let step = nGuess > 0 ? -step0 : step0;

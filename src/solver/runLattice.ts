@@ -14,7 +14,10 @@ import { relaxAtFixedMu, shiftLowerBounds } from './relaxation.js';
 import type { SweepExecutor } from './sweepExecutor.js';
 import { createSolverState, type SolverState } from './solverState.js';
 
-export type ThermalMode = { kind: 'temperature'; kT: number } | { kind: 'entropy'; entropyPerAtom: number; relativeTolerance: number };
+export type ThermalMode =
+  | { kind: 'temperature'; kT: number }
+  /** kTGuess: where the search for T starts (e.g. the temperature of a neighbouring scan point) */
+  | { kind: 'entropy'; entropyPerAtom: number; relativeTolerance: number; kTGuess?: number };
 
 export interface RunRequest {
   model: LatticeModel;
@@ -150,21 +153,33 @@ export async function runLattice(request: RunRequest, makeExecutor: ExecutorFact
         return s - target;
       };
       const scale = Math.max(maxInteraction(model), 2 * model.geometry.dims * maxHopping(model));
-      let lo = 0.02 * scale;
-      let hi = 0.2 * scale;
+      // Without a guess the bracket starts wide and grows by fixed factors; with a guess
+      // (a neighbouring solution) it starts +-5 % around it and the factor squares on
+      // every failed step, so a good guess costs two evaluations before Brent.
+      const guess = request.thermal.kTGuess;
+      const guessed = guess !== undefined && guess > 0 && Number.isFinite(guess);
+      let lo = guessed ? guess / 1.05 : 0.02 * scale;
+      let hi = guessed ? guess * 1.05 : 0.2 * scale;
+      let down = guessed ? 1.05 : 3;
+      let up = guessed ? 1.05 : 2.5;
       let flo = await entropyAt(lo);
+      // f at hi once known (when lo moved down, hi is the old lo): not evaluated twice
+      let fhiKnown: number | undefined;
       let k = 0;
       while (flo > 0 && k++ < 30 && !solve!.stopped) {
         hi = lo;
-        lo /= 3;
+        fhiKnown = flo;
+        if (guessed) down = Math.min(down * down, 3);
+        lo /= down;
         flo = await entropyAt(lo);
       }
-      let fhi = flo > 0 ? flo : await entropyAt(hi);
+      let fhi = flo > 0 ? flo : (fhiKnown ?? (await entropyAt(hi)));
       k = 0;
       while (fhi < 0 && k++ < 30 && !solve!.stopped) {
         lo = hi;
         flo = fhi;
-        hi *= 2.5;
+        if (guessed) up = Math.min(up * up, 2.5);
+        hi *= up;
         fhi = await entropyAt(hi);
       }
       let converged = false;

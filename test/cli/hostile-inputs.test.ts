@@ -163,6 +163,7 @@ interface HostileCase {
 
 const solve = (...args: string[]): string[] => ['solve', 'scenario.json', '--threads', '1', '--quiet', ...args];
 const evolve = (...args: string[]): string[] => ['evolve', 'scenario.json', '--threads', '1', '--quiet', '--set', 'evolution={"duration":1}', ...args];
+const scan = (...args: string[]): string[] => ['scan', 'scenario.json', '--threads', '1', '--quiet', '--out', 'new', ...args];
 const compare = (image: string, ...args: string[]): string[] => ['compare', 'scenario.json', '--image', `frames/${image}`, '--pixel-um', '1', '--out', 'cmp', '--threads', '1', '--quiet', ...args];
 const disorderScenario = JSON.stringify({
   name: 'hostile-ensemble',
@@ -281,6 +282,17 @@ const cases: HostileCase[] = [
   },
   { title: '/dev/zero as the scenario', argv: ['solve', '/dev/zero', '--out', 'new'], newOut: 'new', names: /\/dev\/zero: not a regular file/ },
   { title: 'an unknown key, with the valid ones listed', argv: solve('--set', 'particles.atom=5', '--out', 'new'), newOut: 'new', names: /"particles\.atom" is not a scenario key; did you mean "particles\.atoms"\?/ },
+  // --- scan, submit, progress ---------------------------------------------------------
+  { title: 'scan --vary without values', argv: scan('--vary', 'hubbard.hopping'), newOut: 'new', names: /--vary "hubbard\.hopping": expected PATH=FROM:TO:COUNT or PATH=A,B,C/ },
+  { title: 'scan --vary of a text', argv: scan('--vary', 'name=1,2'), newOut: 'new', names: /--vary name: the scenario holds a string there, not a number/, child: true },
+  { title: 'scan --vary of a misspelt key', argv: scan('--vary', 'hubbard.hoping=0.01,0.02'), newOut: 'new', names: /"hubbard\.hoping" is not a scenario key; did you mean "hubbard\.hopping"\?/ },
+  { title: 'scan --vary to a value the schema refuses, at a later point', argv: scan('--vary', 'hubbard.hopping=0.02,-0.01'), newOut: 'new', names: /scan point 1 \(hubbard\.hopping=-0\.01\): [\s\S]*hubbard\.hopping: expected a number > 0, got -0\.01/ },
+  { title: 'scan --vary with a hex count', argv: scan('--vary', 'hubbard.hopping=0.01:0.02:0x3'), newOut: 'new', names: /--vary hubbard\.hopping \(COUNT\): expected a whole number from 1 to 100000, got "0x3"/ },
+  { title: 'scan --fixed without the characteristic density', argv: scan('--vary', 'hubbard.hopping=0.01,0.02', '--fixed', 'atoms'), newOut: 'new', names: /--fixed: only used with --vary characteristicDensity/ },
+  { title: 'scan --chain-length 0', argv: scan('--vary', 'hubbard.hopping=0.01,0.02', '--chain-length', '0'), newOut: 'new', names: /--chain-length: expected a whole number from 1 to 100000, got "0"/ },
+  { title: 'submit without --shards', argv: ['submit', 'scenario.json', '--scan', '--vary', 'hubbard.hopping=0.01,0.02', '--dry-run', '--out', 'new'], newOut: 'new', names: /--shards: required/ },
+  { title: 'submit --time in words', argv: ['submit', 'scenario.json', '--scan', '--vary', 'hubbard.hopping=0.01,0.02', '--shards', '2', '--time', 'two hours', '--out', 'new'], newOut: 'new', names: /--time: expected a SLURM time limit/ },
+  { title: 'progress on a folder without shards', argv: ['progress', 'thesis'], names: /progress thesis: holds no submission \(submit\.json\) and no shard folders/ },
 ];
 
 function checkMessage(r: Run, c: HostileCase): void {

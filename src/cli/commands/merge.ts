@@ -2,10 +2,12 @@
 // shards into exactly the files a single `tiercake ensemble` run writes. Refuses (exit
 // code 2, nothing written) shards of different ensembles, and sets of shards that do not
 // hold every block exactly once (src/output/shardSet.ts). Blocks are read one at a time
-// and absorbed in block order: the same additions a single run makes.
+// and absorbed in block order: the same additions a single run makes. Shards of a
+// `tiercake scan` are merged by mergeScan.ts into the files of a single scan run.
 
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
+import { readFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
 import { writeOutputFolder } from '../../output/outputFolder.js';
 import { renderReportHtml } from '../../report/renderReport.js';
 import { formatBlockList } from '../../pipeline/ensemble/blockPlan.js';
@@ -15,19 +17,21 @@ import type { EnsembleContext } from '../../pipeline/ensemble/solveRealisation.j
 import type { Scenario } from '../../scenario/scenarioSchema.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
-import { findShardFolders, readShardBlock, readShardHeader } from '../../output/ensembleShard.js';
+import { findShardFolders, readShardBlock, readShardHeader, SHARD_HEADER_FILE } from '../../output/ensembleShard.js';
 import { checkShardSet } from '../../output/shardSet.js';
 import { writeEnsembleFiles, type EnsembleOutcome } from '../../output/ensembleOutputs.js';
 import { buildEnsembleReport } from '../../report/ensembleReport.js';
 import { declare, readOptions, type RawOptions } from '../options.js';
 import { outputTarget, reportCommit } from '../outputOption.js';
+import { parseScanShardHeader, SCAN_SHARD_FORMAT, type LoadedScanShard } from '../../output/scanShard.js';
+import { mergeScanShards } from './mergeScan.js';
 
 const OPTIONS = ['out', 'force', 'quiet'] as const;
 
 export function registerMerge(program: Command, context: CommandContext): void {
   const command = program
     .command('merge')
-    .description('combine ensemble shards into the result a single run gives (bit for bit)')
+    .description('combine ensemble or scan shards into the result a single run gives (bit for bit)')
     .argument('<shards...>', 'shard folders, or folders that collect them (e.g. the --out folder of the shards)');
   declare(command, OPTIONS, { out: { help: 'output folder (default out/<name>-ensemble)' }, quiet: { help: 'no summary on stdout' } }).action(
     async (shards: string[], options: RawOptions) => {
@@ -40,6 +44,8 @@ export async function runMergeCommand(paths: readonly string[], raw: RawOptions)
   const o = readOptions(raw, OPTIONS);
   if (paths.length === 0) throw new InputError('merge: give at least one shard folder');
   const folders = findShardFolders(paths);
+  const scanShards = readScanShards(folders);
+  if (scanShards !== null) return mergeScanShards(scanShards, paths, o);
   const shards = folders.map(readShardHeader);
   const plan = checkShardSet(shards);
   const header = shards[0].header;
@@ -86,4 +92,28 @@ export async function runMergeCommand(paths: readonly string[], raw: RawOptions)
     );
   }
   return stats.notConverged.length > 0 ? ExitCode.notConverged : ExitCode.done;
+}
+
+/**
+ * The shards as scan shards when their headers say so (null when they are ensemble
+ * shards); a mixture is refused naming the shard of the other kind.
+ */
+function readScanShards(folders: readonly string[]): LoadedScanShard[] | null {
+  const formats = folders.map((f) => {
+    try {
+      const parsed: unknown = JSON.parse(readFileSync(join(f, SHARD_HEADER_FILE), 'utf8'));
+      return { folder: f, parsed, scan: parsed !== null && typeof parsed === 'object' && (parsed as Record<string, unknown>).format === SCAN_SHARD_FORMAT };
+    } catch {
+      return { folder: f, parsed: null, scan: false };
+    }
+  });
+  const scans = formats.filter((f) => f.scan);
+  if (scans.length === 0) return null;
+  const other = formats.find((f) => !f.scan);
+  if (other) {
+    throw new InputError(
+      `merge: ${JSON.stringify(other.folder)} is not a scan shard but ${JSON.stringify(scans[0].folder)} is; merge the shards of one scan (or of one ensemble) at a time`,
+    );
+  }
+  return scans.map((f) => parseScanShardHeader(f.folder, f.parsed));
 }

@@ -1,0 +1,260 @@
+// The files of a finished scan (one run, or merged shards), from plain rows: no physics
+// here. The folder holds
+//   scan.csv            one row per point in grid order (first axis slowest); the header is
+//                       the first line; every column is a number (codes and flags as
+//                       integers), NaN written 'nan' where a reading is undefined
+//   summary.json        the scan (scenario, axes, chain length), the CSV's columns with
+//                       their units and meaning, convergence and warm-start totals, and
+//                       `provenance` (how it was produced: the only part that differs
+//                       between a single run and merged shards)
+//   images/*.png        the main readings against the parameter (line plots), or as maps
+//                       over the two parameters
+//   report.html         the same, with the table and the scenario
+//   points/point-NNNNNN/  per-point output folders, as `tiercake solve` writes them (--keep-points)
+
+import type { OutputFolder } from './outputFolder.js';
+import { toCsv, type CsvColumn } from '../formats/csv.js';
+import { renderFieldMapSvg, renderLinePlotSvg, sideBySideSvg } from '../figures/index.js';
+import type { GridAxis, LineSeries } from '../figures/index.js';
+import { figureImage, type WrittenImage } from './solveOutputs.js';
+import { seriesColor } from '../figures/figurePalette.js';
+import { phaseNames, phaseTitles } from '../observables/phaseCodes.js';
+import type { ScanPlan } from '../pipeline/scan/scanPlan.js';
+import type { ScanRow } from '../pipeline/scan/scanRow.js';
+import type { DensityHold } from '../pipeline/scan/scanPoint.js';
+import { CHARACTERISTIC_DENSITY } from '../pipeline/scan/scanPoint.js';
+import type { Scenario } from '../scenario/scenarioSchema.js';
+import { toolVersion } from './toolVersion.js';
+
+export interface ScanOutcome {
+  scenario: Scenario;
+  scenarioHash: string;
+  scanHash: string;
+  plan: ScanPlan;
+  hold: DensityHold | null;
+  /** energy unit of chemical_potential and temperature (scanEnergyUnit) */
+  energyUnit: string;
+  keepPoints: boolean;
+  /** one row per point, by point index */
+  rows: ScanRow[];
+  provenance: Record<string, unknown>;
+}
+
+export interface ColumnInfo {
+  name: string;
+  unit: string;
+  description: string;
+}
+
+const snake = (name: string): string => name.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
+
+/** Mott fillings that occur at any point, ascending. */
+export function scanFillings(rows: readonly ScanRow[]): number[] {
+  return [...new Set(rows.flatMap((r) => r.shells.map((s) => s.filling)))].sort((a, b) => a - b);
+}
+
+/** Name, unit and meaning of every CSV column, in order. */
+export function scanColumns(o: Pick<ScanOutcome, 'plan' | 'rows' | 'energyUnit' | 'hold'>): ColumnInfo[] {
+  const e = o.energyUnit;
+  const axes: ColumnInfo[] = o.plan.axes.map((a) => ({
+    name: a.path,
+    unit: a.path === CHARACTERISTIC_DENSITY ? 'atoms' : 'the scenario key\'s own (see the scenario reference)',
+    description:
+      a.path === CHARACTERISTIC_DENSITY
+        ? `scanned characteristic density N (V/J)^(d/2) (Rigol et al., PRA 79, 053605 (2009)), with the ${o.hold === 'atoms' ? 'atom number held and the trap scaled' : 'trap held and the atom number following'}`
+        : `scanned scenario value (${a.spacing === 'log' ? 'logarithmic steps' : a.spacing === 'list' ? 'listed values' : 'equal steps'})`,
+  }));
+  const phaseColumns: ColumnInfo[] = phaseNames.map((p) => ({ name: `${snake(p)}_sites`, unit: 'sites', description: `sites labelled ${phaseTitles[p]}` }));
+  const shellColumns: ColumnInfo[] = scanFillings(o.rows).flatMap((f) => [
+    { name: `shell_${f}_inner_radius`, unit: 'sites', description: `inner edge of the n = ${f} Mott shell: trap-scaled radius where half the sites of a radial bin belong to it (0 for a central shell; nan where there is no such shell)` },
+    { name: `shell_${f}_outer_radius`, unit: 'sites', description: `outer edge of the n = ${f} Mott shell, the same rule` },
+    { name: `shell_${f}_sites`, unit: 'sites', description: `sites in the n = ${f} Mott shell (0: none)` },
+  ]);
+  return [
+    ...axes,
+    { name: 'atoms', unit: 'atoms', description: 'total atom number N' },
+    { name: 'chemical_potential', unit: e, description: 'chemical potential mu (at the trap centre, as the scenario defines it)' },
+    { name: 'condensed_atoms', unit: 'atoms', description: 'sum of |phi_i|^2 over the sites (Gutzwiller condensate)' },
+    { name: 'condensate_fraction', unit: '1', description: 'condensed_atoms / atoms' },
+    { name: 'entropy', unit: 'k_B', description: 'total entropy S (0 in the ground state)' },
+    { name: 'entropy_per_atom', unit: 'k_B', description: 'S / N' },
+    { name: 'temperature', unit: e, description: 'k_B T (solved for at fixed entropy per atom)' },
+    { name: 'characteristic_density', unit: 'atoms', description: 'N prod_d sqrt(V_d / J_d), V_d the trap curvature per site^2 (Rigol et al., PRA 79, 053605 (2009)); nan without a trap on every axis' },
+    { name: 'characteristic_length', unit: 'sites', description: 'sqrt(J / V) along the first trapped axis; radius / characteristic_length is the radius in the units rho~ is defined with' },
+    { name: 'central_density', unit: 'atoms per site', description: 'mean density of the sites nearest the trap centre' },
+    { name: 'central_phase', unit: 'code', description: 'phase of those sites: 0 empty, 1 superfluid, 2 Mott insulator, 3 Bose glass, 4 normal fluid' },
+    ...phaseColumns,
+    ...shellColumns,
+    { name: 'nmax', unit: 'atoms per site', description: 'Fock-space truncation used (raised automatically when needed)' },
+    { name: 'sweeps', unit: 'sweeps', description: 'red-black sweeps of the solve (all chemical-potential and temperature steps)' },
+    { name: 'mu_evaluations', unit: 'solves', description: 'chemical-potential evaluations of the last fixed-N search (1 at fixed mu)' },
+    { name: 'warm_start', unit: 'flag', description: '1: started from the previous points of its chain, 0: cold start (first point of a chain)' },
+    { name: 'converged', unit: 'flag', description: '1: converged (self-consistency, atom number, temperature, truncation), 0: not; do not trust those rows' },
+  ];
+}
+
+/** The CSV: header on the first line, one row per point. */
+export function scanCsv(o: Pick<ScanOutcome, 'plan' | 'rows' | 'energyUnit' | 'hold'>): string {
+  const rows = o.rows;
+  const col = (name: string, f: (r: ScanRow) => number): CsvColumn => ({ name, values: rows.map(f) });
+  const shell = (r: ScanRow, f: number) => r.shells.find((s) => s.filling === f);
+  const columns: CsvColumn[] = [
+    ...o.plan.axes.map((a, k) => col(a.path, (r) => r.values[k])),
+    col('atoms', (r) => r.atoms),
+    col('chemical_potential', (r) => r.chemicalPotential),
+    col('condensed_atoms', (r) => r.condensedAtoms),
+    col('condensate_fraction', (r) => r.condensateFraction),
+    col('entropy', (r) => r.entropy),
+    col('entropy_per_atom', (r) => r.entropyPerAtom),
+    col('temperature', (r) => r.temperature),
+    col('characteristic_density', (r) => r.characteristicDensity),
+    col('characteristic_length', (r) => r.characteristicLength),
+    col('central_density', (r) => r.centralDensity),
+    col('central_phase', (r) => r.centralPhase),
+    ...phaseNames.map((p, c) => col(`${snake(p)}_sites`, (r) => r.phaseSites[c])),
+    ...scanFillings(rows).flatMap((f) => [
+      col(`shell_${f}_inner_radius`, (r) => shell(r, f)?.innerRadius ?? NaN),
+      col(`shell_${f}_outer_radius`, (r) => shell(r, f)?.outerRadius ?? NaN),
+      col(`shell_${f}_sites`, (r) => shell(r, f)?.sites ?? 0),
+    ]),
+    col('nmax', (r) => r.nmax),
+    col('sweeps', (r) => r.sweeps),
+    col('mu_evaluations', (r) => r.muEvaluations),
+    col('warm_start', (r) => (r.warmStart ? 1 : 0)),
+    col('converged', (r) => (r.converged ? 1 : 0)),
+  ];
+  const expected = scanColumns(o).map((c) => c.name);
+  if (columns.some((c, k) => c.name !== expected[k])) throw new Error('scanCsv: the columns and their descriptions are out of step');
+  return toCsv(columns);
+}
+
+/** summary.json: everything but `provenance` is the same for one run and merged shards. */
+export function scanSummary(o: ScanOutcome): Record<string, unknown> {
+  const notConverged = o.rows.filter((r) => !r.converged).map((r) => r.point);
+  const warm = o.rows.filter((r) => r.warmStart);
+  const cold = o.rows.filter((r) => !r.warmStart);
+  return {
+    format: 'tiercake-scan',
+    formatVersion: 1,
+    tool: { name: 'tiercake', version: toolVersion() },
+    scenarioName: o.scenario.name,
+    scenarioHash: o.scenarioHash,
+    scanHash: o.scanHash,
+    axes: o.plan.axes.map((a) => ({ path: a.path, spacing: a.spacing, values: a.values })),
+    characteristicDensityHold: o.hold,
+    points: o.plan.pointCount,
+    solveOrder: o.plan.axes.length === 2 ? 'snake: the second axis forwards on even rows of the first, backwards on odd rows' : 'in order of the values',
+    chainLength: o.plan.chainLength,
+    chains: o.plan.chainCount,
+    warmStarts:
+      'each chain of consecutive points (in solve order) starts cold; every later point starts from the previous ones: order parameter, mu and T extrapolated linearly, ' +
+      'dN/dmu for the first step of a fixed-N search, nmax',
+    energyUnit: o.energyUnit,
+    shellRadii: 'trap-scaled radius in sites: distance from the trap centre with each axis scaled by sqrt(V_d / V_ref), V_ref the first trapped axis',
+    columns: scanColumns(o),
+    converged: notConverged.length === 0,
+    notConvergedPoints: notConverged,
+    sweeps: {
+      total: o.rows.reduce((t, r) => t + r.sweeps, 0),
+      meanWarmStarted: warm.length > 0 ? warm.reduce((t, r) => t + r.sweeps, 0) / warm.length : null,
+      meanColdStarted: cold.length > 0 ? cold.reduce((t, r) => t + r.sweeps, 0) / cold.length : null,
+    },
+    keepPoints: o.keepPoints,
+    scenario: o.scenario,
+    provenance: o.provenance,
+  };
+}
+
+/** How the grid cells of a map map to an axis: linear values as they are, log steps as log10, a list by index. */
+function gridAxisOf(plan: ScanPlan, a: number): GridAxis {
+  const axis = plan.axes[a];
+  const v = axis.values;
+  if (v.length < 2) return { label: axis.path, origin: v[0], step: 1 };
+  if (axis.spacing === 'log') return { label: `log10 ${axis.path}`, origin: Math.log10(v[0]), step: Math.log10(v[1] / v[0]) };
+  const step = v[1] - v[0];
+  const even = step > 0 && v.every((x, k) => Math.abs(x - (v[0] + k * step)) <= 1e-9 * Math.max(Math.abs(x), Math.abs(step)));
+  return even ? { label: axis.path, origin: v[0], step } : { label: `${axis.path} (index of the listed values)`, origin: 0, step: 1 };
+}
+
+const marker = { marker: 'circle' as const };
+
+/** The figures of a scan: line plots for one axis, maps for two. */
+export function scanImages(o: ScanOutcome): WrittenImage[] {
+  const rows = o.rows;
+  const axis = o.plan.axes[0];
+  if (o.plan.axes.length === 1) {
+    const x = rows.map((r) => r.values[0]);
+    const xAxis = { label: axis.path, ...(axis.spacing === 'log' ? { log: true } : {}) };
+    const series = (label: string, f: (r: ScanRow) => number): LineSeries => ({ label, x, y: rows.map(f), style: marker });
+    const atoms = renderLinePlotSvg({ title: 'Atoms', xAxis, yAxis: { label: 'atoms' }, series: [series('all atoms N', (r) => r.atoms), series('condensed atoms', (r) => r.condensedAtoms)], widthPx: 460, heightPx: 320 });
+    const centre = renderLinePlotSvg({
+      title: 'Centre and condensate',
+      xAxis,
+      yAxis: { label: 'value' },
+      series: [series('central density (atoms/site)', (r) => r.centralDensity), series('condensate fraction', (r) => r.condensateFraction)],
+      widthPx: 460,
+      heightPx: 320,
+    });
+    const fillings = scanFillings(rows);
+    // One colour per filling: outer edge solid, inner edge dashed.
+    const shellSeries: LineSeries[] = fillings.flatMap((f, k) => [
+      { label: `n = ${f} outer`, x, y: rows.map((r) => r.shells.find((s) => s.filling === f)?.outerRadius ?? NaN), style: { ...marker, color: seriesColor(k) } },
+      {
+        label: `n = ${f} inner`,
+        x,
+        y: rows.map((r) => r.shells.find((s) => s.filling === f)?.innerRadius ?? NaN),
+        style: { marker: 'square' as const, line: 'dashed' as const, color: seriesColor(k) },
+      },
+    ]);
+    const shells = renderLinePlotSvg({
+      title: 'Mott shell radii',
+      xAxis,
+      yAxis: { label: 'trap-scaled radius', unit: 'sites' },
+      series: shellSeries.length > 0 ? shellSeries : [{ label: 'no Mott shell at any point', x, y: rows.map(() => NaN) }],
+      widthPx: 460,
+      heightPx: 320,
+    });
+    const phases = renderLinePlotSvg({
+      title: 'Sites per phase',
+      xAxis,
+      yAxis: { label: 'sites' },
+      series: (['superfluid', 'mott', 'boseGlass', 'normalFluid'] as const)
+        .filter((p) => rows.some((r) => r.phaseSites[phaseNames.indexOf(p)] > 0))
+        .map((p) => series(phaseTitles[p], (r) => r.phaseSites[phaseNames.indexOf(p)])),
+      widthPx: 460,
+      heightPx: 320,
+    });
+    return [
+      figureImage('images/scan_cloud.png', `Atoms, central density and condensate fraction against ${axis.path}`, sideBySideSvg([atoms, centre], `Cloud against ${axis.path}`)),
+      figureImage('images/scan_shells.png', `Mott shell radii and sites per phase against ${axis.path}`, sideBySideSvg([shells, phases], `Shells and phases against ${axis.path}`)),
+    ];
+  }
+  const [n1, n2] = o.plan.counts;
+  const xAxis = gridAxisOf(o.plan, 0);
+  const yAxis = gridAxisOf(o.plan, 1);
+  const map = (title: string, bar: string, f: (r: ScanRow) => number, colorMap?: string): string =>
+    renderFieldMapSvg({ values: rows.map(f), nx: n1, ny: n2, xAxis, yAxis, title, colorBarLabel: bar, minImagePx: 300, ...(colorMap ? { colorMap } : {}) });
+  const sf = phaseNames.indexOf('superfluid');
+  const mott = phaseNames.indexOf('mott');
+  return [
+    figureImage(
+      'images/scan_map_cloud.png',
+      `Condensate fraction and central density over ${o.plan.axes[0].path} and ${o.plan.axes[1].path}`,
+      sideBySideSvg([map('Condensate fraction', 'condensed / all atoms', (r) => r.condensateFraction), map('Central density', 'atoms per site', (r) => r.centralDensity)], 'Cloud over the scan'),
+    ),
+    figureImage(
+      'images/scan_map_phases.png',
+      `Superfluid and Mott sites over ${o.plan.axes[0].path} and ${o.plan.axes[1].path}`,
+      sideBySideSvg([map('Superfluid sites', 'sites', (r) => r.phaseSites[sf]), map('Mott sites', 'sites', (r) => r.phaseSites[mott])], 'Phases over the scan'),
+    ),
+  ];
+}
+
+/** Write scan.csv, summary.json, the images and the report into `folder`. */
+export function writeScanFiles(o: ScanOutcome, folder: OutputFolder, reportHtml: (images: WrittenImage[]) => string): void {
+  folder.write('scan.csv', scanCsv(o));
+  folder.write('summary.json', `${JSON.stringify(scanSummary(o), null, 2)}\n`);
+  const images = scanImages(o);
+  for (const img of images) folder.write(img.file, img.png);
+  folder.write('report.html', reportHtml(images));
+}
