@@ -63,7 +63,7 @@ export async function writeCheckpoint(path: string, c: Checkpoint, inputs: reado
       nmax: c.nmax,
       sweepsDone: c.sweepsDone,
       shape: c.shape,
-      note: 'resume with: tiercake solve SCENARIO --resume (same scenario and overrides)',
+      note: 'resume with the solve command and --resume (same scenario and overrides)',
     };
     folder.write(CHECKPOINT_FILE, `${JSON.stringify(header, null, 2)}\n`);
   });

@@ -22,6 +22,7 @@ import type { EnsembleContext } from '../pipeline/ensemble/solveRealisation.js';
 import { centralPlane, figureImage, jsonReplacer, type WrittenImage } from './solveOutputs.js';
 import { seedRuleText, type EnsembleIdentity } from './ensembleShard.js';
 import { toolVersion } from './toolVersion.js';
+import { readingWarnings } from '../observables/readingWarnings.js';
 
 /** Everything the final files are made from. */
 export interface EnsembleOutcome extends EnsembleIdentity {
@@ -232,6 +233,36 @@ export function ensembleImages(o: EnsembleOutcome): WrittenImage[] {
 }
 
 /** The machine-readable summary; everything but `provenance` is the same for a run and a merge. */
+/**
+ * Warnings of an ensemble ({code, message}, as for a solve): realisations that did not
+ * converge, and a mean cloud that reaches an open face of a trapped lattice (the faces of an
+ * untrapped lattice are walls by design and are not checked).
+ */
+export function ensembleWarnings(o: EnsembleOutcome): Array<{ code: string; message: string }> {
+  const s = o.stats;
+  const warnings: Array<{ code: string; message: string }> = [];
+  if (s.notConverged.length > 0) {
+    const shown = s.notConverged.slice(0, 12).join(', ');
+    warnings.push({
+      code: 'not-converged',
+      message: `${s.notConverged.length} of ${o.plan.realisations} realisations did not converge (indices ${shown}${s.notConverged.length > 12 ? ', ...' : ''}); their fields enter the averages as they stand (raise solver.maxSweeps or loosen solver.tolerance)`,
+    });
+  }
+  const trap = o.scenario.trap as { coefficient?: unknown; frequencyHz?: unknown } | undefined;
+  if (trap !== undefined && (trap.coefficient !== undefined || trap.frequencyHz !== undefined)) {
+    const edge = readingWarnings({
+      shape: o.context.shape,
+      periodic: o.context.periodic,
+      density: s.densityMean,
+      atoms: s.atoms.mean,
+      convergence: { converged: true, stopped: false, residual: 0, tolerance: 1, sweeps: 0, muSearchConverged: null, temperatureSearchConverged: null },
+      truncation: { nmax: 0, maxTopWeight: 0, topWeightMax: 1 },
+    }).filter((w) => w.code === 'cloud-at-edge' || w.code === 'empty-cloud');
+    for (const w of edge) warnings.push({ code: w.code, message: `mean over realisations: ${w.message}` });
+  }
+  return warnings;
+}
+
 export function buildEnsembleSummary(o: EnsembleOutcome, files: string[]): Record<string, unknown> {
   const s = o.stats;
   const units = o.context.units;
@@ -240,6 +271,7 @@ export function buildEnsembleSummary(o: EnsembleOutcome, files: string[]): Recor
   return {
     tool: { name: 'tiercake', version: toolVersion() },
     kind: 'disorder ensemble',
+    warnings: ensembleWarnings(o),
     scenario: o.scenario,
     scenarioHash: o.scenarioHash,
     ensemble: {

@@ -6,7 +6,7 @@ import type { KeyValueRow, ReportBlock, ReportDocument, StatusLine } from './rep
 import { cautionsFor } from './cautions.js';
 import { phaseNames, phaseTitles } from '../observables/phaseCodes.js';
 import type { EnsembleOutcome } from '../output/ensembleOutputs.js';
-import { ensembleHistogramSpecs, histogramForDisplay } from '../output/ensembleOutputs.js';
+import { ensembleHistogramSpecs, histogramForDisplay, ensembleWarnings } from '../output/ensembleOutputs.js';
 import type { WrittenImage } from '../output/solveOutputs.js';
 import { toolVersion } from '../output/toolVersion.js';
 
@@ -31,6 +31,7 @@ export function buildEnsembleReport(o: EnsembleOutcome, images: WrittenImage[], 
     status.push({ level: 'warning', text: `${o.total.densityHistogram.overflow} site densities lie above nmax = ${o.bins.maxAtoms} (nmax was raised automatically) and are outside the histogram.` });
   }
   if (s.realisations < 2) status.push({ level: 'warning', text: 'One realisation: the spread between realisations is not defined and is shown as zero.' });
+  for (const w of ensembleWarnings(o)) if (w.code !== 'not-converged') status.push({ level: 'warning', text: `${w.code}: ${w.message}` });
 
   const spanText = `${s.spanningRealisations} of ${s.realisations}`;
   const ensembleRows: KeyValueRow[] = [

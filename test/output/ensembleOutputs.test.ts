@@ -7,7 +7,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { ensembleFieldFiles, histogramTable, writeEnsembleFiles, type EnsembleOutcome } from '../../src/output/ensembleOutputs.js';
+import { ensembleFieldFiles, ensembleWarnings, histogramTable, writeEnsembleFiles, type EnsembleOutcome } from '../../src/output/ensembleOutputs.js';
 import { writeOutputFolder } from '../../src/output/outputFolder.js';
 import { checkOutputTarget } from '../../src/output/outputTarget.js';
 import { decodeNpy } from '../../src/formats/npy.js';
@@ -59,5 +59,31 @@ describe('ensemble files', () => {
       files = writeEnsembleFiles(outcome, folder, () => '<html></html>');
     });
     expect(JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8')).files).toEqual(files);
+  });
+
+  it('warnings: realisations that did not converge, and a mean cloud on the open face of a trapped lattice', async () => {
+    const path = join(dir, 'w.json');
+    // A trapped 2 x 3 lattice: every site is a face site, so a filled cloud touches the open faces.
+    writeFileSync(path, JSON.stringify({ name: 'w', energyUnit: 'U', lattice: { shape: [2, 3] }, hubbard: { hopping: 0.02 }, trap: { coefficient: 0.01 }, disorder: { kind: 'box', width: 0.1, seed: 'w' }, particles: { chemicalPotential: 0.5 }, truncation: { nmax: 3 } }));
+    const prepared = prepareScenario(path);
+    const plan = planBlocks(2, 2);
+    const bins = histogramBins(3, 2);
+    const p = createBlockPartial(blockRange(plan, 0), 6, bins);
+    for (const r of [0, 1]) {
+      addRealisation(p, {
+        record: { index: r, converged: r === 0, sweeps: 1, nmaxUsed: 3, mu: 0.5, temperature: 0, atoms: 6, condensedAtoms: 0, superfluidSpans: false, superfluidClusters: 0, largestClusterSites: 0, phaseSites: [0, 0, 6, 0, 0] },
+        density: new Float64Array(6).fill(1),
+        condensateDensity: new Float64Array(6),
+        phaseCodes: new Uint8Array(6).fill(PhaseCode.mott),
+      }, bins);
+    }
+    const total = combineBlocks([p], bins);
+    const outcome: EnsembleOutcome = { scenario: prepared.scenario, scenarioHash: scenarioHash(prepared.scenario), baseSeed: 'w', plan, bins, context: ensembleContextOf(prepared.resolved), total, stats: ensembleStatistics(total), provenance: { kind: 'test' } };
+    const codes = ensembleWarnings(outcome).map((w) => w.code);
+    expect(codes).toEqual(['not-converged', 'cloud-at-edge']);
+    expect(ensembleWarnings(outcome)[0].message).toMatch(/1 of 2 realisations did not converge \(indices 1\)/);
+    // The same cloud without a trap: the faces are walls by design, only the convergence warning stays.
+    const untrapped = { ...outcome, scenario: { ...outcome.scenario, trap: undefined } } as unknown as EnsembleOutcome;
+    expect(ensembleWarnings(untrapped).map((w) => w.code)).toEqual(['not-converged']);
   });
 });

@@ -21,7 +21,7 @@ import { landscapeFileHashes, scenarioHash } from '../../scenario/scenarioHash.j
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import { writeShardBlock, writeShardHeader, type EnsembleIdentity, type ShardBlockEntry } from '../../output/ensembleShard.js';
 import { shardFolderName } from '../../output/shardSet.js';
-import { writeEnsembleFiles, type EnsembleOutcome } from '../../output/ensembleOutputs.js';
+import { ensembleWarnings, writeEnsembleFiles, type EnsembleOutcome } from '../../output/ensembleOutputs.js';
 import { buildEnsembleReport } from '../../report/ensembleReport.js';
 import { toolVersion } from '../../output/toolVersion.js';
 import type { CommandContext } from '../main.js';
@@ -214,6 +214,7 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
     writeEnsembleFiles(outcome, folder, (images) => renderReportHtml(buildEnsembleReport(outcome, images, createdIso, [`one run, ${threadNote}, ${seconds.toFixed(1)} s`]))),
   );
   reportCommit(commit);
+  for (const w of ensembleWarnings(outcome)) process.stderr.write(`tiercake: warning: ${w.code}: ${w.message}\n`);
   const lines = [
     `${scenario.name}: ${stats.realisations} realisations in ${seconds.toFixed(1)} s (${threadNote})` + (notConverged > 0 ? `, ${notConverged} NOT CONVERGED` : ', all converged'),
     `  superfluid spans the cloud in ${stats.spanningRealisations} of ${stats.realisations} (fraction ${stats.spanningFraction.toFixed(3)} ± ${stats.spanningFractionError.toFixed(3)})`,

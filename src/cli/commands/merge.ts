@@ -19,7 +19,7 @@ import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
 import { findShardFolders, readShardBlock, readShardHeader, SHARD_HEADER_FILE } from '../../output/ensembleShard.js';
 import { checkShardSet } from '../../output/shardSet.js';
-import { writeEnsembleFiles, type EnsembleOutcome } from '../../output/ensembleOutputs.js';
+import { ensembleWarnings, writeEnsembleFiles, type EnsembleOutcome } from '../../output/ensembleOutputs.js';
 import { buildEnsembleReport } from '../../report/ensembleReport.js';
 import { declare, readOptions, type RawOptions } from '../options.js';
 import { outputTarget, reportCommit } from '../outputOption.js';
@@ -84,6 +84,7 @@ export async function runMergeCommand(paths: readonly string[], raw: RawOptions)
     writeEnsembleFiles(outcome, folder, (images) => renderReportHtml(buildEnsembleReport(outcome, images, createdIso, [line]))),
   );
   reportCommit(commit);
+  for (const w of ensembleWarnings(outcome)) process.stderr.write(`tiercake: warning: ${w.code}: ${w.message}\n`);
   if (!o.quiet) {
     process.stdout.write(
       `${header.scenarioName}: merged ${shards.length} shard${shards.length === 1 ? '' : 's'}, ${stats.realisations} realisations in ${plan.blockCount} blocks` +
