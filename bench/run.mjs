@@ -202,8 +202,7 @@ if (want('compare')) {
   const { solveScenario } = await import('../dist/pipeline/solveScenario.js');
   const { solvePictures } = await import('../dist/pipeline/solvePictures.js');
   const { runCompareFit } = await import('../dist/pipeline/compareFit.js');
-  const { decodeMeasuredImage } = await import('../dist/imaging/measuredImage.js');
-  const { encodeNpy } = await import('../dist/formats/npy.js');
+  const { measuredFromGrid } = await import('../dist/imaging/measuredImage.js');
   const dir = mkdtempSync(join(tmpdir(), 'tiercake-bench-'));
   const path = join(dir, 'layer84.json');
   const countsPerAtom = 100;
@@ -220,11 +219,11 @@ if (want('compare')) {
       camera: { cameraPixelUm: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom, seed: 'bench' } },
     }),
   );
-  // The measured image: one noisy exposure of the scenario itself, as counts in a .npy.
+  // The measured image: one noisy exposure of the scenario itself, whole detected counts.
   const truth = await solveScenario(prepareScenario(path), { threads: 1 });
   const shot = solvePictures(truth).pictures.find((p) => p.name === 'in_situ_shot').picture;
-  const counts = Float64Array.from(shot.values, (v) => Math.round(v * countsPerAtom));
-  const measured = decodeMeasuredImage(encodeNpy(counts, [shot.nx, shot.ny]), 'shot.npy', { pixelUm: shot.pixelUm, countsPerAtom });
+  const shotAtoms = Float64Array.from(shot.values, (v) => Math.round(v * countsPerAtom) / countsPerAtom);
+  const measured = measuredFromGrid({ values: shotAtoms, nx: shot.nx, ny: shot.ny }, { pixelUm: shot.pixelUm, countsPerAtom });
   let solveBest = Infinity;
   let fitBest = Infinity;
   let fit;

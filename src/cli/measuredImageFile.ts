@@ -1,12 +1,12 @@
-// Reading the measured image `compare` is given: the file's bytes (a .npy or a greyscale
-// PNG, decoded by src/imaging/measuredImage.ts) and, for tiercake's own pictures, the scale
-// in the JSON sidecar next to it (used when --counts-per-atom or --pixel-um is missing).
-// Every problem is an InputError naming the option or the file.
+// The scale of tiercake's own pictures, read from the JSON sidecar next to them (used by
+// `compare` when --counts-per-atom or --pixel-um is missing). The frames themselves are read
+// by cameraFrames.ts.
+//
+// What a sidecar gives: the 16-bit PNG stores grey levels, atoms = grey x atomsPerGreyLevel,
+// so its counts per atom are 1 / atomsPerGreyLevel; the float .npy of the same picture holds
+// atoms per pixel (`quantity` 'atoms per pixel'), so its counts per atom are 1.
 
-import { existsSync, readFileSync, statSync } from 'node:fs';
-import { basename } from 'node:path';
-import { decodeMeasuredImage, MeasuredImageError, type MeasuredImage } from '../imaging/measuredImage.js';
-import { InputError } from '../scenario/inputError.js';
+import { existsSync, readFileSync } from 'node:fs';
 
 export interface SidecarScale {
   countsPerAtom?: number;
@@ -16,17 +16,6 @@ export interface SidecarScale {
   lengthUnit?: 'um' | 'sites';
   file: string;
 }
-
-export interface MeasuredImageRequest {
-  path: string;
-  countsPerAtom?: number;
-  pixelUm?: number;
-  rotateDeg: number;
-  flipX: boolean;
-}
-
-/** Largest image file read (a 16k x 16k float64 frame is 2 GiB; a camera frame is far smaller). */
-const MAX_IMAGE_BYTES = 1 << 30;
 
 /** tiercake's own pictures carry their scale in a JSON sidecar: use it when options are missing. */
 export function readSidecar(imagePath: string): SidecarScale | null {
@@ -44,44 +33,14 @@ export function readSidecar(imagePath: string): SidecarScale | null {
     // the pixel is in micrometres; earlier versions wrote pixelUm in either unit.
     const unit = data?.lengthUnit === 'um' || data?.lengthUnit === 'sites' ? data.lengthUnit : undefined;
     const pixel = unit !== undefined && typeof data?.pixelSize === 'number' ? data.pixelSize : data?.pixelUm;
+    const atomsArray = /\.npy$/i.test(imagePath) && data?.quantity === 'atoms per pixel';
     return {
       file,
       ...(typeof perLevel === 'number' && perLevel > 0 && /\.png$/i.test(imagePath) ? { countsPerAtom: 1 / perLevel } : {}),
+      ...(atomsArray ? { countsPerAtom: 1 } : {}),
       ...(typeof pixel === 'number' && pixel > 0 ? { pixelUm: pixel } : {}),
       ...(unit !== undefined ? { lengthUnit: unit } : {}),
     };
   }
   return null;
-}
-
-export function readMeasuredImage(request: MeasuredImageRequest): { image: MeasuredImage; sidecar: SidecarScale | null } {
-  const path = request.path;
-  let bytes: Uint8Array;
-  try {
-    const st = statSync(path);
-    if (!st.isFile()) throw new InputError(`--image: ${path} is not a regular file; give the measured image (.npy or PNG)`);
-    if (st.size > MAX_IMAGE_BYTES) throw new InputError(`--image: ${path} is ${st.size} bytes, more than a camera frame can be (limit ${MAX_IMAGE_BYTES}); is this the right file?`);
-    bytes = readFileSync(path);
-  } catch (err) {
-    if (err instanceof InputError) throw err;
-    throw new InputError(`--image: ${path} was not found or cannot be read; check the path`);
-  }
-  const sidecar = request.countsPerAtom === undefined || request.pixelUm === undefined ? readSidecar(path) : null;
-  const pixelUm = request.pixelUm ?? sidecar?.pixelUm;
-  if (pixelUm === undefined) {
-    throw new InputError('--pixel-um: give the pixel size in the object plane (camera pixel / magnification), in µm (lattice spacings in dimensionless mode)');
-  }
-  const countsPerAtom = request.countsPerAtom ?? sidecar?.countsPerAtom;
-  try {
-    const image = decodeMeasuredImage(bytes, basename(path), {
-      pixelUm,
-      rotateDeg: request.rotateDeg,
-      flipX: request.flipX,
-      ...(countsPerAtom !== undefined ? { countsPerAtom } : {}),
-    });
-    return { image, sidecar };
-  } catch (err) {
-    if (err instanceof MeasuredImageError) throw new InputError(err.message);
-    throw err;
-  }
 }

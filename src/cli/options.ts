@@ -37,13 +37,61 @@ export const OPTION_TABLE = {
   quiet: { flags: '-q, --quiet', help: 'no progress output', kind: 'flag' },
   jsonProgress: { flags: '--json-progress', help: 'progress as one JSON object per line on stderr', kind: 'flag' },
   resume: { flags: '--resume [checkpoint]', help: 'continue an interrupted run from its checkpoint (default: <out>.checkpoint)', kind: 'optionalText' },
-  // compare
-  image: { flags: '-i, --image <file>', help: 'measured image: .npy (atoms per pixel, axis 0 = x) or greyscale PNG (grey levels = counts)', kind: 'text' },
+  // compare: what was measured
+  image: {
+    flags: '-i, --image <source>',
+    help:
+      'measured picture(s): a file (TIFF, FITS, .npy, 16-bit PNG; HDF5 as file.h5:/dataset), a comma-separated list or a folder, read as a[row, col] with row 0 at the top; ' +
+      'a multi-page file or 3D array is a stack of shots; needs --counts-per-atom unless it is tiercake\'s own picture with its sidecar',
+    kind: 'text',
+  },
   countsPerAtom: {
     flags: '--counts-per-atom <x>',
-    help: 'detected counts per atom (required for PNG; for .npy: values are counts)',
+    help: 'detected counts per atom of --image (1 for a picture already in atoms per pixel); required for --image unless tiercake\'s own sidecar gives it',
     kind: 'real',
     range: positive(undefined, 'the detected counts per atom'),
+  },
+  backgroundFrame: {
+    flags: '--background-frame <source>',
+    help: 'frame(s) without atoms, subtracted from --image before dividing by --counts-per-atom (one for every shot, or one per shot)',
+    kind: 'text',
+  },
+  absorptionFrames: {
+    flags: '--absorption-frames <atoms,probe[,dark]>',
+    help:
+      'absorption imaging from raw frames: with atoms, probe only and optionally dark, each a source as for --image (one frame or one per shot); ' +
+      'OD = ln((I_atoms - I_dark) / (I_probe - I_dark)), sigma0 from the species\' D2 line',
+    kind: 'text',
+  },
+  saturationCounts: {
+    flags: '--saturation-counts <c>',
+    help: 'counts per pixel and exposure that correspond to the saturation intensity: adds the term (I0 - I)/I_sat (Reinaudi et al. 2007); without it plain Beer-Lambert, said in the output',
+    kind: 'real',
+    range: positive('counts', 'the counts at the saturation intensity'),
+  },
+  alpha: { flags: '--alpha <a>', help: "Reinaudi's alpha, the factor on ln(I0/I) (default 1)", kind: 'real', range: positive(undefined, 'the factor alpha') },
+  odLimit: {
+    flags: '--od-limit <od>',
+    help: 'largest usable optical depth ln(I0/I); pixels above it (or without transmitted light) are masked and counted (default 4)',
+    kind: 'real',
+    range: positive(undefined, 'the optical-depth limit'),
+  },
+  minProbeCounts: {
+    flags: '--min-probe-counts <c>',
+    help: 'least dark-subtracted probe counts for a pixel to be used; weaker ones are masked and counted (default 20)',
+    kind: 'real',
+    range: positive('counts', 'the least probe counts'),
+  },
+  crossSection: {
+    flags: '--cross-section <s>',
+    help: "resonant cross-section sigma0 in the length unit squared (µm^2; lattice spacings^2 in dimensionless mode); default 3 lambda^2 / 2 pi of the species' D2 line",
+    kind: 'real',
+    range: positive('length unit squared', 'the cross-section'),
+  },
+  shots: {
+    flags: '--shots <folder|list>',
+    help: 'shot files processed together (a folder or a comma-separated list); --absorption-frames, --image and --background-frame then name frames inside each file: HDF5 dataset paths (/atoms) or frame indices (0,1,2)',
+    kind: 'text',
   },
   pixelUm: {
     flags: '--pixel-um <x>',
@@ -51,11 +99,48 @@ export const OPTION_TABLE = {
     kind: 'real',
     range: positive('µm', 'the object-plane pixel size'),
   },
-  rotate: { flags: '--rotate <deg>', help: 'rotate the measured image counter-clockwise by 0, 90, 180 or 270 degrees', kind: 'integer', range: { min: -270, max: 270 } },
-  flipX: { flags: '--flip-x', help: 'mirror the measured image left-right (before rotating)', kind: 'flag' },
-  fit: { flags: '--fit <list>', help: 'parameters to fit: atoms or atoms,temperature', kind: 'text' },
+  // compare: clean-up and orientation of the frames
+  region: { flags: '--region <x0,y0,width,height>', help: 'keep only this rectangle of the frames: first column, first row (from the top), width and height in pixels', kind: 'text' },
+  regionMask: { flags: '--region-mask <file>', help: 'mask picture of the frame size: pixels that are 0 are left out', kind: 'text' },
+  hotPixels: { flags: '--hot-pixels', help: 'replace hot and dead pixels of the raw frames by the median of their neighbours (beyond 10 median absolute deviations)', kind: 'flag' },
+  backgroundBorder: {
+    flags: '--background-border <n>',
+    help: 'fit a background plane a + b x + c y to a border of n pixels (of the region) and subtract it',
+    kind: 'integer',
+    range: { min: 1, max: 10_000 },
+  },
+  transpose: { flags: '--transpose', help: 'swap rows and columns of the measured frames (first, after --region)', kind: 'flag' },
+  flipX: { flags: '--flip-x', help: 'mirror the measured frames left-right (after --transpose)', kind: 'flag' },
+  flipY: { flags: '--flip-y', help: 'mirror the measured frames top-bottom (after --flip-x)', kind: 'flag' },
+  rotate: {
+    flags: '--rotate <deg>',
+    help: 'rotate the measured frames counter-clockwise as displayed, by any angle in degrees (area-conserving resampling; multiples of 90 are exact), last',
+    kind: 'real',
+    range: { min: -360, max: 360, unit: 'degrees', what: 'the rotation angle' },
+  },
+  // compare: the fit and what is read off the pictures
+  fit: {
+    flags: '--fit <list>',
+    help: 'parameters to fit, comma-separated, each optionally name=lower:upper: atoms or mu, temperature or entropy, trap, angle, psf, offset (the trap centre is fitted unless --centre-pixels)',
+    kind: 'text',
+  },
+  centrePixels: { flags: '--centre-pixels <x,y>', help: 'fix the trap centre at this pixel of the given frame (x = column, y = row from the top) instead of fitting it', kind: 'text' },
   maxIterations: { flags: '--max-iterations <n>', help: 'Levenberg-Marquardt steps at most (default 30)', kind: 'integer', range: { min: 1, max: 1000 } },
-  binUm: { flags: '--bin-um <x>', help: 'radial bin width, µm (default: one pixel)', kind: 'real', range: positive('µm', 'the radial bin width') },
+  binUm: { flags: '--bin-um <x>', help: 'radial bin width of the profiles, µm (lattice spacings in dimensionless mode; default: one pixel)', kind: 'real', range: positive('µm', 'the radial bin width') },
+  chiSquarePixels: {
+    flags: '--chi-square-pixels <which>',
+    help: "pixels the reduced chi-square counts: 'signal' (where model or data stand above the noise; default) or 'all'",
+    kind: 'choice',
+    values: ['signal', 'all'],
+  },
+  bootstrap: { flags: '--bootstrap <n>', help: 'bootstrap resamples over the shots of a stack (default 200; 0: none)', kind: 'integer', range: { min: 0, max: 100_000 } },
+  eosBinSites: { flags: '--eos-bin-sites <w>', help: 'radial bin of the equation of state, trap-scaled lattice sites (default 1)', kind: 'real', range: positive('sites', 'the bin width') },
+  thermometryBinSites: {
+    flags: '--thermometry-bin-sites <w>',
+    help: 'radial bin of the fluctuation thermometry, trap-scaled lattice sites (default: the larger of 1 and 3 PSF sigmas)',
+    kind: 'real',
+    range: positive('sites', 'the bin width'),
+  },
   // diagram
   zjMax: { flags: '--zj-max <x>', help: 'largest zJ/U shown', kind: 'real', range: { min: 0, minOpen: true, max: 10 } },
   mu: { flags: '--mu <from:to>', help: 'range of mu/U', kind: 'text' },

@@ -1,4 +1,5 @@
-// Line plots as SVG: series with optional markers and symmetric error bars, linear or log
+// Line plots as SVG: series with optional markers, symmetric error bars and shaded bands
+// (y +- band, drawn under the line in the series colour at 20 % opacity), linear or log
 // axes, dashed reference lines with labels. Non-finite points, and non-positive ones on a
 // log axis, break the line instead of being drawn (a note counts the hidden ones).
 // Axis limits: the data range rounded to d3's nice values. A quantity whose values are all
@@ -87,6 +88,7 @@ export function renderLinePlotSvg(spec: LinePlotSpec, options: SvgFigureOptions 
   spec.series.forEach((s, k) => {
     if (s.x.length !== s.y.length) throw new RangeError(`series[${k}] '${s.label}': x has ${s.x.length} values but y has ${s.y.length}`);
     if (s.yErr && s.yErr.length !== s.y.length) throw new RangeError(`series[${k}] '${s.label}': yErr has ${s.yErr.length} values but y has ${s.y.length}`);
+    if (s.band && s.band.length !== s.y.length) throw new RangeError(`series[${k}] '${s.label}': band has ${s.band.length} values but y has ${s.y.length}`);
     for (let i = 0; i < s.y.length; i++) {
       const xv = s.x[i]!;
       const yv = s.y[i]!;
@@ -98,7 +100,7 @@ export function renderLinePlotSvg(spec: LinePlotSpec, options: SvgFigureOptions 
       xRange.add(xv);
       yRange.add(yv);
       yValues.add(yv);
-      const err = s.yErr ? Math.abs(s.yErr[i]!) : 0;
+      const err = Math.max(s.yErr ? Math.abs(s.yErr[i]!) : 0, s.band ? Math.abs(s.band[i]!) : 0);
       if (err > 0 && Number.isFinite(err)) {
         yRange.add(yv + err);
         yRange.add(yv - err);
@@ -172,6 +174,30 @@ export function renderLinePlotSvg(spec: LinePlotSpec, options: SvgFigureOptions 
     }
     const d = segments.join('') || `M${px(left)} ${px(bottom)}`;
     const parts: string[] = [`<g class="series-group" data-series="${k}">`];
+    if (s.band) {
+      // One closed polygon per run of points with a finite line and band: upper edge out, lower edge back.
+      const polygons: string[] = [];
+      let run: Array<[number, number, number]> = [];
+      const flush = () => {
+        if (run.length >= 2) {
+          const upper = run.map(([sx, hi], i) => `${i === 0 ? 'M' : 'L'}${px(sx)} ${px(hi)}`).join('');
+          const lower = run.slice().reverse().map(([sx, , lo]) => `L${px(sx)} ${px(lo)}`).join('');
+          polygons.push(`${upper}${lower}Z`);
+        }
+        run = [];
+      };
+      for (let i = 0; i < s.y.length; i++) {
+        const yv = s.y[i]!;
+        const half = Math.abs(s.band[i]!);
+        const sx = x.map(s.x[i]!);
+        const hi = y.map(yv + half);
+        const lo = y.kind === 'log' && yv - half <= 0 ? bottom + 4 : y.map(yv - half);
+        if (!Number.isFinite(sx) || !Number.isFinite(hi) || !Number.isFinite(lo)) flush();
+        else run.push([sx, hi, lo]);
+      }
+      flush();
+      if (polygons.length > 0) parts.push(`<path class="band" d="${polygons.join('')}" fill="${style.color}" fill-opacity="0.2" stroke="none"/>`);
+    }
     if (errorBars.length > 0) parts.push(`<path class="error-bars" d="${errorBars.join('')}" fill="none" stroke="${style.color}" stroke-width="1"/>`);
     if (style.line !== 'none') {
       const dash = dashFor(style.line);

@@ -24,6 +24,8 @@ export interface LineSeries {
   y: ArrayLike<number>;
   /** Symmetric one-sigma error bars, same length as y. */
   yErr?: ArrayLike<number>;
+  /** Half-width of a shaded band y +- band around the line (e.g. a model's uncertainty), same length as y. */
+  band?: ArrayLike<number>;
   style?: SeriesStyle;
 }
 

@@ -3,10 +3,14 @@
 // (colour bar, scale bar, title). Writers only: the picture itself comes from
 // the camera model (src/imaging/cameraPictures.ts) or the compare fit.
 //
-// Orientation, the same in every file: the .npy has shape (nx, ny) with axis 0 = image x
-// (the project's grid convention); both PNGs show x to the right and y upwards, so array
-// element (i, j) is PNG column i, row ny - 1 - j (rows counted from the top, PNG
-// specification section 4.1). The sidecar states this and where pixel (0, 0) sits.
+// Orientation, the same in every file: the camera convention a[row, col], column = image x
+// growing to the right, row = image y with row 0 at the top (y grows upwards, rows count
+// downwards), as camera software, numpy's imshow and the PNG specification (section 4.1:
+// rows from the top) have it. The .npy has shape (ny, nx), the 16-bit PNG and the colour
+// PNG show the same layout, so picture point (x index i, y index j) is array element
+// [ny - 1 - j, i] in all three. The sidecar states this (`arrayOrder`, `orientation`) and
+// where the bottom-left pixel sits. (Lattice fields under fields/ keep the lattice's axis
+// order (x, y, z); only pictures follow the camera.)
 //
 // Grey levels: grey = round(value / atomsPerGreyLevel), clipped to 0 .. 65535. When the
 // picture holds whole detected counts (a noisy exposure with c counts per atom) and they
@@ -78,7 +82,10 @@ export function quantiseGray16(values: Float64Array, countsPerAtom?: number): { 
   return { gray, atomsPerGreyLevel, clippedPixels };
 }
 
-/** Array element (i, j) -> PNG sample at column i, row ny - 1 - j (x right, y up). */
+/** The one statement of the picture layout, written into every sidecar. */
+export const PICTURE_ARRAY_ORDER = 'row = y (top first), column = x';
+
+/** Picture element (i, j) (x index i, y index j, y up) -> sample at column i, row ny - 1 - j from the top. */
 export function toPngRowOrder<T extends Uint16Array | Float64Array>(values: T, nx: number, ny: number, out: T): T {
   for (let i = 0; i < nx; i++) for (let j = 0; j < ny; j++) out[(ny - 1 - j) * nx + i] = values[i * ny + j];
   return out;
@@ -156,6 +163,7 @@ export function pictureFiles(picture: PixelPicture, d: PictureDescription): Pict
 
   const q = quantiseGray16(values, d.countsPerAtom);
   const rows = toPngRowOrder(q.gray, nx, ny, new Uint16Array(nx * ny));
+  const floatRows = toPngRowOrder(values, nx, ny, new Float64Array(nx * ny));
   let total = 0;
   for (let i = 0; i < values.length; i++) total += values[i];
   const sidecar: Record<string, unknown> = {
@@ -172,11 +180,13 @@ export function pictureFiles(picture: PixelPicture, d: PictureDescription): Pict
     ...lengthEntry('pixelSize', 'pixelUm', picture.pixelUm, d.lengthUnit),
     ...lengthUnitEntries(d.lengthUnit),
     ...lengthEntry('firstPixelCentre', 'firstPixelCentreUm', { x: picture.xCentresUm[0], y: picture.yCentresUm[0] }, d.lengthUnit),
+    arrayOrder: PICTURE_ARRAY_ORDER,
+    shape: [ny, nx],
     origin: 'coordinates are measured from the trap centre (in-situ) or from the zero-momentum point (time of flight)',
     orientation:
-      `the .npy has shape (${nx}, ${ny}), axis 0 = ${d.axisNames[0]}, axis 1 = ${d.axisNames[1]}; ` +
-      `in both PNGs ${d.axisNames[0]} grows to the right and ${d.axisNames[1]} upwards, so element (i, j) is column i, row ${ny - 1} - j from the top; ` +
-      'element (0, 0), the bottom-left pixel, is centred at firstPixelCentre',
+      `camera convention a[row, col]: the .npy has shape (${ny}, ${nx}) (rows, columns), column = ${d.axisNames[0]} growing to the right, ` +
+      `row = ${d.axisNames[1]} with row 0 at the top (${d.axisNames[1]} grows upwards); the 16-bit PNG and the colour PNG show the same layout; ` +
+      `the bottom-left pixel, a[${ny - 1}, 0], is centred at firstPixelCentre`,
     atomsInPicture: total,
     ...(d.countsPerAtom !== undefined ? { countsPerAtom: d.countsPerAtom } : {}),
     ...(d.extra ?? {}),
@@ -192,7 +202,7 @@ export function pictureFiles(picture: PixelPicture, d: PictureDescription): Pict
   return {
     image: { file: colourFile, title: d.title, svg, png: svgToPng(svg) },
     arrays: [
-      { file: npyFile, bytes: encodeNpy(values, [nx, ny]) },
+      { file: npyFile, bytes: encodeNpy(floatRows, [ny, nx]) },
       { file: grayFile, bytes: encodeGray16(nx, ny, rows) },
     ],
     texts: [{ file: sidecarFile, text: `${JSON.stringify(sidecar, null, 2)}\n` }],

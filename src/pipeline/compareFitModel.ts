@@ -12,7 +12,12 @@
 // covariance is carried to N by the Jacobian dN/dmu (compareFit.ts). The temperature
 // parameter is k_B T in the scenario's energy unit. When only the temperature is fitted,
 // the scenario's particles section stays as it is (fixed-N solves keep their root search,
-// started at the nearest solution's mu).
+// started at the nearest solution's mu). When the trap frequency is fitted, the last
+// physics parameter is a common factor f on every trap frequency of the scenario: the
+// harmonic part of the site potential (trapCoefficient, (1/2) m omega^2 a^2 per axis)
+// scales by f^2, eps(f) = eps + (f^2 - 1) eps_trap, the rest of eps (disorder, landscape)
+// stays. The potential arrays are kept per value of f, so that solves at the same f reuse
+// the solver state (runLattice reuses it only for the same eps array).
 //
 // Warm start. The solutions found so far are kept (up to 64, about 64 MB): a new parameter
 // vector starts from the nearest one's order parameter, extrapolated linearly along the
@@ -32,6 +37,7 @@
 // solver's tolerance (1e-8). The fit's final values are always solved exactly (`exact`).
 
 import { maxHopping } from '../lattice/latticeModel.js';
+import { addHarmonicTrap } from '../lattice/harmonicTrap.js';
 import { runLattice, type RunOutcome, type RunRequest, type WarmState } from '../solver/runLattice.js';
 import { createSweepExecutor, type SweepPool } from '../solver/sweepExecutor.js';
 import type { ResolvedScenario } from '../scenario/resolveScenario.js';
@@ -45,6 +51,8 @@ export interface FitPhysics {
   fitsTemperature: boolean;
   /** internal energy of one scenario energy unit (k_B T is given in the scenario's unit) */
   internalPerScenarioUnit: number;
+  /** a common factor on the trap frequencies is a fit parameter (the last physics one) */
+  fitsTrap?: boolean;
 }
 
 /** One evaluation of the model. */
@@ -56,6 +64,12 @@ export interface FitSolution {
   converged: boolean;
   atoms: number;
   condensedAtoms: number;
+  /** entropy per atom, k_B */
+  entropyPerAtom: number;
+  /** factor on the trap frequencies of the scenario (1 unless it is fitted) */
+  trapFactor: number;
+  /** truncation used */
+  nmax: number;
   /** chemical potential and k_B T, internal energy unit */
   muInternal: number;
   kTInternal: number;
@@ -83,8 +97,9 @@ export interface FitModel {
   peek(physics: Float64Array): FitSolution | undefined;
   /**
    * When the atom number is fitted: solve at fixed N = `atoms` (k_B T = kTScenario in the
-   * scenario's unit when the temperature is fitted) and return the physics vector
-   * [muAbove, (kT)] of that solution, stored as the first evaluation and warm start.
+   * scenario's unit when the temperature is fitted, the scenario's trap) and return the
+   * physics vector [muAbove, (kT), (trap factor 1)] of that solution, stored as the first
+   * evaluation and warm start.
    */
   startAtAtoms(atoms: number, kTScenario: number | null): Promise<{ physics: Float64Array; solution: FitSolution }>;
   /** Lattice solves so far. */
@@ -134,8 +149,32 @@ function distance(a: Float64Array, b: Float64Array): number {
   return d;
 }
 
+/** The harmonic part of the scenario's site potential (internal energy unit). */
+export function harmonicTrapPotential(resolved: ResolvedScenario): Float64Array {
+  const eps = new Float64Array(resolved.geometry.siteCount);
+  if (resolved.trapCoefficient.some((k) => k > 0)) addHarmonicTrap(resolved.geometry, { coefficient: resolved.trapCoefficient, centre: resolved.trapCentre }, eps);
+  return eps;
+}
+
 export function createFitModel(resolved: ResolvedScenario, physics: FitPhysics, options: FitModelOptions): FitModel {
   const base = runRequestOf(resolved);
+  const trapPart = physics.fitsTrap ? harmonicTrapPotential(resolved) : null;
+  /** site potentials per trap factor (the same array for the same factor, so warm states carry over) */
+  const epsByFactor = new Map<number, Float64Array>([[1, resolved.model.eps]]);
+  const epsAt = (factor: number): Float64Array => {
+    let eps = epsByFactor.get(factor);
+    if (eps === undefined) {
+      if (trapPart === null) throw new Error('createFitModel: the trap frequency is not a fit parameter');
+      const scale = factor * factor - 1;
+      const baseEps = resolved.model.eps;
+      eps = new Float64Array(baseEps.length);
+      for (let i = 0; i < eps.length; i++) eps[i] = baseEps[i] + scale * trapPart[i];
+      if (epsByFactor.size >= 16) epsByFactor.delete(epsByFactor.keys().next().value as number);
+      epsByFactor.set(factor, eps);
+    }
+    return eps;
+  };
+  const factorOf = (q: Float64Array): number => (physics.fitsTrap ? q[q.length - 1] : 1);
   const muFloor = emptyLatticeEdge(resolved);
   const keep = Math.max(4, Math.min(64, Math.floor(8e6 / Math.max(1, resolved.geometry.siteCount))));
   const threads = threadsFor(resolved.geometry.siteCount, options.threads);
@@ -209,6 +248,9 @@ export function createFitModel(resolved: ResolvedScenario, physics: FitPhysics, 
         converged: anchor.converged && partners.every((p) => p.solution.converged),
         atoms: mix((s) => s.atoms),
         condensedAtoms: mix((s) => s.condensedAtoms),
+        entropyPerAtom: mix((s) => s.entropyPerAtom),
+        trapFactor: mix((s) => s.trapFactor),
+        nmax: Math.max(anchor.nmax, ...partners.map((p) => p.solution.nmax)),
         muInternal: mix((s) => s.muInternal),
         kTInternal: mix((s) => s.kTInternal),
         sweeps: 0,
@@ -226,9 +268,10 @@ export function createFitModel(resolved: ResolvedScenario, physics: FitPhysics, 
         ? { ...resolved.chemical, ...(start ? { muGuess: start.mu } : {}) }
         : resolved.chemical;
     const thermal: RunRequest['thermal'] = physics.fitsTemperature ? { kind: 'temperature', kT: q[j++] * physics.internalPerScenarioUnit } : resolved.thermal;
+    const eps = epsAt(factorOf(q));
     return {
       ...base,
-      model: start ? { ...resolved.model, nmax: start.nmax } : resolved.model,
+      model: { ...resolved.model, eps, ...(start ? { nmax: start.nmax } : {}) },
       chemical,
       thermal,
       // The picture needs the density only.
@@ -247,6 +290,9 @@ export function createFitModel(resolved: ResolvedScenario, physics: FitPhysics, 
       converged: outcome.converged,
       atoms: totals.atoms,
       condensedAtoms: totals.condensedAtoms,
+      entropyPerAtom: totals.atoms > 0 ? totals.entropy / totals.atoms : 0,
+      trapFactor: factorOf(q),
+      nmax: outcome.model.nmax,
       muInternal: outcome.solve.mu,
       kTInternal: outcome.temperature,
       sweeps: outcome.totalSweeps,
@@ -282,7 +328,8 @@ export function createFitModel(resolved: ResolvedScenario, physics: FitPhysics, 
         compressibility: false,
       };
       const outcome = await runLattice(request, makeExecutor);
-      const q = physics.fitsTemperature ? Float64Array.of(outcome.solve.mu - muFloor, kTScenario as number) : Float64Array.of(outcome.solve.mu - muFloor);
+      const values = [outcome.solve.mu - muFloor, ...(physics.fitsTemperature ? [kTScenario as number] : []), ...(physics.fitsTrap ? [1] : [])];
+      const q = Float64Array.from(values);
       return { physics: q, solution: record(q, outcome) };
     },
     peek(physicsVector: Float64Array): FitSolution | undefined {

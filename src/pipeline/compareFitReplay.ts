@@ -26,6 +26,8 @@ export interface ReplayedFit extends LeastSquaresFit {
   distinctEvaluations: number;
   /** Times the fit was run again from the start (one per asynchronous evaluation). */
   replays: number;
+  /** The model values the fit took at `params`, if it evaluated them (e.g. its last Jacobian). */
+  valueAt(params: Float64Array): Float64Array | undefined;
 }
 
 /** Signal thrown through leastSquaresFit when the cache has no value yet. */
@@ -55,7 +57,7 @@ export async function replayLeastSquaresFit(problem: AsyncLeastSquaresProblem, o
   for (let replays = 0; ; replays++) {
     try {
       const fit = leastSquaresFit({ ...plain, model: cachedModel }, options);
-      return { ...fit, distinctEvaluations: cache.size, replays };
+      return { ...fit, distinctEvaluations: cache.size, replays, valueAt: (params) => cache.get(keyOf(params)) };
     } catch (err) {
       if (!(err instanceof NeedsEvaluation)) throw err;
       cache.set(keyOf(err.params), await model(err.params));

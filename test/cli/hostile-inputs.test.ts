@@ -164,7 +164,7 @@ interface HostileCase {
 const solve = (...args: string[]): string[] => ['solve', 'scenario.json', '--threads', '1', '--quiet', ...args];
 const evolve = (...args: string[]): string[] => ['evolve', 'scenario.json', '--threads', '1', '--quiet', '--set', 'evolution={"duration":1}', ...args];
 const scan = (...args: string[]): string[] => ['scan', 'scenario.json', '--threads', '1', '--quiet', '--out', 'new', ...args];
-const compare = (image: string, ...args: string[]): string[] => ['compare', 'scenario.json', '--image', `frames/${image}`, '--pixel-um', '1', '--out', 'cmp', '--threads', '1', '--quiet', ...args];
+const compare = (image: string, ...args: string[]): string[] => ['compare', 'scenario.json', '--image', `frames/${image}`, '--pixel-um', '1', '--counts-per-atom', '1', '--out', 'cmp', '--threads', '1', '--quiet', ...args];
 const disorderScenario = JSON.stringify({
   name: 'hostile-ensemble',
   energyUnit: 'U',
@@ -234,15 +234,25 @@ const cases: HostileCase[] = [
   { title: 'diagram --zj-max 0x1', argv: ['diagram', '--zj-max', '0x1', '--out', 'new'], newOut: 'new', names: /--zj-max: expected a number above 0 and at most 10, got "0x1"/ },
   { title: 'diagram --kt Infinity', argv: ['diagram', '--kt', 'Infinity', '--out', 'new'], newOut: 'new', names: /--kt: expected a number from 0 to 100, got "Infinity"/ },
   { title: 'hubbard --wavelength-nm 1064nm', argv: ['hubbard', '--species', '87Rb', '--wavelength-nm', '1064nm', '--out', 'new'], newOut: 'new', names: /--wavelength-nm: expected the lattice wavelength in nm, a number above 0, got "1064nm"/ },
+  {
+    title: 'compare on a picture without its unit (issue 13: it was read as atoms and fitted 37x off)',
+    argv: compare('zero.npy').filter((a, i, all) => a !== '--counts-per-atom' && all[i - 1] !== '--counts-per-atom'),
+    newOut: 'cmp',
+    names: /--counts-per-atom: the measured picture has no unit; give its detected counts per atom/,
+    child: true,
+  },
+  { title: 'compare --absorption-frames with one frame', argv: ['compare', 'scenario.json', '--absorption-frames', 'frames/zero.npy', '--pixel-um', '1', '--out', 'cmp', '--quiet'], newOut: 'cmp', names: /--absorption-frames: expected WITH_ATOMS,PROBE_ONLY\[,DARK\]/ },
+  { title: 'compare --absorption-frames in dimensionless mode without a cross-section', argv: ['compare', 'scenario.json', '--absorption-frames', 'frames/zero.npy,frames/zero.npy', '--pixel-um', '1', '--out', 'cmp', '--quiet'], newOut: 'cmp', names: /--cross-section: absorption frames need the resonant cross-section sigma0; in dimensionless mode/ },
   { title: 'compare --max-iterations 3.5', argv: compare('zero.npy', '--max-iterations', '3.5'), newOut: 'cmp', names: /--max-iterations: expected a whole number from 1 to 1000, got "3\.5"/ },
-  { title: 'compare --pixel-um 0x2', argv: compare('zero.npy').map((a) => (a === '1' ? '0x2' : a)), newOut: 'cmp', names: /--pixel-um: expected the object-plane pixel size in µm, a number above 0, got "0x2"/ },
-  { title: 'a .npy with a negative shape', argv: compare('negative-shape.npy'), newOut: 'cmp', names: /negative-shape\.npy: the shape holds "-16"; every axis length must be a non-negative integer/ },
-  { title: 'a .npy with a non-numeric shape', argv: compare('word-shape.npy'), newOut: 'cmp', names: /word-shape\.npy: the shape holds "sixteen"/ },
-  { title: 'a .npy shorter than its shape', argv: compare('short-data.npy'), newOut: 'cmp', names: /short-data\.npy: the header's shape \(16, 16\) of <f8 needs 2048 data bytes, the file holds 1600/ },
-  { title: 'a .npy in Fortran order', argv: compare('fortran.npy'), newOut: 'cmp', names: /fortran\.npy: the array is stored in Fortran order/ },
-  { title: 'a .npy of complex numbers', argv: compare('complex.npy'), newOut: 'cmp', names: /complex\.npy: dtype "<c16" is not supported/ },
-  { title: 'a .npy with a broken header dict', argv: compare('broken-dict.npy'), newOut: 'cmp', names: /broken-dict\.npy: the header dict is malformed/ },
-  { title: 'a .npy header with an unknown key', argv: compare('extra-key.npy'), newOut: 'cmp', names: /extra-key\.npy: the header dict has the unknown key 'x'/ },
+  { title: 'compare --pixel-um 0x2', argv: compare('zero.npy').map((a, i, all) => (all[i - 1] === '--pixel-um' ? '0x2' : a)), newOut: 'cmp', names: /--pixel-um: expected the object-plane pixel size in µm, a number above 0, got "0x2"/ },
+  { title: 'a .npy with a negative shape', argv: compare('negative-shape.npy'), newOut: 'cmp', names: /--image: frames\/negative-shape\.npy: the shape holds "-16"; every axis length must be a non-negative integer/ },
+  { title: 'a .npy with a non-numeric shape', argv: compare('word-shape.npy'), newOut: 'cmp', names: /--image: frames\/word-shape\.npy: the shape holds "sixteen"; every axis length must be a non-negative integer/ },
+  { title: 'a .npy shorter than its shape', argv: compare('short-data.npy'), newOut: 'cmp', names: /short-data\.npy: the header's shape \(16, 16\) of <f8 needs 2048 data bytes, the file holds 1600; the file is truncated/ },
+  // Fortran order is read (by transposing into C order, NEP 1); this one holds a constant frame.
+  { title: 'a .npy in Fortran order holding a constant frame', argv: compare('fortran.npy'), newOut: 'cmp', names: /--image: frames\/fortran\.npy holds no image: every pixel is 1/ },
+  { title: 'a .npy of complex numbers', argv: compare('complex.npy'), newOut: 'cmp', names: /complex\.npy: dtype "<c16" is not supported \(use float64, float32 or an integer type\)/ },
+  { title: 'a .npy with a broken header dict', argv: compare('broken-dict.npy'), newOut: 'cmp', names: /broken-dict\.npy: the header dict is malformed: expected ',' or '}' after a value/ },
+  { title: 'a .npy header with an unknown key', argv: compare('extra-key.npy'), newOut: 'cmp', names: /extra-key\.npy: the header dict has the unknown key 'x' \(expected descr, fortran_order and shape\)/ },
   // evolve (issue 18): the same folder rules, its own option and section checks
   { title: 'evolve --out names a folder of unrelated files', argv: evolve('--out', 'thesis'), names: /--out thesis: the folder exists and was not written by tiercake.*--force/ },
   { title: 'evolve --modulation-frequencies 0x1:2:3', argv: evolve('--modulation-frequencies', '0x1:2:3', '--out', 'new'), newOut: 'new', names: /--modulation-frequencies \(from\): expected .*got "0x1"/ },
@@ -253,8 +263,8 @@ const cases: HostileCase[] = [
   { title: '--out under a regular file', argv: solve('--out', 'results.txt/run1'), names: /--out results\.txt\/run1: lies under .*results\.txt, which is a file, not a folder/ },
   { title: '--out under /dev/null', argv: solve('--out', '/dev/null/run1'), names: /--out \/dev\/null\/run1: lies under \/dev\/null, which is a device, not a folder/, child: true },
   { title: '--out /dev/null', argv: solve('--out', '/dev/null'), names: /--out \/dev\/null: is a device, not a folder/ },
-  { title: 'an all-zero measured image', argv: compare('zero.npy'), newOut: 'cmp', names: /--image: zero\.npy holds no image: every pixel is 0/, child: true },
-  { title: 'a .npy header length past the end of the file (compare)', argv: compare('long-header.npy'), newOut: 'cmp', names: /long-header\.npy: the \.npy header length 60018 runs past the end of the file/ },
+  { title: 'an all-zero measured image', argv: compare('zero.npy'), newOut: 'cmp', names: /--image: frames\/zero\.npy holds no image: every pixel is 0/, child: true },
+  { title: 'a .npy header length past the end of the file (compare)', argv: compare('long-header.npy'), newOut: 'cmp', names: /long-header\.npy: the \.npy header length 60018 runs past the end of the file \(2176 bytes\); the file is truncated or damaged/ },
   {
     title: 'a shard whose .npy header length runs past the end of the file (merge)',
     setup: async (dir) => {

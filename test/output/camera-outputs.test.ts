@@ -62,6 +62,12 @@ function arrayOf(pictures: ReturnType<typeof cameraPictures>, file: string): Uin
   return found.bytes;
 }
 
+/** Picture point (x index i, y index j, y up) of a picture .npy stored a[row, col], row 0 at the top. */
+function at(npy: { shape: number[]; data: ArrayLike<number> }, i: number, j: number): number {
+  const [ny, nx] = npy.shape;
+  return npy.data[(ny - 1 - j) * nx + i];
+}
+
 function sidecarOf(pictures: ReturnType<typeof cameraPictures>, file: string): Record<string, unknown> {
   const found = pictures.texts.find((t) => t.file === file);
   if (found === undefined) throw new Error(`missing ${file}`);
@@ -100,7 +106,7 @@ describe('camera pictures conserve atoms', () => {
     const pictures = cameraPictures(cloud, camera);
     const entry = (pictures.summary.pictures as Array<Record<string, number | string>>).find((p) => p.name === 'in_situ');
     const inSitu = decodeNpy(arrayOf(pictures, 'images/in_situ.npy'));
-    expect(inSitu.shape).toEqual([20, 24]);
+    expect(inSitu.shape).toEqual([24, 20]); // rows (y), columns (x): framePixels [x, y] = [20, 24]
     const outside = Number(entry?.atomsOutsideFrame);
     expect(outside).toBeGreaterThan(0);
     expect(Math.abs(sum(inSitu.data) + outside - sum(cloud.density)) / sum(cloud.density)).toBeLessThan(1e-9);
@@ -123,8 +129,9 @@ describe('camera pictures conserve atoms', () => {
 
 describe('16-bit PNG and its sidecar', () => {
   // The PNG is decoded here with pngjs directly (not the project's decoder); the sidecar
-  // promises atoms = grey x atomsPerGreyLevel and element (i, j) at column i, row
-  // ny - 1 - j. Rounding to the nearest grey level errs by at most half a level.
+  // promises atoms = grey x atomsPerGreyLevel and the same layout as the .npy, a[row, col]
+  // with row 0 at the top (PNG rows are stored from the top, PNG specification section
+  // 4.1). Rounding to the nearest grey level errs by at most half a level.
   it('reproduces the float image within half a grey level, and noisy counts exactly', () => {
     const cloud = syntheticCloud([16, 22], 'gray16');
     const camera = CameraSchema.parse({ cameraPixelSites: 0.5, psf: { sigmaSites: 0.6 }, noise: { kind: 'photon', countsPerAtom: 20, seed: 'g' } });
@@ -133,16 +140,17 @@ describe('16-bit PNG and its sidecar', () => {
       const float = decodeNpy(arrayOf(pictures, `images/${name}.npy`));
       const sidecar = sidecarOf(pictures, `images/${name}.json`);
       const png = PNG.sync.read(Buffer.from(arrayOf(pictures, `images/${name}.gray16.png`)), { skipRescale: true });
-      const [nx, ny] = float.shape;
+      const [ny, nx] = float.shape;
       expect([png.width, png.height]).toEqual([nx, ny]);
       expect([sidecar.widthPx, sidecar.heightPx]).toEqual([nx, ny]);
+      expect(sidecar.arrayOrder).toBe('row = y (top first), column = x');
       const scale = Number(sidecar.atomsPerGreyLevel);
       const samples = png.data as unknown as Uint16Array; // RGBA, grey in R (pngjs with skipRescale)
       let worst = 0;
-      for (let i = 0; i < nx; i++) {
-        for (let j = 0; j < ny; j++) {
-          const grey = samples[4 * ((ny - 1 - j) * nx + i)];
-          worst = Math.max(worst, Math.abs(grey * scale - float.data[i * ny + j]));
+      for (let r = 0; r < ny; r++) {
+        for (let c = 0; c < nx; c++) {
+          const grey = samples[4 * (r * nx + c)];
+          worst = Math.max(worst, Math.abs(grey * scale - float.data[r * nx + c]));
         }
       }
       if (name === 'in_situ_shot') {
@@ -184,7 +192,7 @@ describe('parity-projected wedding cake', () => {
     const pictures = cameraPictures(cloudForImaging(solved), camera);
     const expected = decodeNpy(arrayOf(pictures, 'images/parity_expected.npy'));
     const shot = decodeNpy(arrayOf(pictures, 'images/parity_shot.npy'));
-    const [, ny] = expected.shape;
+
     const fillings = new Set<number>();
     let checked = 0;
     for (let x = 0; x < 20; x++) {
@@ -194,9 +202,8 @@ describe('parity-projected wedding cake', () => {
         if (Math.abs(level - Math.round(level)) < 0.05) continue;
         const n = level > 0 ? Math.ceil(level) : 0;
         fillings.add(n);
-        const pixel = (x + 1) * ny + (y + 1);
-        expect(Math.abs(expected.data[pixel] - (n % 2))).toBeLessThan(1e-6);
-        expect(shot.data[pixel]).toBeCloseTo(n % 2, 12);
+        expect(Math.abs(at(expected, x + 1, y + 1) - (n % 2))).toBeLessThan(1e-6);
+        expect(at(shot, x + 1, y + 1)).toBeCloseTo(n % 2, 12);
         checked++;
       }
     }
@@ -235,14 +242,14 @@ describe('time of flight and visibility', () => {
     const sidecar = sidecarOf(pictures, 'images/time_of_flight.json');
     const pixelUm = Number(sidecar.pixelUm);
     const first = sidecar.firstPixelCentreUm as { x: number; y: number };
-    const [nx, ny] = image.shape;
+    const [, nx] = image.shape;
     const peakUm = (h * 15e-3) / (massKg * latticeSpacingUm * 1e-6) * 1e6;
     // Brightest pixel in the right half along the x axis row through k = 0.
     const row0 = Math.round(-first.y / pixelUm);
     let bestX = 0;
     let bestValue = -1;
     for (let i = Math.ceil(nx / 2) + 5; i < nx; i++) {
-      const v = image.data[i * ny + row0];
+      const v = at(image, i, row0);
       if (v > bestValue) {
         bestValue = v;
         bestX = first.x + i * pixelUm;

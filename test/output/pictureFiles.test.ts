@@ -1,9 +1,10 @@
 // The files of one picture (src/output/pictureFiles.ts): 16-bit grey levels store whole
 // detected counts exactly (atomsPerGreyLevel = 1 / counts per atom) and otherwise map the
-// maximum to 65535 with an error of at most half a level; array element (i, j) is PNG
-// column i, row ny - 1 - j (x right, y up; PNG rows counted from the top, PNG specification
-// section 4.1); scale bars are 1-2-5 lengths of at most a fifth of the picture; the sidecar
-// counts the atoms of the picture.
+// maximum to 65535 with an error of at most half a level; picture point (i, j) is column i,
+// row ny - 1 - j from the top (x right, y up; PNG rows counted from the top, PNG
+// specification section 4.1) in the PNGs and in the .npy alike, which is stored a[row, col]
+// with shape (ny, nx); scale bars are 1-2-5 lengths of at most a fifth of the picture; the
+// sidecar counts the atoms of the picture and states the layout.
 
 import { describe, expect, it } from 'vitest';
 import { pictureFiles, quantiseGray16, scaleBarLength, toPngRowOrder } from '../../src/output/pictureFiles.js';
@@ -41,7 +42,12 @@ describe('picture files', () => {
     const files = pictureFiles(picture, { name: 'test', title: 'test picture', description: 'd', axisNames: ['x', 'y'], lengthUnit: latticeSites });
     expect(files.arrays.map((a) => a.file)).toEqual(['images/test.npy', 'images/test.gray16.png']);
     expect(files.image.file).toBe('images/test.png');
-    expect(Array.from(decodeNpy(files.arrays[0].bytes).data)).toEqual(Array.from(values));
+    const npy = decodeNpy(files.arrays[0].bytes);
+    expect(npy.shape).toEqual([3, 4]);
+    // Grid point (i, j) = values[i * 3 + j] sits at row 2 - j, column i.
+    for (let i = 0; i < 4; i++) for (let j = 0; j < 3; j++) expect(npy.data[(2 - j) * 4 + i]).toBe(values[i * 3 + j]);
+    expect(files.sidecar.arrayOrder).toBe('row = y (top first), column = x');
+    expect(files.sidecar.shape).toEqual([3, 4]);
     expect(files.sidecar.atomsInPicture).toBe(values.reduce((s, v) => s + v, 0));
     // Lattice spacings (dimensionless mode): neutral keys with their unit, no key ending in Um.
     expect(files.sidecar.firstPixelCentre).toEqual({ x: -0.75, y: -0.5 });

@@ -1,14 +1,12 @@
 // `tiercake compare` end to end: an image synthesised by tiercake with known N and T and
-// seeded shot noise is fitted back (the round trip asked for in issue 7), plus the pieces
-// it rests on: the measured-image loader (the replayed Levenberg-Marquardt fit has its own
-// file, compareFitReplay.test.ts), and
-// bad input that must stop with a message naming the option and leave no output behind.
+// seeded shot noise is fitted back (the round trip asked for in issue 7), and bad input
+// that must stop with a message naming the option and leave no output behind: a measured
+// picture without its unit (issue 13), a pixel size, a --fit list, a missing file.
 
 import { afterAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { PNG } from 'pngjs';
 import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { solveScenario } from '../../src/pipeline/solveScenario.js';
 import { cameraPictureFiles } from '../../src/output/cameraOutputs.js';
@@ -17,9 +15,7 @@ import { cloudForImaging } from '../../src/pipeline/solvePictures.js';
 import { runCompareCommand } from '../../src/cli/commands/compare.js';
 import { InputError } from '../../src/scenario/inputError.js';
 import { CameraSchema } from '../../src/scenario/imagingSchema.js';
-import { decodeMeasuredImage, orientField, MeasuredImageError } from '../../src/imaging/measuredImage.js';
 import { encodeNpy } from '../../src/formats/npy.js';
-import type { PlanarField } from '../../src/imaging/planarField.js';
 
 const workDir = mkdtempSync(join(tmpdir(), 'tiercake-compare-test-'));
 afterAll(() => rmSync(workDir, { recursive: true, force: true }));
@@ -93,78 +89,24 @@ describe('compare round trip', () => {
   });
 });
 
-describe('measured image loader', () => {
-  // Orientation by hand: a marker at (x, y) = (2, 0) on a 4 x 3 grid. Counter-clockwise
-  // rotation by 90 degrees with x right and y up maps (x, y) -> (-y, x), shifted into
-  // the 3 x 4 grid: (3 - 1 - 0, 2) = (2, 2). Mirroring x first sends it to (1, 0).
-  it('rotates counter-clockwise and mirrors as documented', () => {
-    const values = new Float64Array(12);
-    values[2 * 3 + 0] = 7;
-    const rotated = orientField({ values, nx: 4, ny: 3 }, 90, false);
-    expect([rotated.nx, rotated.ny]).toEqual([3, 4]);
-    expect(rotated.values[2 * 4 + 2]).toBe(7);
-    const mirrored = orientField({ values, nx: 4, ny: 3 }, 0, true);
-    expect(mirrored.values[1 * 3 + 0]).toBe(7);
-    // Four quarter turns are the identity; two are the half turn.
-    let field: PlanarField = { values, nx: 4, ny: 3 };
-    for (let k = 0; k < 4; k++) field = orientField(field, 90, false);
-    expect(Array.from(field.values)).toEqual(Array.from(values));
-    const twice = orientField(orientField({ values, nx: 4, ny: 3 }, 90, false), 90, false);
-    expect(Array.from(twice.values)).toEqual(Array.from(orientField({ values, nx: 4, ny: 3 }, 180, false).values));
-  });
-
-  it('reads a PNG as displayed (column = x, row from the top = -y) and divides by the counts per atom', () => {
-    // A 5 x 4 16-bit greyscale PNG written with pngjs, one bright pixel at column 3, row 0.
-    const png = new PNG({ width: 5, height: 4, bitDepth: 16, colorType: 0, inputColorType: 0, inputHasAlpha: false });
-    const grey = new Uint16Array(20);
-    grey[0 * 5 + 3] = 600;
-    png.data = Buffer.from(grey.buffer);
-    const bytes = PNG.sync.write(png, { bitDepth: 16, colorType: 0, inputColorType: 0, inputHasAlpha: false });
-    const image = decodeMeasuredImage(new Uint8Array(bytes), 'frame.png', { pixelUm: 0.5, countsPerAtom: 200 });
-    expect([image.nx, image.ny]).toEqual([5, 4]);
-    expect(image.values[3 * 4 + 3]).toBeCloseTo(3, 12); // x = 3, y = 4 - 1 - 0
-    expect(image.totalAtoms).toBeCloseTo(3, 12);
-  });
-
-  it('reads integer .npy frames and names the option at fault', () => {
-    // An int32 .npy written by the project's writer, read as counts with 4 per atom.
-    const counts = Int32Array.from({ length: 12 }, (_, i) => 4 * i);
-    const npy = encodeNpy(counts, [3, 4]);
-    const image = decodeMeasuredImage(npy, 'counts.npy', { pixelUm: 1, countsPerAtom: 4 });
-    expect(Array.from(image.values)).toEqual(Array.from({ length: 12 }, (_, i) => i));
-    const pngBytes = PNG.sync.write(Object.assign(new PNG({ width: 4, height: 4 }), {}));
-    const fail = (f: () => unknown, option: string) => {
-      try {
-        f();
-      } catch (err) {
-        expect(err).toBeInstanceOf(MeasuredImageError);
-        expect((err as MeasuredImageError).option).toBe(option);
-        expect((err as Error).message.startsWith(option)).toBe(true);
-        return;
-      }
-      throw new Error(`expected an error naming ${option}`);
-    };
-    fail(() => decodeMeasuredImage(new Uint8Array(pngBytes), 'rgba.png', { pixelUm: 1 }), '--counts-per-atom');
-    fail(() => decodeMeasuredImage(new Uint8Array(pngBytes), 'rgba.png', { pixelUm: 1, countsPerAtom: 1 }), '--image'); // colour PNG
-    fail(() => decodeMeasuredImage(npy, 'counts.npy', { pixelUm: 1, rotateDeg: 45 }), '--rotate');
-    fail(() => decodeMeasuredImage(npy, 'counts.npy', { pixelUm: 0 }), '--pixel-um');
-    fail(() => decodeMeasuredImage(encodeNpy(new Float64Array([1, NaN, 2, 3, 4, 5, 6, 7, 8]), [3, 3]), 'nan.npy', { pixelUm: 1 }), '--image');
-    fail(() => decodeMeasuredImage(new TextEncoder().encode('hello, not an image'), 'notes.txt', { pixelUm: 1 }), '--image');
-  });
-});
-
 describe('compare refuses bad input', () => {
-  it('needs a pixel size for an .npy without sidecar, and writes nothing', async () => {
+  it('needs the unit and the pixel size of an .npy without sidecar, a valid --fit list and an existing file; writes nothing', async () => {
     const frame = join(workDir, 'bare.npy');
-    writeFileSync(frame, encodeNpy(new Float64Array(64).fill(1), [8, 8]));
+    writeFileSync(frame, encodeNpy(Float64Array.from({ length: 64 }, (_, i) => i % 7), [8, 8]));
     const out = join(workDir, 'never');
-    await expect(runCompareCommand(scenarioPath, { image: frame, set: [], out, threads: '1', quiet: true })).rejects.toThrow(InputError);
-    await expect(runCompareCommand(scenarioPath, { image: frame, set: [], out, threads: '1', quiet: true })).rejects.toThrow(/--pixel-um/);
-    await expect(
-      runCompareCommand(scenarioPath, { image: frame, pixelUm: '1', fit: 'atoms,entropy', set: [], out, threads: '1', quiet: true }),
-    ).rejects.toThrow(/--fit/);
-    await expect(runCompareCommand(scenarioPath, { image: join(workDir, 'missing.npy'), pixelUm: '1', set: [], out, threads: '1', quiet: true })).rejects.toThrow(
-      /--image/,
+    const run = (extra: Record<string, string | boolean | string[]>) => runCompareCommand(scenarioPath, { image: frame, set: [], out, threads: '1', quiet: true, ...extra });
+    // Issue 13: a picture without its unit used to be read as atoms and "fit" 37x off; now refused, naming the option.
+    await expect(run({ pixelUm: '1' })).rejects.toThrow(InputError);
+    await expect(run({ pixelUm: '1' })).rejects.toThrow(/^--counts-per-atom: the measured picture has no unit/);
+    await expect(run({ countsPerAtom: '10' })).rejects.toThrow(/^--pixel-um/);
+    await expect(run({ pixelUm: '1', countsPerAtom: '10', fit: 'atoms,entropy,temperature' })).rejects.toThrow(/^--fit: temperature and entropy are the same parameter/);
+    await expect(run({ pixelUm: '1', countsPerAtom: '10', fit: 'atoms=300:100' })).rejects.toThrow(/^--fit: the bounds of atoms must be lower:upper/);
+    await expect(run({ pixelUm: '1', countsPerAtom: '10', fit: 'atoms=1e3x:' })).rejects.toThrow(/^--fit atoms \(lower bound\): expected a number/);
+    await expect(run({ pixelUm: '1', countsPerAtom: '10', saturationCounts: '500' })).rejects.toThrow(/^--saturation-counts: only for raw absorption frames/);
+    await expect(run({ pixelUm: '1', countsPerAtom: '10', region: '0,0,9,4' })).rejects.toThrow(/^--region: rectangle x0=0, y0=0, width=9, height=4 must be whole pixels inside the 8 x 8 frame/);
+    await expect(run({ pixelUm: '1', countsPerAtom: '10', region: '0x1,0,4,4' })).rejects.toThrow(/^--region: expected a whole number/);
+    await expect(runCompareCommand(scenarioPath, { image: join(workDir, 'missing.npy'), pixelUm: '1', countsPerAtom: '1', set: [], out, threads: '1', quiet: true })).rejects.toThrow(
+      /^--image: .*missing\.npy was not found/,
     );
     expect(existsSync(out)).toBe(false);
   });

@@ -17,8 +17,7 @@ import { solveScenario } from '../../src/pipeline/solveScenario.js';
 import { solvePictures } from '../../src/pipeline/solvePictures.js';
 import { modelNoiseSigma } from '../../src/pipeline/compareFitNoise.js';
 import { cameraPicture } from '../../src/imaging/cameraOptics.js';
-import { decodeMeasuredImage } from '../../src/imaging/measuredImage.js';
-import { encodeNpy } from '../../src/formats/npy.js';
+import { measuredFromGrid } from '../../src/imaging/measuredImage.js';
 import { InputError } from '../../src/scenario/inputError.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tiercake-compare-fit-'));
@@ -43,8 +42,7 @@ writeFileSync(path, JSON.stringify(body));
 async function noiseFreeImage() {
   const truth = await solveScenario(prepareScenario(path), { threads: 1 });
   const inSitu = solvePictures(truth).pictures.find((p) => p.name === 'in_situ')!.picture;
-  const counts = Float64Array.from(inSitu.values, (v) => v * countsPerAtom);
-  return { truth, inSitu, measured: decodeMeasuredImage(encodeNpy(counts, [inSitu.nx, inSitu.ny]), 'truth.npy', { pixelUm: 1, countsPerAtom }) };
+  return { truth, inSitu, measured: measuredFromGrid(inSitu, { pixelUm: 1, countsPerAtom }) };
 }
 
 describe('fit of N and the centre to a noise-free picture', () => {
@@ -66,13 +64,15 @@ describe('fit of N and the centre to a noise-free picture', () => {
 
     // Independent: Fisher matrix of (N, x0, y0) with the final weights.
     const { resolved } = prepareScenario(path);
-    const sigma = modelNoiseSigma(fit.model, fit.noise.backgroundSigma, fit.noise.countsPerAtom);
+    const sigma = modelNoiseSigma(fit.model, fit.noise.backgroundSigma, fit.noise.countsPerAtom as number);
     const n0 = byName.atoms.best;
     const dN = 1e-3 * n0;
     const solveAt = async (n: number) => (await solveScenario(prepareScenario(path, [`particles.atoms=${n}`, 'solver.atomTolerance=1e-12']), { threads: 1 })).fields.density;
     const [up, down] = [await solveAt(n0 + dN), await solveAt(n0 - dN)];
-    const x0 = byName.centreXPixels.best;
-    const y0 = byName.centreYPixels.best;
+    // The rows report the centre in the given frame (row from the top); render on the grid (y up).
+    const [x0, y0] = fit.centre.grid;
+    expect(fit.centre.givenFrame).toEqual([byName.centreXPixels.best, byName.centreYPixels.best]);
+    expect(y0).toBeCloseTo(measured.ny - 1 - byName.centreYPixels.best, 12);
     const render = (density: Float64Array, cx: number, cy: number) =>
       cameraPicture(density, resolved.geometry.shape, fit.optics, { nx: measured.nx, ny: measured.ny, firstXUm: -cx, firstYUm: -cy }).values;
     const dc = 1e-3;
@@ -98,7 +98,7 @@ describe('fit of N and the centre to a noise-free picture', () => {
     expect(Math.sqrt(fit.fit.covariance[0])).toBeCloseTo(byName.atoms.uncertaintyFromSigma, 12);
     // Residual, atoms in the picture, profiles: plain consequences of the best model.
     for (let i = 0; i < fit.residual.length; i++) expect(fit.residual[i]).toBeCloseTo(fit.data[i] - fit.model[i], 14);
-    expect(fit.profile.fields.measured.mean.length).toBe(fit.profile.fields.model.mean.length);
+    expect(fit.profile.measuredMean.length).toBe(fit.profile.modelMean.length);
     expect(fit.fit.solves).toBeLessThan(20);
   });
 

@@ -23,8 +23,10 @@
 // - shot-to-shot drifts of the total atom number or of the cloud position add variance that
 //   is not thermal: keep them small (post-select, re-centre), and use bins wider than the
 //   imaging resolution, so that atoms blurred across a bin edge do not hide fluctuations.
-// Bins are used where d<N_b>/dmu exceeds 3 standard errors and the neighbouring bins hold
-// at least `minimumPixelsPerBin` pixels. The combined temperature is the ratio of sums kT = sum_b (<dN_b^2> - noise_b) /
+// Bins are used where d<N_b>/dmu exceeds 3 standard errors, the bin and its neighbours hold
+// at least `minimumPixelsPerBin` pixels and atoms that fluctuate (a bin empty in every shot,
+// beyond the edge of the cloud or of its lattice, has no variance, and the slope next to it
+// is taken across a cut edge). The combined temperature is the ratio of sums kT = sum_b (<dN_b^2> - noise_b) /
 // sum_b d<N_b>/dmu over the usable bins (no weights that depend on the fluctuating data).
 // Uncertainties: var(s^2) = 2 sigma^4 / (M - 1) for M shots (Gaussian scatter), and the
 // standard errors of the mean profile propagated through the derivative.
@@ -194,7 +196,11 @@ export function fluctuationThermometry(input: FluctuationThermometryInput): Fluc
     const thermalVariance = variance[b] - noise[b];
     // A bin is used only where the slope is measured: d<N>/dmu above 3 standard errors (far out
     // in the wings both numerator and denominator are pure noise and only widen the error).
-    const usable = neighboursOk && atomsPerHz > 3 * slopeSe && Number.isFinite(thermalVariance);
+    // A bin where no shot has atoms (beyond the edge of the cloud or of the lattice) has a
+    // slope from its inner neighbour but neither variance nor an error of its own, and a bin
+    // next to it has a slope across a cut edge: neither is used.
+    const populated = neighboursOk && variance[b - 1] > 0 && variance[b] > 0 && variance[b + 1] > 0;
+    const usable = populated && slopeSe > 0 && atomsPerHz > 3 * slopeSe && Number.isFinite(thermalVariance);
     let kTHz = NaN;
     let kTHzUncertainty = NaN;
     if (usable) {

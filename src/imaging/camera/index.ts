@@ -19,6 +19,7 @@ export * from './hotPixels.js';
 export * from './backgroundPlane.js';
 export * from './shotStack.js';
 export * from './imageGeometry.js';
+export * from './frameOrientation.js';
 export * from './azimuthalAverage.js';
 export * from './abelInversion.js';
 export * from './localDensityEquationOfState.js';

@@ -1,9 +1,8 @@
 // Greyscale PNG frames (W3C PNG 2nd edition) through pngjs, via the project's decoder
 // (src/imaging/pngCodec.ts): 8- or 16-bit grey (colour types 0 and 4; alpha ignored), grey
 // levels taken as counts. Rows are stored from the top (PNG section 4.1.1), so stored row r
-// is our row y = r and column c is x = c: the frame reads the way a viewer shows it.
-// (src/imaging/measuredImage.ts reads PNGs y-up for the older `compare` path; this reader
-// follows the camera convention of this folder.)
+// is our row y = r and column c is x = c: the frame reads the way a viewer shows it, and
+// tiercake's own 16-bit pictures (pictureFiles.ts, the same layout) read back unchanged.
 
 import { decodePng, pngSignature } from '../../formats/pngCodec.js';
 import { FrameReadError } from './frameReadError.js';

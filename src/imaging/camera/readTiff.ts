@@ -132,10 +132,11 @@ export function readTiffFrames(bytes: Uint8Array, name: string): FrameStack {
     throw new FrameReadError(name, 'unknown-format', 'is not a TIFF file (no II*/MM* header)');
   }
   if (magic === 43) throw new FrameReadError(name, 'unsupported', 'is a BigTIFF file, which is not read; save as classic TIFF (files below 4 GB)');
-  // utif2 wants an ArrayBuffer holding exactly the file.
+  // utif2 wants an ArrayBuffer holding exactly the file. A copy through the Uint8Array
+  // constructor: Node's Buffer.slice would return a view into the shared pool instead.
   const owned = bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength && bytes.buffer instanceof ArrayBuffer
     ? bytes.buffer
-    : bytes.slice().buffer;
+    : new Uint8Array(bytes).buffer;
   let ifds: Ifd[];
   try {
     ifds = UTIF.decode(owned);

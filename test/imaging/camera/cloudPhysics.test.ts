@@ -201,6 +201,27 @@ describe('fluctuation thermometry recovers the input temperature', () => {
   });
 });
 
+describe('fluctuation thermometry at the edge of a cloud cut off by its lattice', () => {
+  it('a bin where no shot has atoms is not used (its slope comes from the inner neighbour only), and the chi-square stays finite', () => {
+    // Classical gas as above, but every pixel beyond radius 20 empty (a lattice edge): the
+    // bin just outside has d<N>/dmu > 0 from the three-point derivative and zero variance.
+    const kTHz = 1000;
+    const k = 5;
+    const rnd = seededRandom('thermometry/edge');
+    const shots: PixelImage[] = Array.from({ length: 200 }, () => ({ width: 50, height: 50, values: new Float64Array(2500) }));
+    for (const shot of shots) {
+      for (let y = 0; y < 50; y++) for (let x = 0; x < 50; x++) {
+        const r2 = (x - 24.5) ** 2 + (y - 24.5) ** 2;
+        shot.values[y * 50 + x] = r2 < 400 ? samplePoisson(40 * Math.exp((-k * r2) / kTHz), rnd) : 0;
+      }
+    }
+    const t = fluctuationThermometry({ shots, centreX: 24.5, centreY: 24.5, scaleX: 1, scaleY: 1, binWidth: 1, harmonicHzPerUm2: k });
+    for (const bin of t.bins) if (bin.varianceAtoms === 0) expect(bin.usable).toBe(false);
+    expect(Number.isFinite(t.chiSquare)).toBe(true);
+    expect(Math.abs(t.kTHz - kTHz)).toBeLessThan(3 * t.kTHzUncertainty);
+  });
+});
+
 describe('azimuthal average with an aspect ratio and a tilted ellipse', () => {
   it('a tilted anisotropic Gaussian averages to exp(-r^2 / 2) in the scaled radius; a flat image to its value', () => {
     const w = 81, h = 71, cx = 40.3, cy = 35.1, a = 9, b = 4, phi = (25 * Math.PI) / 180;

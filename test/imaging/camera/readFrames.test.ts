@@ -76,6 +76,15 @@ describe('TIFF through utif2 (files built from TIFF 6.0)', () => {
     }
   }
 
+  it('reads a file handed over as a Node Buffer that is a view into a larger buffer (as readFileSync gives small files)', async () => {
+    const bytes = buildTiff([{ width, height, values: testFrame() }], 'uint16');
+    // Buffer.slice shares memory: a copy must be made through the Uint8Array constructor.
+    const pooled = Buffer.concat([Buffer.alloc(24, 7), Buffer.from(bytes)]).subarray(24);
+    expect(pooled.byteOffset).toBeGreaterThan(0);
+    const stack = await readFrames(pooled, 'pooled.tif');
+    expect(Array.from(stack.frames[0])).toEqual(testFrame());
+  });
+
   it('a multi-page file is a stack, with the image description as metadata', async () => {
     const pages = [0, 1000, 2000].map((o) => ({ width, height, values: testFrame(o), description: 'probe 780 nm' }));
     const stack = await readFrames(buildTiff(pages, 'uint16'), 'stack.tif');
