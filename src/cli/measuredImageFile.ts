@@ -1,5 +1,5 @@
 // The scale of tiercake's own pictures, read from the JSON sidecar next to them (used by
-// `compare` when --counts-per-atom or --pixel-um is missing). The frames themselves are read
+// `compare` when --counts-per-atom or the pixel size is missing). The frames themselves are read
 // by cameraFrames.ts.
 //
 // What a sidecar gives: the 16-bit PNG stores grey levels, atoms = grey x atomsPerGreyLevel,
@@ -11,7 +11,7 @@ import { existsSync, readFileSync } from 'node:fs';
 export interface SidecarScale {
   countsPerAtom?: number;
   /** object-plane pixel in the sidecar's length unit (micrometres, or lattice spacings in dimensionless mode) */
-  pixelUm?: number;
+  pixelSize?: number;
   /** 'um' or 'sites' when the sidecar says (files of this version); absent for earlier files (pixelUm only) */
   lengthUnit?: 'um' | 'sites';
   file: string;
@@ -38,7 +38,7 @@ export function readSidecar(imagePath: string): SidecarScale | null {
       file,
       ...(typeof perLevel === 'number' && perLevel > 0 && /\.png$/i.test(imagePath) ? { countsPerAtom: 1 / perLevel } : {}),
       ...(atomsArray ? { countsPerAtom: 1 } : {}),
-      ...(typeof pixel === 'number' && pixel > 0 ? { pixelUm: pixel } : {}),
+      ...(typeof pixel === 'number' && pixel > 0 ? { pixelSize: pixel } : {}),
       ...(unit !== undefined ? { lengthUnit: unit } : {}),
     };
   }

@@ -95,9 +95,15 @@ export const OPTION_TABLE = {
   },
   pixelUm: {
     flags: '--pixel-um <x>',
-    help: 'pixel size in the object plane, µm (camera pixel / magnification; lattice spacings in dimensionless mode)',
+    help: 'pixel size in the object plane, µm (camera pixel / magnification), for a laboratory scenario; a dimensionless one takes --pixel-sites',
     kind: 'real',
     range: positive('µm', 'the object-plane pixel size'),
+  },
+  pixelSites: {
+    flags: '--pixel-sites <x>',
+    help: 'pixel size in lattice spacings, for a dimensionless scenario (which has no micrometres; --pixel-um is for laboratory scenarios)',
+    kind: 'real',
+    range: positive('lattice spacings', 'the pixel size'),
   },
   // compare: clean-up and orientation of the frames
   region: { flags: '--region <x0,y0,width,height>', help: 'keep only this rectangle of the frames: first column, first row (from the top), width and height in pixels', kind: 'text' },
@@ -126,7 +132,8 @@ export const OPTION_TABLE = {
   },
   centrePixels: { flags: '--centre-pixels <x,y>', help: 'fix the trap centre at this pixel of the given frame (x = column, y = row from the top) instead of fitting it', kind: 'text' },
   maxIterations: { flags: '--max-iterations <n>', help: 'Levenberg-Marquardt steps at most (default 30)', kind: 'integer', range: { min: 1, max: 1000 } },
-  binUm: { flags: '--bin-um <x>', help: 'radial bin width of the profiles, µm (lattice spacings in dimensionless mode; default: one pixel)', kind: 'real', range: positive('µm', 'the radial bin width') },
+  binUm: { flags: '--bin-um <x>', help: 'radial bin width of the profiles, µm, for a laboratory scenario (default: one pixel)', kind: 'real', range: positive('µm', 'the radial bin width') },
+  binSites: { flags: '--bin-sites <x>', help: 'radial bin width of the profiles in lattice spacings, for a dimensionless scenario (default: one pixel)', kind: 'real', range: positive('lattice spacings', 'the radial bin width') },
   chiSquarePixels: {
     flags: '--chi-square-pixels <which>',
     help: "pixels the reduced chi-square counts: 'signal' (where model or data stand above the noise; default) or 'all'",

@@ -164,7 +164,7 @@ interface HostileCase {
 const solve = (...args: string[]): string[] => ['solve', 'scenario.json', '--threads', '1', '--quiet', ...args];
 const evolve = (...args: string[]): string[] => ['evolve', 'scenario.json', '--threads', '1', '--quiet', '--set', 'evolution={"duration":1}', ...args];
 const scan = (...args: string[]): string[] => ['scan', 'scenario.json', '--threads', '1', '--quiet', '--out', 'new', ...args];
-const compare = (image: string, ...args: string[]): string[] => ['compare', 'scenario.json', '--image', `frames/${image}`, '--pixel-um', '1', '--counts-per-atom', '1', '--out', 'cmp', '--threads', '1', '--quiet', ...args];
+const compare = (image: string, ...args: string[]): string[] => ['compare', 'scenario.json', '--image', `frames/${image}`, '--pixel-sites', '1', '--counts-per-atom', '1', '--out', 'cmp', '--threads', '1', '--quiet', ...args];
 const disorderScenario = JSON.stringify({
   name: 'hostile-ensemble',
   energyUnit: 'U',
@@ -241,10 +241,12 @@ const cases: HostileCase[] = [
     names: /--counts-per-atom: the measured picture has no unit; give its detected counts per atom/,
     child: true,
   },
-  { title: 'compare --absorption-frames with one frame', argv: ['compare', 'scenario.json', '--absorption-frames', 'frames/zero.npy', '--pixel-um', '1', '--out', 'cmp', '--quiet'], newOut: 'cmp', names: /--absorption-frames: expected WITH_ATOMS,PROBE_ONLY\[,DARK\]/ },
-  { title: 'compare --absorption-frames in dimensionless mode without a cross-section', argv: ['compare', 'scenario.json', '--absorption-frames', 'frames/zero.npy,frames/zero.npy', '--pixel-um', '1', '--out', 'cmp', '--quiet'], newOut: 'cmp', names: /--cross-section: absorption frames need the resonant cross-section sigma0; in dimensionless mode/ },
+  { title: 'compare --absorption-frames with one frame', argv: ['compare', 'scenario.json', '--absorption-frames', 'frames/zero.npy', '--pixel-sites', '1', '--out', 'cmp', '--quiet'], newOut: 'cmp', names: /--absorption-frames: expected WITH_ATOMS,PROBE_ONLY\[,DARK\]/ },
+  { title: 'compare --absorption-frames in dimensionless mode without a cross-section', argv: ['compare', 'scenario.json', '--absorption-frames', 'frames/zero.npy,frames/zero.npy', '--pixel-sites', '1', '--out', 'cmp', '--quiet'], newOut: 'cmp', names: /--cross-section: absorption frames need the resonant cross-section sigma0; in dimensionless mode/ },
   { title: 'compare --max-iterations 3.5', argv: compare('zero.npy', '--max-iterations', '3.5'), newOut: 'cmp', names: /--max-iterations: expected a whole number from 1 to 1000, got "3\.5"/ },
-  { title: 'compare --pixel-um 0x2', argv: compare('zero.npy').map((a, i, all) => (all[i - 1] === '--pixel-um' ? '0x2' : a)), newOut: 'cmp', names: /--pixel-um: expected the object-plane pixel size in µm, a number above 0, got "0x2"/ },
+  { title: 'compare --pixel-sites 0x2', argv: compare('zero.npy').map((a, i, all) => (all[i - 1] === '--pixel-sites' ? '0x2' : a)), newOut: 'cmp', names: /--pixel-sites: expected the pixel size in lattice spacings, a number above 0, got "0x2"/ },
+  { title: 'compare --pixel-um on a dimensionless scenario', argv: compare('zero.npy').map((a) => (a === '--pixel-sites' ? '--pixel-um' : a)), newOut: 'cmp', names: /--pixel-um: the scenario is dimensionless \(lengths in lattice spacings\); give the pixel size with --pixel-sites/ },
+  { title: 'compare --bin-um on a dimensionless scenario', argv: compare('zero.npy', '--bin-um', '2'), newOut: 'cmp', names: /--bin-um: the scenario is dimensionless \(lengths in lattice spacings\); give the bin width with --bin-sites/ },
   { title: 'a .npy with a negative shape', argv: compare('negative-shape.npy'), newOut: 'cmp', names: /--image: frames\/negative-shape\.npy: the shape holds "-16"; every axis length must be a non-negative integer/ },
   { title: 'a .npy with a non-numeric shape', argv: compare('word-shape.npy'), newOut: 'cmp', names: /--image: frames\/word-shape\.npy: the shape holds "sixteen"; every axis length must be a non-negative integer/ },
   { title: 'a .npy shorter than its shape', argv: compare('short-data.npy'), newOut: 'cmp', names: /short-data\.npy: the header's shape \(16, 16\) of <f8 needs 2048 data bytes, the file holds 1600; the file is truncated/ },

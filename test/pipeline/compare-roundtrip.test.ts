@@ -96,16 +96,16 @@ describe('compare refuses bad input', () => {
     const out = join(workDir, 'never');
     const run = (extra: Record<string, string | boolean | string[]>) => runCompareCommand(scenarioPath, { image: frame, set: [], out, threads: '1', quiet: true, ...extra });
     // Issue 13: a picture without its unit used to be read as atoms and "fit" 37x off; now refused, naming the option.
-    await expect(run({ pixelUm: '1' })).rejects.toThrow(InputError);
-    await expect(run({ pixelUm: '1' })).rejects.toThrow(/^--counts-per-atom: the measured picture has no unit/);
-    await expect(run({ countsPerAtom: '10' })).rejects.toThrow(/^--pixel-um/);
-    await expect(run({ pixelUm: '1', countsPerAtom: '10', fit: 'atoms,entropy,temperature' })).rejects.toThrow(/^--fit: temperature and entropy are the same parameter/);
-    await expect(run({ pixelUm: '1', countsPerAtom: '10', fit: 'atoms=300:100' })).rejects.toThrow(/^--fit: the bounds of atoms must be lower:upper/);
-    await expect(run({ pixelUm: '1', countsPerAtom: '10', fit: 'atoms=1e3x:' })).rejects.toThrow(/^--fit atoms \(lower bound\): expected a number/);
-    await expect(run({ pixelUm: '1', countsPerAtom: '10', saturationCounts: '500' })).rejects.toThrow(/^--saturation-counts: only for raw absorption frames/);
-    await expect(run({ pixelUm: '1', countsPerAtom: '10', region: '0,0,9,4' })).rejects.toThrow(/^--region: rectangle x0=0, y0=0, width=9, height=4 must be whole pixels inside the 8 x 8 frame/);
-    await expect(run({ pixelUm: '1', countsPerAtom: '10', region: '0x1,0,4,4' })).rejects.toThrow(/^--region: expected a whole number/);
-    await expect(runCompareCommand(scenarioPath, { image: join(workDir, 'missing.npy'), pixelUm: '1', countsPerAtom: '1', set: [], out, threads: '1', quiet: true })).rejects.toThrow(
+    await expect(run({ pixelSites: '1' })).rejects.toThrow(InputError);
+    await expect(run({ pixelSites: '1' })).rejects.toThrow(/^--counts-per-atom: the measured picture has no unit/);
+    await expect(run({ countsPerAtom: '10' })).rejects.toThrow(/^--pixel-sites: give the pixel size in lattice spacings/);
+    await expect(run({ pixelSites: '1', countsPerAtom: '10', fit: 'atoms,entropy,temperature' })).rejects.toThrow(/^--fit: temperature and entropy are the same parameter/);
+    await expect(run({ pixelSites: '1', countsPerAtom: '10', fit: 'atoms=300:100' })).rejects.toThrow(/^--fit: the bounds of atoms must be lower:upper/);
+    await expect(run({ pixelSites: '1', countsPerAtom: '10', fit: 'atoms=1e3x:' })).rejects.toThrow(/^--fit atoms \(lower bound\): expected a number/);
+    await expect(run({ pixelSites: '1', countsPerAtom: '10', saturationCounts: '500' })).rejects.toThrow(/^--saturation-counts: only for raw absorption frames/);
+    await expect(run({ pixelSites: '1', countsPerAtom: '10', region: '0,0,9,4' })).rejects.toThrow(/^--region: rectangle x0=0, y0=0, width=9, height=4 must be whole pixels inside the 8 x 8 frame/);
+    await expect(run({ pixelSites: '1', countsPerAtom: '10', region: '0x1,0,4,4' })).rejects.toThrow(/^--region: expected a whole number/);
+    await expect(runCompareCommand(scenarioPath, { image: join(workDir, 'missing.npy'), pixelSites: '1', countsPerAtom: '1', set: [], out, threads: '1', quiet: true })).rejects.toThrow(
       /^--image: .*missing\.npy was not found/,
     );
     expect(existsSync(out)).toBe(false);

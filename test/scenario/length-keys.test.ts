@@ -5,8 +5,9 @@
 // keys with `lengthUnit` and keeps ...Um keys only where they are micrometres; compare's
 // sidecar reader reads both the new keys and those of earlier files.
 
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
+import { encodeNpy } from '../../src/formats/npy.js';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { validateScenario } from '../../src/scenario/loadScenario.js';
@@ -81,10 +82,26 @@ describe("compare's sidecar reader", () => {
       writeFileSync(join(dir, `${name}.npy`), '');
       return join(dir, `${name}.npy`);
     };
-    expect(readSidecar(write('new-sites', { pixelSize: 0.5, lengthUnit: 'sites', atomsPerGreyLevel: 0.01 }))).toMatchObject({ pixelUm: 0.5, lengthUnit: 'sites' });
-    expect(readSidecar(write('new-um', { pixelSize: 0.25, pixelUm: 0.25, lengthUnit: 'um' }))).toMatchObject({ pixelUm: 0.25, lengthUnit: 'um' });
+    expect(readSidecar(write('new-sites', { pixelSize: 0.5, lengthUnit: 'sites', atomsPerGreyLevel: 0.01 }))).toMatchObject({ pixelSize: 0.5, lengthUnit: 'sites' });
+    expect(readSidecar(write('new-um', { pixelSize: 0.25, pixelUm: 0.25, lengthUnit: 'um' }))).toMatchObject({ pixelSize: 0.25, lengthUnit: 'um' });
     const old = readSidecar(write('old', { pixelUm: 0.75, lengthUnit: 'micrometres' }));
-    expect(old).toMatchObject({ pixelUm: 0.75 });
+    expect(old).toMatchObject({ pixelSize: 0.75 });
     expect(old).not.toHaveProperty('lengthUnit');
+  });
+});
+
+describe('compare reads a sidecar only in the unit of its scenario', () => {
+  it('a sidecar in µm beside a frame compared with a dimensionless scenario is refused, naming --pixel-sites', async () => {
+    const { runCompareCommand } = await import('../../src/cli/commands/compare.js');
+    const dir = mkdtempSync(join(tmpdir(), 'tiercake-sidecar-unit-'));
+    const scenario = join(dir, 'scenario.json');
+    writeFileSync(scenario, JSON.stringify({ name: 'unit-check', energyUnit: 'U', lattice: { shape: [8, 8], boundary: 'open' }, hubbard: { hopping: 0.02 }, trap: { coefficient: 0.01 }, particles: { chemicalPotential: 0.5 } }));
+    const frame = join(dir, 'picture.npy');
+    writeFileSync(frame, encodeNpy(new Float64Array(64), [8, 8]));
+    writeFileSync(join(dir, 'picture.json'), JSON.stringify({ pixelSize: 0.532, pixelUm: 0.532, lengthUnit: 'um', quantity: 'atoms per pixel' }));
+    await expect(runCompareCommand(scenario, { image: frame, set: [], out: join(dir, 'never'), threads: '1', quiet: true })).rejects.toThrow(
+      /^--pixel-sites: .*picture\.json gives the pixel size in µm, but the scenario is dimensionless/,
+    );
+    expect(existsSync(join(dir, 'never'))).toBe(false);
   });
 });

@@ -27,7 +27,7 @@ import { parseFrameAddress } from '../../imaging/camera/frameAddress.js';
 import type { PixelImage } from '../../imaging/camera/pixelImage.js';
 import type { PixelRectangle } from '../../imaging/camera/regionOfInterest.js';
 import { ParameterError } from '../../physics/parameterError.js';
-import { scenarioHash } from '../../scenario/scenarioHash.js';
+import { landscapeFileHashes, scenarioHash } from '../../scenario/scenarioHash.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
 import { declare, readOptions, type OptionValues, type RawOptions } from '../options.js';
@@ -49,6 +49,7 @@ const OPTIONS = [
   'crossSection',
   'shots',
   'pixelUm',
+  'pixelSites',
   'region',
   'regionMask',
   'hotPixels',
@@ -61,6 +62,7 @@ const OPTIONS = [
   'centrePixels',
   'maxIterations',
   'binUm',
+  'binSites',
   'chiSquarePixels',
   'bootstrap',
   'eosBinSites',
@@ -236,10 +238,31 @@ export async function runCompareCommand(scenarioPath: string, raw: RawOptions): 
 
   // The unit of the measurement and the pixel size, before any frame is read.
   const firstImage = o.image !== undefined && o.shots === undefined ? parseFrameAddress(o.image.split(',')[0].trim()).file : undefined;
-  const sidecar = firstImage !== undefined && (o.countsPerAtom === undefined || o.pixelUm === undefined) ? readSidecar(firstImage) : null;
-  const pixelUm = o.pixelUm ?? sidecar?.pixelUm;
+  // Lengths carry their unit in the option's name: µm for a laboratory scenario, lattice
+  // spacings for a dimensionless one, so a number cannot be read in the wrong unit.
+  const dimensionless = prepared.resolved.mode === 'hubbard';
+  const lengthUnit: 'um' | 'sites' = dimensionless ? 'sites' : 'um';
+  if (dimensionless && o.pixelUm !== undefined) throw new InputError('--pixel-um: the scenario is dimensionless (lengths in lattice spacings); give the pixel size with --pixel-sites');
+  if (!dimensionless && o.pixelSites !== undefined) throw new InputError('--pixel-sites: the scenario is in laboratory units; give the object-plane pixel size in µm with --pixel-um');
+  if (dimensionless && o.binUm !== undefined) throw new InputError('--bin-um: the scenario is dimensionless (lengths in lattice spacings); give the bin width with --bin-sites');
+  if (!dimensionless && o.binSites !== undefined) throw new InputError('--bin-sites: the scenario is in laboratory units; give the bin width in µm with --bin-um');
+  const pixelOption = dimensionless ? '--pixel-sites' : '--pixel-um';
+  const pixelGiven = dimensionless ? o.pixelSites : o.pixelUm;
+  const binWidth = dimensionless ? o.binSites : o.binUm;
+  const sidecar = firstImage !== undefined && (o.countsPerAtom === undefined || pixelGiven === undefined) ? readSidecar(firstImage) : null;
+  if (pixelGiven === undefined && sidecar?.pixelSize !== undefined && sidecar.lengthUnit !== undefined && sidecar.lengthUnit !== lengthUnit) {
+    throw new InputError(
+      `${pixelOption}: ${sidecar.file} gives the pixel size in ${sidecar.lengthUnit === 'um' ? 'µm' : 'lattice spacings'}, but the scenario is ${dimensionless ? 'dimensionless' : 'in laboratory units'}; ` +
+        `give ${pixelOption} (or compare with a scenario of the picture's kind)`,
+    );
+  }
+  const pixelUm = pixelGiven ?? sidecar?.pixelSize;
   if (pixelUm === undefined) {
-    throw new InputError('--pixel-um: give the pixel size in the object plane (camera pixel / magnification), in µm (lattice spacings in dimensionless mode)');
+    throw new InputError(
+      dimensionless
+        ? '--pixel-sites: give the pixel size in lattice spacings'
+        : '--pixel-um: give the pixel size in the object plane (camera pixel / magnification), in µm',
+    );
   }
   let measurement: MeasurementSettings;
   if (absorption) {
@@ -319,7 +342,7 @@ export async function runCompareCommand(scenarioPath: string, raw: RawOptions): 
     frameMap: shots.map,
     chiSquarePixels: (o.chiSquarePixels as 'signal' | 'all' | undefined) ?? 'signal',
     ...(fixedCentre !== undefined ? { fixedCentre } : {}),
-    ...(o.binUm !== undefined ? { binUm: o.binUm } : {}),
+    ...(binWidth !== undefined ? { binUm: binWidth } : {}),
     ...(stack ? { shots: shots.shots, bootstrapReplicates: o.bootstrap ?? 200 } : {}),
     onStage: say,
     onSolve: ({ evaluation, atoms, kT, converged }) => {
@@ -347,7 +370,7 @@ export async function runCompareCommand(scenarioPath: string, raw: RawOptions): 
     warnings,
   };
   const createdIso = new Date().toISOString();
-  const { commit } = await writeOutputFolder(target, { command: 'compare', scenarioHash: scenarioHash(prepared.scenario) }, (folder) =>
+  const { commit } = await writeOutputFolder(target, { command: 'compare', scenarioHash: scenarioHash(prepared.scenario, 'whole', landscapeFileHashes(prepared.resolved)) }, (folder) =>
     writeCompareFiles(result, provenance, { eos, thermometry }, folder, (images) =>
       renderReportHtml(buildCompareReport(result, { imagePath, images, createdIso, toolVersion: toolVersion(), provenance, eos, thermometry })),
     ),
