@@ -216,7 +216,7 @@ if (want('compare')) {
       trap: { coefficient: 0.0015 },
       particles: { atoms: 6000 },
       truncation: { nmax: 6 },
-      camera: { cameraPixelUm: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom, seed: 'bench' } },
+      camera: { cameraPixelSites: 1, psf: { sigmaSites: 0.5 }, noise: { kind: 'photon', countsPerAtom, seed: 'bench' } },
     }),
   );
   // The measured image: one noisy exposure of the scenario itself, whole detected counts.

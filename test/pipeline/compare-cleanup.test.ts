@@ -81,7 +81,7 @@ async function compare(out: string, extra: Record<string, string | boolean>): Pr
     image: join(dir, 'stack.tif'),
     backgroundFrame: join(dir, 'background.tif'),
     countsPerAtom: String(c),
-    pixelUm: '1',
+    pixelSites: '1',
     hotPixels: true,
     region: '3,2,34,32',
     regionMask: join(dir, 'mask.npy'),

@@ -116,21 +116,21 @@ describe('a shifted picture written like solve writes its pictures', () => {
     // Stored transposed: a[c, r]; its frame has the centre at (x = row, y = col).
     const transposed: PixelImage = { width: ny, height: nx, values: new Float64Array(nx * ny) };
     for (let r = 0; r < ny; r++) for (let c = 0; c < nx; c++) transposed.values[c * ny + r] = upright.values[r * nx + c];
-    const t = await compare('transposed', { image: writeCameraNpy('transposed', transposed), pixelUm: '1', countsPerAtom: '1', transpose: true });
+    const t = await compare('transposed', { image: writeCameraNpy('transposed', transposed), pixelSites: '1', countsPerAtom: '1', transpose: true });
     expect(t.centre.fittedTrapCentrePixels[0]).toBeCloseTo(row, 3);
     expect(t.centre.fittedTrapCentrePixels[1]).toBeCloseTo(col, 3);
     // Stored a quarter turn clockwise (so --rotate 90, counter-clockwise, undoes it): the
     // upright pixel (c, r) sits at column ny - 1 - r, row c.
     const clockwise: PixelImage = { width: ny, height: nx, values: new Float64Array(nx * ny) };
     for (let r = 0; r < ny; r++) for (let c = 0; c < nx; c++) clockwise.values[c * ny + (ny - 1 - r)] = upright.values[r * nx + c];
-    const q = await compare('quarter', { image: writeCameraNpy('quarter', clockwise), pixelUm: '1', countsPerAtom: '1', rotate: '90' });
+    const q = await compare('quarter', { image: writeCameraNpy('quarter', clockwise), pixelSites: '1', countsPerAtom: '1', rotate: '90' });
     expect(q.centre.fittedTrapCentrePixels[0]).toBeCloseTo(ny - 1 - row, 3);
     expect(q.centre.fittedTrapCentrePixels[1]).toBeCloseTo(col, 3);
     expect(Math.abs(best(q, 'atoms') - trueAtoms) / trueAtoms).toBeLessThan(1e-4);
     // Stored mirrored: column c -> nx - 1 - c.
     const mirrored: PixelImage = { width: nx, height: ny, values: new Float64Array(nx * ny) };
     for (let r = 0; r < ny; r++) for (let c = 0; c < nx; c++) mirrored.values[r * nx + (nx - 1 - c)] = upright.values[r * nx + c];
-    const m = await compare('mirrored', { image: writeCameraNpy('mirrored', mirrored), pixelUm: '1', countsPerAtom: '1', flipX: true });
+    const m = await compare('mirrored', { image: writeCameraNpy('mirrored', mirrored), pixelSites: '1', countsPerAtom: '1', flipX: true });
     expect(m.centre.fittedTrapCentrePixels[0]).toBeCloseTo(nx - 1 - col, 3);
     expect(m.centre.fittedTrapCentrePixels[1]).toBeCloseTo(row, 3);
   });
@@ -139,7 +139,7 @@ describe('a shifted picture written like solve writes its pictures', () => {
     const upright = planarToCamera({ values: render({ centreX: 17.5, centreY: 14.25 }), nx, ny });
     const stored = rotateImage(upright, -30, { expand: true });
     const where = rotatedPosition(rotationGeometry(nx, ny, -30, true), 17.5, ny - 1 - 14.25);
-    const r = await compare('turned', { image: writeCameraNpy('turned', stored), pixelUm: '1', countsPerAtom: '1', rotate: '30' });
+    const r = await compare('turned', { image: writeCameraNpy('turned', stored), pixelSites: '1', countsPerAtom: '1', rotate: '30' });
     // Two resamplings smooth the picture by about a pixel: the centre and N are unbiased (symmetric, atom-conserving).
     expect(Math.abs(r.centre.fittedTrapCentrePixels[0] - where.x)).toBeLessThan(0.05);
     expect(Math.abs(r.centre.fittedTrapCentrePixels[1] - where.y)).toBeLessThan(0.05);
