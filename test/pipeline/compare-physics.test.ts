@@ -68,7 +68,7 @@ async function compareImage(path: string, out: string, image: { width: number; h
   const values = new Float64Array(image.length * image[0].values.length);
   image.forEach((im, k) => values.set(im.values, k * im.values.length));
   writeFileSync(file, encodeNpy(values, shape));
-  const code = await runCompareCommand(path, { image: file, countsPerAtom: String(c), pixelUm: '1', fit: 'atoms,temperature', set: [], threads: '1', quiet: true, out: join(dir, out), ...extra });
+  const code = await runCompareCommand(path, { image: file, countsPerAtom: String(c), pixelSites: '1', fit: 'atoms,temperature', set: [], threads: '1', quiet: true, out: join(dir, out), ...extra });
   expect(code).toBe(0);
   const result = JSON.parse(readFileSync(join(dir, out, 'comparison.json'), 'utf8')) as Eos;
   const csv = readFileSync(join(dir, out, 'equation_of_state.csv'), 'utf8').trim().split('\n');
