@@ -16,7 +16,7 @@
 // - `not-converged`: the self-consistency, the atom-number or the temperature search did not
 //   reach its tolerance (or the run was stopped).
 
-export type ReadingWarningCode = 'cloud-at-edge' | 'empty-cloud' | 'truncation' | 'not-converged';
+export type ReadingWarningCode = 'cloud-at-edge' | 'empty-cloud' | 'truncation' | 'not-converged' | 'cluster-eigensolve' | 'cluster-thermal-truncation';
 
 export interface ReadingWarning {
   code: ReadingWarningCode;

@@ -39,6 +39,8 @@ export interface FieldIndexInput {
   finiteTemperature: boolean;
   /** the LDA label fields are written */
   localDensity: boolean;
+  /** cluster method: the bond fields are written for these axes (indices) */
+  clusterBondAxes?: readonly number[];
 }
 
 const axisNames = ['x', 'y', 'z'];
@@ -131,6 +133,27 @@ export function fieldEntries(input: FieldIndexInput): FieldEntry[] {
         unit: 'atoms per site (integer)',
         dtype: 'int32',
         meaning: 'integer filling of sites whose local-density-approximation label is Mott insulator, 0 elsewhere',
+      },
+    );
+  }
+  for (const d of input.clusterBondAxes ?? []) {
+    const a = axisNames[d];
+    list.push(
+      {
+        file: `fields/bond_correlation_${a}.npy`,
+        quantity: `<b_i^+ b_j>, j = i + e_${a}`,
+        unit: 'atoms per site',
+        dtype: 'float64',
+        meaning:
+          `nearest-neighbour one-body correlation of each bond along ${a}, stored at its lower site (NaN where there is no bond): ` +
+          `exact inside a cluster (fields/bond_exact_${a}.npy = 1), the mean-field product phi_i phi_j across decoupled bonds`,
+      },
+      {
+        file: `fields/bond_exact_${a}.npy`,
+        quantity: `bond inside a cluster (${a})`,
+        unit: '1 (flag)',
+        dtype: 'uint8',
+        meaning: `1 where the bond from site i along ${a} lies inside a cluster and is treated exactly, 0 where it is decoupled by the mean field`,
       },
     );
   }

@@ -130,6 +130,9 @@ export function fieldFiles(a: SolveArtifacts): Array<{ file: string; bytes: Uint
         ] as Array<[string, Uint8Array | Int32Array]>)
       : []),
   ];
+  if (a.cluster !== null) {
+    a.cluster.bondCorrelation.forEach((b, d) => list.push([`bond_correlation_${'xyz'[d]}`, b], [`bond_exact_${'xyz'[d]}`, a.cluster!.bondExact[d]]));
+  }
   return list.map(([name, data]) => ({ file: `fields/${name}.npy`, bytes: encodeNpy(data, shape) }));
 }
 

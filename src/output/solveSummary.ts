@@ -63,6 +63,21 @@ export function buildSummary(a: SolveArtifacts, files: string[], extras: Summary
       warnings: resolved.landscape.warnings,
       note: resolved.landscape.records.length > 0 ? `terms added to the site potential; minimum and maximum in each term's energyUnit` : 'no landscape terms',
     },
+    method:
+      a.cluster === null
+        ? { kind: 'single-site', description: 'single-site Gutzwiller mean field: every bond decoupled (phi_i phi_j)' }
+        : {
+            kind: 'cluster',
+            cluster: a.cluster.shape,
+            description: `cluster mean field: ${a.cluster.clusterCount} clusters of ${a.cluster.shape.join(' x ')} sites solved exactly (Fock space of the cluster, truncated at nmax), bonds between clusters decoupled by mean fields`,
+            clusterCount: a.cluster.clusterCount,
+            colours: a.cluster.colourCount,
+            matrixVectorProducts: a.cluster.matvecs,
+            eigenSolvesConverged: a.cluster.clusterSolvesConverged,
+            thermalTruncationWeight: a.cluster.maxTruncationWeight,
+            bondsInsideClusters: Object.fromEntries(a.cluster.insideBonds.map((b, d) => ['xyz'[d], b])),
+            bondsNote: 'per axis, over the bonds inside clusters: mean <b_i^+ b_j> and its connected part <b_i^+ b_j> - phi_i phi_j (the coherence single-site mean field leaves out); null along axes where the cluster has extent 1',
+          },
     parameters: {
       hopping: energyBlock(resolved.units.hopping),
       interaction: energyBlock(resolved.units.interaction),
@@ -151,15 +166,23 @@ export function buildSummary(a: SolveArtifacts, files: string[], extras: Summary
         compressibilityComputed: outcome.compressibility !== null,
         finiteTemperature: temperature > 0,
         localDensity: lda !== undefined,
+        ...(a.cluster !== null ? { clusterBondAxes: a.cluster.bondCorrelation.map((_, d) => d) } : {}),
       }),
     },
     ...(extras.images !== undefined ? { images: extras.images } : {}),
     ...(imaging !== undefined ? { imaging } : {}),
     threads: a.threadsUsed,
-    ...(a.threadsUsed < a.threadsRequested ? { threadsNote: threadsNote(a.threadsUsed, a.threadsRequested, resolved.geometry.siteCount) } : {}),
+    ...(a.threadsUsed < a.threadsRequested
+      ? { threadsNote: a.cluster !== null ? clusterThreadsNote(a.threadsRequested) : threadsNote(a.threadsUsed, a.threadsRequested, resolved.geometry.siteCount) }
+      : {}),
     timings: a.timings,
     files,
   };
+}
+
+/** The cluster method's thread statement. */
+export function clusterThreadsNote(requested: number): string {
+  return `1 thread of ${requested} requested: the cluster method solves its clusters on the calling thread`;
 }
 
 /** Why fewer threads ran than were asked for (solve's line on stdout says the same). */

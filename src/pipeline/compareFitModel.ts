@@ -38,8 +38,9 @@
 
 import { maxHopping } from '../lattice/latticeModel.js';
 import { addHarmonicTrap } from '../lattice/harmonicTrap.js';
-import { runLattice, type RunOutcome, type RunRequest, type WarmState } from '../solver/runLattice.js';
+import { runLattice, type ExecutorFactory, type RunOutcome, type RunRequest, type WarmState } from '../solver/runLattice.js';
 import { createSweepExecutor, type SweepPool } from '../solver/sweepExecutor.js';
+import { clusterExecutorFactory } from '../solver/cluster/clusterSweepExecutor.js';
 import type { ResolvedScenario } from '../scenario/resolveScenario.js';
 import { runRequestOf } from './runRequest.js';
 import { threadsFor } from './solveScenario.js';
@@ -179,7 +180,8 @@ export function createFitModel(resolved: ResolvedScenario, physics: FitPhysics, 
   const keep = Math.max(4, Math.min(64, Math.floor(8e6 / Math.max(1, resolved.geometry.siteCount))));
   const threads = threadsFor(resolved.geometry.siteCount, options.threads);
   const pool = threads > 1 ? options.pool : null;
-  const makeExecutor = (state: Parameters<typeof createSweepExecutor>[0]) => createSweepExecutor(state, pool, threads);
+  const makeExecutor: ExecutorFactory =
+    clusterExecutorFactory(resolved.scenario.solver.cluster) ?? ((state) => createSweepExecutor(state, pool, threads));
   const cache = new Map<string, FitSolution>();
   /** solved (not interpolated) evaluations, in order */
   const solved: FitSolution[] = [];

@@ -34,6 +34,7 @@ import { isQuenchAtStart, rampSchedule, type RampShape } from '../dynamics/rampS
 import { constantFunction, type TimeFunction } from '../dynamics/timeFunction.js';
 import type { IntegratorOptions } from '../dynamics/evolve.js';
 import type { LatticeAxisInterpolator } from '../physics/depthInterpolation.js';
+import { isClusterShape } from '../solver/cluster/clusterSweepExecutor.js';
 import { InputError } from '../scenario/inputError.js';
 import { parseRampPath, type EvolutionSettings } from '../scenario/evolutionSchema.js';
 import { resolveScenario, type ResolvedScenario } from '../scenario/resolveScenario.js';
@@ -198,6 +199,11 @@ export function evolutionPlan(resolved: ResolvedScenario, options: PlanOptions =
   const settings = scenario.evolution;
   if (!settings) {
     throw new InputError('evolution: the scenario has no "evolution" section; add one with at least "duration" (and "ramps"), or use --set evolution.duration=...');
+  }
+  if (isClusterShape(resolved.scenario.solver.cluster)) {
+    throw new InputError(
+      `solver.cluster: evolve integrates the single-site time-dependent Gutzwiller equations only; remove solver.cluster (or set it to [${resolved.scenario.solver.cluster.map(() => 1).join(', ')}]) to evolve this scenario`,
+    );
   }
   const dims = resolved.geometry.dims;
   const laboratory = resolved.mode === 'laboratory';

@@ -7,9 +7,22 @@ import type { SiteFields } from '../observables/siteFields.js';
 import { classifySites, type SiteClassification } from '../observables/siteClassification.js';
 import { localCoordinationHopping } from '../observables/localDensityPhase.js';
 import type { ResolvedScenario } from '../scenario/resolveScenario.js';
+import { CLUSTER_MAX_STATES, clusterSites } from '../scenario/scenarioSchema.js';
 
 /** Highest nmax the automatic truncation guard raises to (unless the scenario starts higher). */
 export const NMAX_CEILING = 40;
+
+/**
+ * Highest nmax the truncation guard may raise to: NMAX_CEILING, and with clusters the
+ * largest nmax whose cluster Fock space stays within CLUSTER_MAX_STATES (the guard then
+ * reports the truncation it could not lift instead of exhausting memory).
+ */
+export function nmaxLimitOf(nmax: number, cluster: readonly number[] | undefined): number {
+  const sites = clusterSites(cluster);
+  let limit = NMAX_CEILING;
+  while (limit > nmax && (limit + 1) ** sites > CLUSTER_MAX_STATES) limit--;
+  return Math.max(nmax, limit);
+}
 
 export function runRequestOf(resolved: ResolvedScenario, observer?: (p: RunProgress) => void | 'stop'): RunRequest {
   const s = resolved.scenario;
@@ -23,7 +36,7 @@ export function runRequestOf(resolved: ResolvedScenario, observer?: (p: RunProgr
     truncation: {
       automatic: s.truncation.automatic,
       topWeightMax: s.truncation.topWeightMax,
-      nmaxLimit: Math.max(s.truncation.nmax, NMAX_CEILING),
+      nmaxLimit: nmaxLimitOf(s.truncation.nmax, s.solver.cluster),
     },
     compressibility: s.solver.compressibility,
     ...(observer ? { observer } : {}),

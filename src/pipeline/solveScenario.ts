@@ -6,6 +6,7 @@
 
 import { InputError } from '../scenario/inputError.js';
 import { runLattice, type RunOutcome, type RunProgress } from '../solver/runLattice.js';
+import { clusterExecutorFactory, clusterReadingOf, type ClusterReading } from '../solver/cluster/clusterSweepExecutor.js';
 import { kernelModule } from '../solver/kernel/kernelModule.js';
 import { defaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 import { createSweepExecutor, createSweepPool, type SweepPool } from '../solver/sweepExecutor.js';
@@ -63,6 +64,8 @@ export interface SolveArtifacts {
   axisScale: number[];
   shells: ShellSummary;
   profile: RadialProfile;
+  /** the cluster method's own reading (shape, bond correlations), null for single sites */
+  cluster: ClusterReading | null;
   /** what cannot be trusted in the solution as it stands (readingWarnings.ts) */
   readingWarnings: ReadingWarning[];
   /** threads asked for (the caller's `threads`) */
@@ -95,7 +98,9 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
       : resolved.chemical;
   const thermal =
     options.resume?.kT !== undefined && resolved.thermal.kind === 'entropy' ? { ...resolved.thermal, kTGuess: options.resume.kT } : resolved.thermal;
-  const threads = threadsFor(model.geometry.siteCount, options.threads);
+  const clusterFactory = clusterExecutorFactory(scenario.solver.cluster);
+  // The cluster method runs its clusters on the calling thread.
+  const threads = clusterFactory !== null ? 1 : threadsFor(model.geometry.siteCount, options.threads);
   let ownPool: SweepPool | null = null;
   // TIERCAKE_KERNEL (set process-wide by the command line) overrides the scenario.
   const kernel = defaultKernelChoice() !== 'auto' ? defaultKernelChoice() : scenario.solver.kernel;
@@ -120,12 +125,13 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
         thermal,
         ...(options.resume ? { initialPhi: options.resume.phi } : {}),
       },
-      (state) => createSweepExecutor(state, pool, threads, { kernel }),
+      clusterFactory ?? ((state) => createSweepExecutor(state, pool, threads, { kernel })),
     );
   } finally {
     if (ownPool) await ownPool.destroy();
   }
   const t2 = clock();
+  const cluster = clusterReadingOf(outcome.warm.executor, outcome.state.fields.phi);
   const fields = siteFieldsFrom(siteArraysOf(outcome.state), outcome.compressibility);
   const geometry = model.geometry;
   const classification = classifyOutcome(resolved, outcome, fields);
@@ -166,9 +172,28 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     axisScale,
     shells,
     profile,
-    readingWarnings,
+    cluster,
+    readingWarnings: cluster === null ? readingWarnings : [...readingWarnings, ...clusterWarnings(cluster)],
     threadsRequested: options.threads,
     threadsUsed: threads,
     timings: { resolveSeconds: options.prepareSeconds ?? 0, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000 },
   };
+}
+
+/** Cluster eigen-solves that missed their tolerance, or a thermal cluster state cut short. */
+function clusterWarnings(c: ClusterReading): ReadingWarning[] {
+  const out: ReadingWarning[] = [];
+  if (!c.clusterSolvesConverged) {
+    out.push({
+      code: 'cluster-eigensolve',
+      message: `some cluster eigen-solves (Lanczos, [${c.shape.join(', ')}] clusters) stopped before their residual tolerance; the fields may be off at that level; a smaller cluster or nmax makes the dense solver take over`,
+    });
+  }
+  if (c.maxTruncationWeight > 1e-10) {
+    out.push({
+      code: 'cluster-thermal-truncation',
+      message: `the thermal cluster state keeps only the lowest eigenstates; the highest kept carries a Boltzmann weight of ${c.maxTruncationWeight.toExponential(2)} (target 1e-10), so entropy and fluctuations are slightly low`,
+    });
+  }
+  return out;
 }

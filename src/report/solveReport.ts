@@ -137,6 +137,14 @@ export function buildSolveReport(
     { label: 'extrapolation steps', value: relax.extrapolations },
     { label: 'mu evaluations', value: outcome.solve.muSearch.evaluations },
     { label: 'largest weight on |nmax>', value: outcome.truncation.maxTopWeight, note: `allowed ${scenario.truncation.topWeightMax}` },
+    {
+      label: 'method',
+      value: a.cluster === null ? 'single-site Gutzwiller' : `cluster mean field, ${a.cluster.shape.join(' × ')} clusters`,
+      note:
+        a.cluster === null
+          ? 'every bond decoupled by the mean field'
+          : `${a.cluster.clusterCount} clusters in ${a.cluster.colourCount} colours, solved exactly; bonds between clusters decoupled`,
+    },
     { label: 'threads', value: a.threadsUsed },
     { label: 'solve time', value: a.timings.solveSeconds, unit: 's' },
     { label: 'analysis time', value: a.timings.analysisSeconds, unit: 's' },

@@ -130,6 +130,14 @@ export const TruncationSchema = z
   })
   .describe('Fock-space truncation');
 
+/** Largest Fock dimension (nmax + 1)^sites of one cluster the cluster method accepts (memory: ~30 vectors of it). */
+export const CLUSTER_MAX_STATES = 1 << 20;
+
+/** Sites of a cluster shape (1 without clusters). */
+export function clusterSites(cluster: readonly number[] | undefined): number {
+  return cluster === undefined ? 1 : cluster.reduce((a, b) => a * b, 1);
+}
+
 export const SolverSchema = z
   .strictObject({
     tolerance: positive().max(1e-2).default(1e-8).describe('stop when max |delta phi| and its estimated remaining error are below this'),
@@ -142,6 +150,14 @@ export const SolverSchema = z
       .default('auto')
       .describe(
         'site kernel: "auto" (WebAssembly where it can run, else JavaScript), "wasm", or "js" (the reference); all give the same numbers. The environment variable TIERCAKE_KERNEL overrides it',
+      ),
+    cluster: z
+      .array(z.int().min(1).max(16))
+      .min(1)
+      .max(3)
+      .optional()
+      .describe(
+        'cluster mean field: the cluster shape, one extent per lattice axis (e.g. [2, 2]); the lattice is tiled by clusters solved exactly in the mean fields of their neighbours. Omitted or all 1: the single-site Gutzwiller solver. Cost grows as (nmax + 1)^sites',
       ),
   })
   .describe('self-consistency settings');
@@ -209,6 +225,26 @@ export const ScenarioSchema = z
         issue(['lattice', 'shape', d], `a periodic axis needs an even length for the red-black update, got ${n}; make it even or make that boundary open`);
       }
     });
+    const cluster = s.solver.cluster;
+    if (cluster !== undefined) {
+      if (cluster.length !== dims) {
+        issue(['solver', 'cluster'], `expected ${dims} extents (one per lattice axis), got ${cluster.length}`);
+      } else {
+        cluster.forEach((c, d) => {
+          if (c > s.lattice.shape[d]) issue(['solver', 'cluster', d], `the cluster extent ${c} is longer than the lattice axis (${s.lattice.shape[d]} sites)`);
+          else if (periodicAxes[d] === 'periodic' && s.lattice.shape[d] % c !== 0) {
+            issue(['solver', 'cluster', d], `on a periodic axis the cluster extent must divide the length ${s.lattice.shape[d]}, got ${c}`);
+          }
+        });
+        const states = (s.truncation.nmax + 1) ** clusterSites(cluster);
+        if (states > CLUSTER_MAX_STATES) {
+          issue(
+            ['solver', 'cluster'],
+            `a [${cluster.join(', ')}] cluster at truncation.nmax ${s.truncation.nmax} has ${states.toExponential(2)} Fock states (limit ${CLUSTER_MAX_STATES}): use a smaller cluster or lower nmax`,
+          );
+        }
+      }
+    }
     if (Array.isArray(s.lattice.boundary) && s.lattice.boundary.length !== dims) {
       issue(['lattice', 'boundary'], `expected one value or ${dims} (one per lattice axis), got ${s.lattice.boundary.length}`);
     }

@@ -80,7 +80,8 @@ export interface RunOutcome {
   warm: WarmState;
 }
 
-export type ExecutorFactory = (state: SolverState) => SweepExecutor;
+/** Makes the executor of a new state; `model` is the one the state was made for (its nmax may be raised). */
+export type ExecutorFactory = (state: SolverState, model: LatticeModel) => SweepExecutor;
 
 /** Copy of the model with a different truncation. */
 function withNmax(model: LatticeModel, nmax: number): LatticeModel {
@@ -119,7 +120,7 @@ export async function runLattice(request: RunRequest, makeExecutor: ExecutorFact
       }
     } else {
       state = createSolverState(model, phiStart, { thermal });
-      executor = makeExecutor(state);
+      executor = makeExecutor(state, model);
     }
     const stageObserver = (stage: RunProgress['stage'], temperature: number) => (p: SolveProgress) =>
       request.observer?.({ ...p, stage, nmax: model.nmax, temperature, totalSweeps: sweepsUsed + p.totalSweeps });

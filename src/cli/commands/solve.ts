@@ -7,6 +7,7 @@ import { resolve } from 'node:path';
 import { writeOutputFolder } from '../../output/outputFolder.js';
 import { checkpointHash, checkpointPath, readCheckpoint, removeCheckpoint, writeCheckpoint } from '../../output/checkpoint.js';
 import { writeSolveFiles } from '../../output/solveOutputs.js';
+import { clusterThreadsNote } from '../../output/solveSummary.js';
 import { cameraPictureFiles } from '../../output/cameraOutputs.js';
 import { renderReportHtml } from '../../report/renderReport.js';
 import { buildSolveReport } from '../../report/solveReport.js';
@@ -95,7 +96,9 @@ export async function runSolveCommand(scenarioPath: string, raw: RawOptions): Pr
   const t = outcome.solve.totals;
   const fraction = fractionOfAtoms(t.condensedAtoms, t.atoms);
   const threadText =
-    artifacts.threadsUsed < artifacts.threadsRequested
+    artifacts.threadsUsed < artifacts.threadsRequested && artifacts.cluster !== null
+      ? clusterThreadsNote(artifacts.threadsRequested)
+      : artifacts.threadsUsed < artifacts.threadsRequested
       ? `1 thread: ${artifacts.resolved.geometry.siteCount} sites are below the parallel threshold of ${PARALLEL_MIN_SITES} sites`
       : `${artifacts.threadsUsed} thread${artifacts.threadsUsed > 1 ? 's' : ''}`;
   const lines = [

@@ -11,6 +11,7 @@ import type { Scenario } from '../../scenario/scenarioSchema.js';
 import { runLattice, type ExecutorFactory, type RunProgress } from '../../solver/runLattice.js';
 import { classifyOutcome, runRequestOf } from '../runRequest.js';
 import { createSweepExecutor } from '../../solver/sweepExecutor.js';
+import { clusterExecutorFactory } from '../../solver/cluster/clusterSweepExecutor.js';
 import { siteFieldsFrom } from '../../observables/siteFields.js';
 import { siteArraysOf } from '../../solver/siteArrays.js';
 import { defaultPhaseThresholds, type PhaseThresholds } from '../../observables/siteClassification.js';
@@ -96,7 +97,7 @@ export async function solveRealisation(
 ): Promise<RealisationResult> {
   const scenario = realisationScenario(raw, baseSeed, index);
   const resolved = resolveScenario(scenario, scenarioDirectory !== undefined ? { scenarioDirectory } : {});
-  const outcome = await runLattice(runRequestOf(resolved, observer), makeExecutor);
+  const outcome = await runLattice(runRequestOf(resolved, observer), clusterExecutorFactory(scenario.solver.cluster) ?? makeExecutor);
   const fields = siteFieldsFrom(siteArraysOf(outcome.state), outcome.compressibility);
   const classification = classifyOutcome(resolved, outcome, fields, false);
   const record: RealisationRecord = {

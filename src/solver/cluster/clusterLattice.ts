@@ -168,17 +168,55 @@ function solveCluster(st: DriverState, c: number): ClusterSolver {
   return solver;
 }
 
-export function solveClusterLattice(request: ClusterLatticeRequest): ClusterLatticeResult {
-  const { model, mu, temperature, tolerance, maxSweeps } = request;
+/** What a driver needs besides the model: the cluster shape and the eigen-solver settings. */
+export interface ClusterDriverOptions {
+  cluster: readonly number[];
+  solverOptions?: ClusterSolverOptions;
+  /** memory for per-cluster warm-start vectors (default 256 MiB) */
+  warmStartBytes?: number;
+}
+
+/**
+ * The sweep machinery of the cluster method over one lattice, reading and writing the
+ * caller's phi array in place: `sweep` is one block Gauss-Seidel pass over every colour
+ * at (mu, kT), `measure` solves every cluster tight at the current phi and fills the
+ * per-site fields. Used by solveClusterLattice (its own loop) and by the cluster sweep
+ * executor (clusterSweepExecutor.ts: the solver's relaxation, fixed-N and fixed-S searches).
+ */
+export interface ClusterDriver {
+  readonly tiling: ClusterTiling;
+  readonly phi: Float64Array;
+  readonly warmStarts: boolean;
+  /** one sweep over every colour; writes new - old phi into `delta` when given; returns max |delta phi| */
+  sweep(mu: number, temperature: number, delta?: Float64Array): number;
+  /** tight solve of every cluster at the current phi, into `out` (fields as ClusterLatticeResult) */
+  measure(mu: number, temperature: number, out: ClusterMeasureTargets): void;
+  /** cumulative matrix-vector products, largest thermal truncation weight, all eigen-solves converged */
+  statistics(): { matvecs: number; maxTruncationWeight: number; clusterSolvesConverged: boolean };
+}
+
+/** Arrays `measure` fills (one value per site; bond arrays per physical axis). */
+export interface ClusterMeasureTargets {
+  density: Float64Array;
+  densitySq: Float64Array;
+  parityOdd: Float64Array;
+  topWeight: Float64Array;
+  entropy: Float64Array;
+  psi: Float64Array;
+  grandPotential: Float64Array;
+  bondCorrelation: Float64Array[];
+  bondExact: Uint8Array[];
+}
+
+export function createClusterDriver(model: LatticeModel, phi: Float64Array, options: ClusterDriverOptions): ClusterDriver {
   const geometry = model.geometry;
   const n = geometry.siteCount;
-  const tiling = createClusterTiling(geometry.shape, geometry.periodic, request.cluster);
-  const solvers = tiling.geometries.map((g) => createClusterSolver(g.shape, model.nmax, request.solverOptions));
-  const phi = request.initialPhi ? Float64Array.from(request.initialPhi) : atomicGuess(model, mu);
   if (phi.length !== n) throw new Error(`initialPhi: expected ${n} values, got ${phi.length}`);
+  const tiling = createClusterTiling(geometry.shape, geometry.periodic, options.cluster);
+  const solvers = tiling.geometries.map((g) => createClusterSolver(g.shape, model.nmax, options.solverOptions));
   let warmBytes = 0;
   for (let c = 0; c < tiling.clusterCount; c++) warmBytes += 8 * solvers[tiling.geometryOf[c]].basis.dim;
-  const keepWarm = warmBytes <= (request.warmStartBytes ?? 256 * 1024 * 1024);
+  const keepWarm = warmBytes <= (options.warmStartBytes ?? 256 * 1024 * 1024);
   const st: DriverState = {
     model,
     tiling,
@@ -188,8 +226,8 @@ export function solveClusterLattice(request: ClusterLatticeRequest): ClusterLatt
     amplitudes: solvers.map((s) => new Float64Array(s.basis.sites * s.basis.base)),
     start: solvers.map((s) => new Float64Array(s.basis.dim)),
     phi,
-    mu,
-    temperature,
+    mu: NaN,
+    temperature: NaN,
     matvecs: 0,
     maxTruncation: 0,
     allConverged: true,
@@ -200,31 +238,71 @@ export function solveClusterLattice(request: ClusterLatticeRequest): ClusterLatt
   // is 1e-3 U_max times the last sweep's change, and the measuring pass is solved tight.
   let uMax = 0;
   for (let i = 0; i < n; i++) uMax = Math.max(uMax, interactionAt(model, i));
+  /** A new (mu, kT): warm vectors and the loose tolerance belong to the old one. */
+  const enter = (mu: number, temperature: number): void => {
+    if (mu === st.mu && temperature === st.temperature) return;
+    st.mu = mu;
+    st.temperature = temperature;
+    st.looseTolerance = 0;
+    if (st.warm !== null) for (const w of st.warm) w[0] = NaN;
+  };
+  return {
+    tiling,
+    phi,
+    warmStarts: keepWarm,
+    sweep(mu, temperature, delta) {
+      enter(mu, temperature);
+      let change = 0;
+      let failed = false; // a NaN phi: reported as a NaN change (not converged)
+      for (let colour = 0; colour < tiling.colourCount; colour++) {
+        for (let k = tiling.colourStart[colour]; k < tiling.colourStart[colour + 1]; k++) {
+          const c = tiling.colourOrder[k];
+          const solver = solveCluster(st, c);
+          const s0 = tiling.siteStart[c];
+          const out = solver.observables;
+          for (let l = 0; l < solver.geometry.siteCount; l++) {
+            const g = tiling.sites[s0 + l];
+            const step = out.phi[l] - phi[g];
+            const d = Math.abs(step);
+            if (d > change) change = d;
+            else if (d !== d) failed = true;
+            if (delta !== undefined) delta[g] = step;
+            phi[g] = out.phi[l];
+          }
+        }
+      }
+      if (failed) return NaN;
+      st.looseTolerance = 1e-3 * uMax * Math.min(change, 1);
+      return change;
+    },
+    measure(mu, temperature, out) {
+      enter(mu, temperature);
+      st.looseTolerance = 0;
+      measureInto(st, out);
+    },
+    statistics: () => ({ matvecs: st.matvecs, maxTruncationWeight: st.maxTruncation, clusterSolvesConverged: st.allConverged }),
+  };
+}
 
+export function solveClusterLattice(request: ClusterLatticeRequest): ClusterLatticeResult {
+  const { model, mu, temperature, tolerance, maxSweeps } = request;
+  const n = model.geometry.siteCount;
+  const dims = model.geometry.dims;
+  const phi = request.initialPhi ? Float64Array.from(request.initialPhi) : atomicGuess(model, mu);
+  const driver = createClusterDriver(model, phi, {
+    cluster: request.cluster,
+    ...(request.solverOptions ? { solverOptions: request.solverOptions } : {}),
+    ...(request.warmStartBytes !== undefined ? { warmStartBytes: request.warmStartBytes } : {}),
+  });
   const history: number[] = [];
   let sweeps = 0;
   let change = Infinity;
   let converged = false;
   let stopped = false;
   while (sweeps < maxSweeps) {
-    change = 0;
-    for (let colour = 0; colour < tiling.colourCount; colour++) {
-      for (let k = tiling.colourStart[colour]; k < tiling.colourStart[colour + 1]; k++) {
-        const c = tiling.colourOrder[k];
-        const solver = solveCluster(st, c);
-        const s0 = tiling.siteStart[c];
-        const out = solver.observables;
-        for (let l = 0; l < solver.geometry.siteCount; l++) {
-          const g = tiling.sites[s0 + l];
-          const d = Math.abs(out.phi[l] - phi[g]);
-          if (d > change) change = d;
-          phi[g] = out.phi[l];
-        }
-      }
-    }
+    change = driver.sweep(mu, temperature);
     sweeps++;
     history.push(change);
-    st.looseTolerance = 1e-3 * uMax * Math.min(change, 1);
     if (change < tolerance) {
       converged = true;
       break;
@@ -235,8 +313,58 @@ export function solveClusterLattice(request: ClusterLatticeRequest): ClusterLatt
       break;
     }
   }
-  st.looseTolerance = 0;
-  return measure(st, { converged, stopped, sweeps, change, history });
+  const f = () => new Float64Array(n);
+  const out: ClusterMeasureTargets = {
+    density: f(),
+    densitySq: f(),
+    parityOdd: f(),
+    topWeight: f(),
+    entropy: f(),
+    psi: f(),
+    grandPotential: f(),
+    bondCorrelation: Array.from({ length: dims }, () => new Float64Array(n).fill(NaN)),
+    bondExact: Array.from({ length: dims }, () => new Uint8Array(n)),
+  };
+  driver.measure(mu, temperature, out);
+  const variance = new Float64Array(n);
+  let atoms = 0;
+  let condensed = 0;
+  let grand = 0;
+  let s = 0;
+  let maxTop = 0;
+  for (let i = 0; i < n; i++) {
+    variance[i] = out.densitySq[i] - out.density[i] * out.density[i];
+    atoms += out.density[i];
+    condensed += phi[i] * phi[i];
+    grand += out.grandPotential[i];
+    s += out.entropy[i];
+    if (out.topWeight[i] > maxTop) maxTop = out.topWeight[i];
+  }
+  const stats = driver.statistics();
+  return {
+    phi,
+    density: out.density,
+    numberVariance: variance,
+    parityOdd: out.parityOdd,
+    topWeight: out.topWeight,
+    entropy: out.entropy,
+    psi: out.psi,
+    grandPotential: out.grandPotential,
+    bondCorrelation: out.bondCorrelation,
+    bondExact: out.bondExact,
+    totals: { atoms, condensedAtoms: condensed, grandPotential: grand, freeEnergy: grand + mu * atoms, entropy: s, maxTopWeight: maxTop },
+    converged,
+    stopped,
+    sweeps,
+    residual: change,
+    residualHistory: history,
+    maxTruncationWeight: stats.maxTruncationWeight,
+    clusterSolvesConverged: stats.clusterSolvesConverged,
+    matvecs: stats.matvecs,
+    clusterCount: driver.tiling.clusterCount,
+    colourCount: driver.tiling.colourCount,
+    warmStarts: driver.warmStarts,
+  };
 }
 
 /** 0.5 sqrt(n_atomic) + 0.05 per site, the single-site solver's starting field. */
@@ -250,84 +378,37 @@ function atomicGuess(model: LatticeModel, mu: number): Float64Array {
   return out;
 }
 
-function measure(
-  st: DriverState,
-  run: { converged: boolean; stopped: boolean; sweeps: number; change: number; history: number[] },
-): ClusterLatticeResult {
-  const { model, tiling, phi } = st;
-  const n = model.geometry.siteCount;
-  const dims = model.geometry.dims;
-  const density = new Float64Array(n);
-  const variance = new Float64Array(n);
-  const parity = new Float64Array(n);
-  const top = new Float64Array(n);
-  const entropy = new Float64Array(n);
-  const psiOut = new Float64Array(n);
-  const omega = new Float64Array(n);
-  const bondCorrelation = Array.from({ length: dims }, () => new Float64Array(n).fill(NaN));
-  const bondExact = Array.from({ length: dims }, () => new Uint8Array(n));
+/** Solve every cluster at the current phi (tight) and write the per-site fields. */
+function measureInto(st: DriverState, out: ClusterMeasureTargets): void {
+  const { tiling, phi } = st;
+  for (const b of out.bondCorrelation) b.fill(NaN);
+  for (const b of out.bondExact) b.fill(0);
   for (let c = 0; c < tiling.clusterCount; c++) {
     const solver = solveCluster(st, c);
-    const out = solver.observables;
+    const obs = solver.observables;
     const h = solver.hamiltonian;
     const s0 = tiling.siteStart[c];
     const size = solver.geometry.siteCount;
     for (let l = 0; l < size; l++) {
       const g = tiling.sites[s0 + l];
-      density[g] = out.density[l];
-      variance[g] = out.densitySq[l] - out.density[l] * out.density[l];
-      parity[g] = out.parityOdd[l];
-      top[g] = out.topWeight[l];
-      entropy[g] = out.entropy / size;
-      psiOut[g] = h.fieldPsi[l];
-      omega[g] = out.energy / size + h.fieldPsi[l] * phi[g];
+      out.density[g] = obs.density[l];
+      out.densitySq[g] = obs.densitySq[l];
+      out.parityOdd[g] = obs.parityOdd[l];
+      out.topWeight[g] = obs.topWeight[l];
+      out.entropy[g] = obs.entropy / size;
+      out.psi[g] = h.fieldPsi[l];
+      out.grandPotential[g] = obs.energy / size + h.fieldPsi[l] * phi[g];
       // Decoupled bonds stored at this site: the factorised correlation.
       for (let e = tiling.externalStart[s0 + l]; e < tiling.externalStart[s0 + l + 1]; e++) {
-        if (tiling.externalBondSite[e] === g) bondCorrelation[tiling.externalAxis[e]][g] = phi[g] * phi[tiling.externalSite[e]];
+        if (tiling.externalBondSite[e] === g) out.bondCorrelation[tiling.externalAxis[e]][g] = phi[g] * phi[tiling.externalSite[e]];
       }
     }
     const b0 = tiling.bondStart[c];
     for (let b = 0; b < solver.geometry.bondCount; b++) {
       const axis = tiling.bondAxis[b0 + b];
       const site = tiling.bondSite[b0 + b];
-      bondCorrelation[axis][site] = out.bondCorrelation[b];
-      bondExact[axis][site] = 1;
+      out.bondCorrelation[axis][site] = obs.bondCorrelation[b];
+      out.bondExact[axis][site] = 1;
     }
   }
-  let atoms = 0;
-  let condensed = 0;
-  let grand = 0;
-  let s = 0;
-  let maxTop = 0;
-  for (let i = 0; i < n; i++) {
-    atoms += density[i];
-    condensed += phi[i] * phi[i];
-    grand += omega[i];
-    s += entropy[i];
-    if (top[i] > maxTop) maxTop = top[i];
-  }
-  return {
-    phi,
-    density,
-    numberVariance: variance,
-    parityOdd: parity,
-    topWeight: top,
-    entropy,
-    psi: psiOut,
-    grandPotential: omega,
-    bondCorrelation,
-    bondExact,
-    totals: { atoms, condensedAtoms: condensed, grandPotential: grand, freeEnergy: grand + st.mu * atoms, entropy: s, maxTopWeight: maxTop },
-    converged: run.converged,
-    stopped: run.stopped,
-    sweeps: run.sweeps,
-    residual: run.change,
-    residualHistory: run.history,
-    maxTruncationWeight: st.maxTruncation,
-    clusterSolvesConverged: st.allConverged,
-    matvecs: st.matvecs,
-    clusterCount: tiling.clusterCount,
-    colourCount: tiling.colourCount,
-    warmStarts: st.warm !== null,
-  };
 }
