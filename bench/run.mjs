@@ -272,4 +272,44 @@ if (want('scan')) {
   }
 }
 
+// 11. Cluster mean field through the whole solve ---------------------------------------------
+if (want('cluster')) {
+  const { mkdtempSync, writeFileSync, rmSync } = await import('node:fs');
+  const { tmpdir } = await import('node:os');
+  const { join } = await import('node:path');
+  const { prepareScenario } = await import('../dist/pipeline/prepareScenario.js');
+  const { solveScenario } = await import('../dist/pipeline/solveScenario.js');
+  const dir = mkdtempSync(join(tmpdir(), 'tiercake-bench-cluster-'));
+  const scenario = (cluster) => {
+    const path = join(dir, `layer-${cluster.join('x')}.json`);
+    writeFileSync(
+      path,
+      JSON.stringify({
+        name: 'bench-cluster',
+        energyUnit: 'U',
+        lattice: { shape: [16, 16], boundary: 'open' },
+        hubbard: { hopping: 0.045 },
+        trap: { coefficient: 0.012 },
+        particles: { chemicalPotential: 0.6 },
+        truncation: { nmax: 3, automatic: false, topWeightMax: 0.1 },
+        solver: { cluster, tolerance: 1e-8, compressibility: false },
+      }),
+    );
+    return path;
+  };
+  const timed = async (cluster, threads) => {
+    const t = now();
+    const a = await solveScenario(prepareScenario(scenario(cluster)), { threads });
+    return { seconds: (now() - t) / 1000, sweeps: a.outcome.totalSweeps, density: a.fields.density, threadsUsed: a.threadsUsed, clusters: a.cluster?.clusterCount ?? 256 };
+  };
+  const single = await timed([1, 1], 1);
+  const one = await timed([2, 2], 1);
+  const two = await timed([2, 2], 2);
+  const identical = one.density.every((v, i) => Object.is(v, two.density[i]));
+  log('cluster', '16x16 trap, nmax 3, fixed mu: single-site solve', single.seconds, 's', `${single.sweeps} sweeps`);
+  log('cluster', '16x16 trap, nmax 3, fixed mu: 2x2 clusters, 1 thread', one.seconds, 's', `${one.sweeps} sweeps, ${one.clusters} clusters of 256 states; ${(one.seconds / single.seconds).toFixed(0)}x single-site; ${((1000 * one.seconds) / (one.sweeps + 1) / one.clusters).toFixed(2)} ms per cluster solve`);
+  log('cluster', '16x16 trap, nmax 3, fixed mu: 2x2 clusters, 2 threads', two.seconds, 's', `x${(one.seconds / two.seconds).toFixed(2)} vs 1 thread${identical ? ', identical fields' : ' FIELDS DIFFER'}`);
+  rmSync(dir, { recursive: true, force: true });
+}
+
 await pool.destroy();

@@ -173,7 +173,7 @@ export function buildSummary(a: SolveArtifacts, files: string[], extras: Summary
     ...(imaging !== undefined ? { imaging } : {}),
     threads: a.threadsUsed,
     ...(a.threadsUsed < a.threadsRequested
-      ? { threadsNote: a.cluster !== null ? clusterThreadsNote(a.threadsRequested) : threadsNote(a.threadsUsed, a.threadsRequested, resolved.geometry.siteCount) }
+      ? { threadsNote: a.cluster !== null ? clusterThreadsNote(a.threadsUsed, a.threadsRequested) : threadsNote(a.threadsUsed, a.threadsRequested, resolved.geometry.siteCount) }
       : {}),
     timings: a.timings,
     files,
@@ -181,8 +181,8 @@ export function buildSummary(a: SolveArtifacts, files: string[], extras: Summary
 }
 
 /** The cluster method's thread statement. */
-export function clusterThreadsNote(requested: number): string {
-  return `1 thread of ${requested} requested: the cluster method solves its clusters on the calling thread`;
+export function clusterThreadsNote(used: number, requested: number): string {
+  return `${used} thread${used > 1 ? 's' : ''} of ${requested} requested: the cluster method uses no more threads than one colour has clusters`;
 }
 
 /** Why fewer threads ran than were asked for (solve's line on stdout says the same). */

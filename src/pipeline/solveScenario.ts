@@ -6,7 +6,7 @@
 
 import { InputError } from '../scenario/inputError.js';
 import { runLattice, type RunOutcome, type RunProgress } from '../solver/runLattice.js';
-import { clusterExecutorFactory, clusterReadingOf, type ClusterReading } from '../solver/cluster/clusterSweepExecutor.js';
+import { clusterExecutorFactory, clusterReadingOf, createClusterWorkers, isClusterShape, type ClusterReading, type ClusterWorkers } from '../solver/cluster/clusterSweepExecutor.js';
 import { kernelModule } from '../solver/kernel/kernelModule.js';
 import { defaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 import { createSweepExecutor, createSweepPool, type SweepPool } from '../solver/sweepExecutor.js';
@@ -39,6 +39,8 @@ export interface SolveOptions {
   sweepPool?: SweepPool;
   /** worker module override for the pool made here (tests) */
   workerModule?: WorkerModule;
+  /** worker module override for the cluster method's threads (tests) */
+  clusterWorkerModule?: WorkerModule;
   /**
    * continue from an interrupted run (checkpoint), or start from a neighbouring solution
    * (scans): phi, mu (the fixed-N search starts there), nmax, and optionally k_B T
@@ -98,9 +100,12 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
       : resolved.chemical;
   const thermal =
     options.resume?.kT !== undefined && resolved.thermal.kind === 'entropy' ? { ...resolved.thermal, kTGuess: options.resume.kT } : resolved.thermal;
-  const clusterFactory = clusterExecutorFactory(scenario.solver.cluster);
-  // The cluster method runs its clusters on the calling thread.
-  const threads = clusterFactory !== null ? 1 : threadsFor(model.geometry.siteCount, options.threads);
+  // The cluster method shares the clusters of each colour between the calling thread and
+  // threads - 1 workers (cluster solves are costly: threads pay off on any lattice).
+  const clustered = isClusterShape(scenario.solver.cluster);
+  const threads = clustered ? Math.max(1, options.threads) : threadsFor(model.geometry.siteCount, options.threads);
+  const clusterWorkers: ClusterWorkers | null = clustered && threads > 1 ? createClusterWorkers(threads - 1, options.clusterWorkerModule ?? {}) : null;
+  const clusterFactory = clusterExecutorFactory(scenario.solver.cluster, clusterWorkers);
   let ownPool: SweepPool | null = null;
   // TIERCAKE_KERNEL (set process-wide by the command line) overrides the scenario.
   const kernel = defaultKernelChoice() !== 'auto' ? defaultKernelChoice() : scenario.solver.kernel;
@@ -108,7 +113,7 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     throw new InputError(`solver.kernel: "wasm" is not available: ${kernelModule.reason}; use "auto" or "js"`);
   }
   let pool: SweepPool | null = null;
-  if (threads > 1) {
+  if (threads > 1 && !clustered) {
     pool = options.sweepPool ?? null;
     if (pool === null) {
       ownPool = createSweepPool({ workers: threads - 1, ...(options.workerModule ?? {}) });
@@ -129,6 +134,7 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     );
   } finally {
     if (ownPool) await ownPool.destroy();
+    if (clusterWorkers) await clusterWorkers.destroy();
   }
   const t2 = clock();
   const cluster = clusterReadingOf(outcome.warm.executor, outcome.state.fields.phi);
@@ -175,7 +181,7 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     cluster,
     readingWarnings: cluster === null ? readingWarnings : [...readingWarnings, ...clusterWarnings(cluster)],
     threadsRequested: options.threads,
-    threadsUsed: threads,
+    threadsUsed: outcome.warm.executor.threads,
     timings: { resolveSeconds: options.prepareSeconds ?? 0, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000 },
   };
 }

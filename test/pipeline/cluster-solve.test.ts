@@ -32,7 +32,11 @@ function file(name: string, body: Record<string, unknown>): string {
   return path;
 }
 
-const solve = (path: string) => solveScenario(prepareScenario(path), { threads: 2 });
+const clusterWorkerModule = {
+  filename: new URL('../../src/solver/cluster/clusterSweepWorker.ts', import.meta.url).href,
+  execArgv: ['--import', new URL('../register-ts.mjs', import.meta.url).href],
+};
+const solve = (path: string, threads = 1) => solveScenario(prepareScenario(path), { threads, clusterWorkerModule });
 
 describe('solver.cluster in solve', () => {
   it('a 2x2 lattice that is one cluster equals exact diagonalisation (grand potential, densities, bonds) to 1e-9', async () => {
@@ -130,5 +134,30 @@ describe('solver.cluster in solve', () => {
     expect(clustered.cluster!.shape).toEqual([2, 2]);
     expect(clustered.cluster!.insideBonds[0]!.bonds).toBe(32);
     expect(clustered.threadsUsed).toBe(1);
+  });
+
+  it('two threads give the same fields bit for bit as one, at T = 0 and T > 0', async () => {
+    for (const kT of [0, 0.08]) {
+      const body = {
+        lattice: { shape: [6, 4], boundary: 'open' },
+        hubbard: { hopping: 0.05 },
+        trap: { coefficient: 0.05 },
+        disorder: { kind: 'box', width: 0.2, seed: 'threads' },
+        particles: { atoms: 10 },
+        temperature: { kT },
+        truncation: { nmax: 2, automatic: false, topWeightMax: 0.1 },
+        solver: { cluster: [2, 2], tolerance: 1e-9 },
+      };
+      const one = await solve(file(`threads-1-${kT}`, body), 1);
+      const two = await solve(file(`threads-2-${kT}`, body), 2);
+      expect(two.threadsUsed).toBe(2);
+      expect(one.threadsUsed).toBe(1);
+      expect(two.outcome.totalSweeps).toBe(one.outcome.totalSweeps);
+      expect(Array.from(two.fields.density)).toEqual(Array.from(one.fields.density));
+      expect(Array.from(two.fields.orderParameter)).toEqual(Array.from(one.fields.orderParameter));
+      expect(Array.from(two.fields.compressibility)).toEqual(Array.from(one.fields.compressibility));
+      expect(Array.from(two.cluster!.bondCorrelation[1])).toEqual(Array.from(one.cluster!.bondCorrelation[1]));
+      expect(two.cluster!.matvecs).toBe(one.cluster!.matvecs);
+    }
   });
 });

@@ -97,7 +97,7 @@ export async function runSolveCommand(scenarioPath: string, raw: RawOptions): Pr
   const fraction = fractionOfAtoms(t.condensedAtoms, t.atoms);
   const threadText =
     artifacts.threadsUsed < artifacts.threadsRequested && artifacts.cluster !== null
-      ? clusterThreadsNote(artifacts.threadsRequested)
+      ? clusterThreadsNote(artifacts.threadsUsed, artifacts.threadsRequested)
       : artifacts.threadsUsed < artifacts.threadsRequested
       ? `1 thread: ${artifacts.resolved.geometry.siteCount} sites are below the parallel threshold of ${PARALLEL_MIN_SITES} sites`
       : `${artifacts.threadsUsed} thread${artifacts.threadsUsed > 1 ? 's' : ''}`;

@@ -84,7 +84,8 @@ interface DriverState {
   model: LatticeModel;
   tiling: ClusterTiling;
   solvers: ClusterSolver[];
-  warm: Float64Array[] | null;
+  /** per-cluster warm vectors, allocated at a cluster's first iterative solve (null: not kept) */
+  warm: Array<Float64Array | null> | null;
   siteWs: ReturnType<typeof createSiteWorkspace>;
   amplitudes: Float64Array[];
   start: Float64Array[];
@@ -158,10 +159,14 @@ function solveCluster(st: DriverState, c: number): ClusterSolver {
   const solver = loadCluster(st, c);
   const iterative = st.temperature > 0 ? solver.thermalMethod === 'lanczos' : solver.method === 'lanczos';
   let start: Float64Array | null = null;
-  if (iterative) start = st.warm !== null && st.warm[c].length > 0 && st.warm[c][0] === st.warm[c][0] ? st.warm[c] : productStart(st, c, solver);
+  const kept = st.warm !== null ? st.warm[c] : null;
+  if (iterative) start = kept !== null && kept[0] === kept[0] ? kept : productStart(st, c, solver);
   const out =
     st.temperature > 0 ? solveClusterThermal(solver, st.temperature, start, st.looseTolerance) : solveClusterGround(solver, start, st.looseTolerance);
-  if (iterative && st.warm !== null) st.warm[c].set(solver.groundVector);
+  if (iterative && st.warm !== null) {
+    if (st.warm[c] === null) st.warm[c] = new Float64Array(solver.basis.dim);
+    st.warm[c]!.set(solver.groundVector);
+  }
   st.matvecs += out.matvecs;
   if (!out.converged) st.allConverged = false;
   if (out.truncationWeight > st.maxTruncation) st.maxTruncation = out.truncationWeight;
@@ -189,10 +194,31 @@ export interface ClusterDriver {
   readonly warmStarts: boolean;
   /** one sweep over every colour; writes new - old phi into `delta` when given; returns max |delta phi| */
   sweep(mu: number, temperature: number, delta?: Float64Array): number;
-  /** tight solve of every cluster at the current phi, into `out` (fields as ClusterLatticeResult) */
-  measure(mu: number, temperature: number, out: ClusterMeasureTargets): void;
+  /**
+   * One colour, or this thread's share of it (the colour's clusters split into `share.count`
+   * contiguous blocks): the building block of parallel sweeps. The eigen-solves may stop
+   * at the absolute residual `looseTolerance` (0: tight); the caller keeps the policy, so
+   * that every thread uses the same value. Returns max |delta phi| (NaN if phi became NaN).
+   */
+  sweepColour(colour: number, mu: number, temperature: number, looseTolerance: number, delta?: Float64Array, share?: ClusterShare): number;
+  /** tight solve of every cluster (or of this share of all clusters) at the current phi, into `out` */
+  measure(mu: number, temperature: number, out: ClusterMeasureTargets, share?: ClusterShare): void;
+  /** the loose residual the single-threaded sweep uses after a sweep with this change */
+  looseToleranceAfter(change: number): number;
   /** cumulative matrix-vector products, largest thermal truncation weight, all eigen-solves converged */
   statistics(): { matvecs: number; maxTruncationWeight: number; clusterSolvesConverged: boolean };
+}
+
+/** Block `index` of `count` contiguous blocks of a list of clusters. */
+export interface ClusterShare {
+  index: number;
+  count: number;
+}
+
+function shareRange(first: number, end: number, share: ClusterShare | undefined): [number, number] {
+  if (share === undefined) return [first, end];
+  const n = end - first;
+  return [first + Math.floor((n * share.index) / share.count), first + Math.floor((n * (share.index + 1)) / share.count)];
 }
 
 /** Arrays `measure` fills (one value per site; bond arrays per physical axis). */
@@ -221,7 +247,7 @@ export function createClusterDriver(model: LatticeModel, phi: Float64Array, opti
     model,
     tiling,
     solvers,
-    warm: keepWarm ? Array.from({ length: tiling.clusterCount }, (_, c) => new Float64Array(solvers[tiling.geometryOf[c]].basis.dim).fill(NaN)) : null,
+    warm: keepWarm ? Array.from({ length: tiling.clusterCount }, () => null) : null,
     siteWs: createSiteWorkspace(model.nmax),
     amplitudes: solvers.map((s) => new Float64Array(s.basis.sites * s.basis.base)),
     start: solvers.map((s) => new Float64Array(s.basis.dim)),
@@ -244,7 +270,31 @@ export function createClusterDriver(model: LatticeModel, phi: Float64Array, opti
     st.mu = mu;
     st.temperature = temperature;
     st.looseTolerance = 0;
-    if (st.warm !== null) for (const w of st.warm) w[0] = NaN;
+    if (st.warm !== null) for (const w of st.warm) if (w !== null) w[0] = NaN;
+  };
+  const looseToleranceAfter = (change: number): number => 1e-3 * uMax * Math.min(change, 1);
+  const sweepColour = (colour: number, mu: number, temperature: number, loose: number, delta?: Float64Array, share?: ClusterShare): number => {
+    enter(mu, temperature);
+    st.looseTolerance = loose;
+    let change = 0;
+    let failed = false; // a NaN phi: reported as a NaN change (not converged)
+    const [k0, k1] = shareRange(tiling.colourStart[colour], tiling.colourStart[colour + 1], share);
+    for (let k = k0; k < k1; k++) {
+      const c = tiling.colourOrder[k];
+      const solver = solveCluster(st, c);
+      const s0 = tiling.siteStart[c];
+      const out = solver.observables;
+      for (let l = 0; l < solver.geometry.siteCount; l++) {
+        const g = tiling.sites[s0 + l];
+        const step = out.phi[l] - phi[g];
+        const d = Math.abs(step);
+        if (d > change) change = d;
+        else if (d !== d) failed = true;
+        if (delta !== undefined) delta[g] = step;
+        phi[g] = out.phi[l];
+      }
+    }
+    return failed ? NaN : change;
   };
   return {
     tiling,
@@ -252,33 +302,23 @@ export function createClusterDriver(model: LatticeModel, phi: Float64Array, opti
     warmStarts: keepWarm,
     sweep(mu, temperature, delta) {
       enter(mu, temperature);
+      const loose = st.looseTolerance;
       let change = 0;
-      let failed = false; // a NaN phi: reported as a NaN change (not converged)
       for (let colour = 0; colour < tiling.colourCount; colour++) {
-        for (let k = tiling.colourStart[colour]; k < tiling.colourStart[colour + 1]; k++) {
-          const c = tiling.colourOrder[k];
-          const solver = solveCluster(st, c);
-          const s0 = tiling.siteStart[c];
-          const out = solver.observables;
-          for (let l = 0; l < solver.geometry.siteCount; l++) {
-            const g = tiling.sites[s0 + l];
-            const step = out.phi[l] - phi[g];
-            const d = Math.abs(step);
-            if (d > change) change = d;
-            else if (d !== d) failed = true;
-            if (delta !== undefined) delta[g] = step;
-            phi[g] = out.phi[l];
-          }
-        }
+        const c = sweepColour(colour, mu, temperature, loose, delta);
+        if (c !== c) change = NaN;
+        else if (c > change) change = c;
       }
-      if (failed) return NaN;
-      st.looseTolerance = 1e-3 * uMax * Math.min(change, 1);
+      if (change !== change) return NaN;
+      st.looseTolerance = looseToleranceAfter(change);
       return change;
     },
-    measure(mu, temperature, out) {
+    sweepColour,
+    looseToleranceAfter,
+    measure(mu, temperature, out, share) {
       enter(mu, temperature);
       st.looseTolerance = 0;
-      measureInto(st, out);
+      measureInto(st, out, share);
     },
     statistics: () => ({ matvecs: st.matvecs, maxTruncationWeight: st.maxTruncation, clusterSolvesConverged: st.allConverged }),
   };
@@ -379,11 +419,14 @@ function atomicGuess(model: LatticeModel, mu: number): Float64Array {
 }
 
 /** Solve every cluster at the current phi (tight) and write the per-site fields. */
-function measureInto(st: DriverState, out: ClusterMeasureTargets): void {
+function measureInto(st: DriverState, out: ClusterMeasureTargets, share?: ClusterShare): void {
   const { tiling, phi } = st;
-  for (const b of out.bondCorrelation) b.fill(NaN);
-  for (const b of out.bondExact) b.fill(0);
-  for (let c = 0; c < tiling.clusterCount; c++) {
+  if (share === undefined) {
+    for (const b of out.bondCorrelation) b.fill(NaN);
+    for (const b of out.bondExact) b.fill(0);
+  }
+  const [c0, c1] = shareRange(0, tiling.clusterCount, share);
+  for (let c = c0; c < c1; c++) {
     const solver = solveCluster(st, c);
     const obs = solver.observables;
     const h = solver.hamiltonian;

@@ -186,6 +186,9 @@ function fixSign(v: Float64Array, dim: number): void {
  * solveClusterGround (used as the first start vector of the thermal block). The lowest
  * eigenvector is left in solver.groundVector.
  */
+/** Thermal Lanczos workspaces of each solver, by kept states and basis size. */
+const thermalWorkspaces = new WeakMap<ClusterSolver, Map<number, LanczosWorkspace>>();
+
 export function solveClusterThermal(solver: ClusterSolver, temperature: number, warm: Float64Array | null, looseTolerance = 0): ClusterObservables {
   if (!(temperature > 0)) throw new Error(`temperature: expected kT > 0 for the thermal cluster state, got ${temperature}`);
   const h = solver.hamiltonian;
@@ -217,11 +220,17 @@ export function solveClusterThermal(solver: ClusterSolver, temperature: number, 
     let matvecs = 0;
     for (;;) {
       const basisSize = Math.min(dim - o.thermalBlockSize - 1, Math.max(2 * k + 4 * o.thermalBlockSize, 3 * k));
-      let ws = solver.thermal;
-      if (ws === null || ws.maxWanted < k || ws.maxBasis < basisSize) {
-        ws = createLanczosWorkspace(dim, { blockSize: o.thermalBlockSize, maxBasis: basisSize, maxWanted: Math.max(k, ws?.maxWanted ?? 0) });
-        solver.thermal = ws;
+      // One workspace per (k, basis size): the Lanczos basis size is the workspace's, so a
+      // workspace enlarged for one cluster must not change the solve of the next (results
+      // would then depend on which clusters a thread solved before, i.e. on the thread count).
+      let byShape = thermalWorkspaces.get(solver);
+      if (byShape === undefined) thermalWorkspaces.set(solver, (byShape = new Map()));
+      let ws = byShape.get(k * 100_003 + basisSize) ?? null;
+      if (ws === null) {
+        ws = createLanczosWorkspace(dim, { blockSize: o.thermalBlockSize, maxBasis: basisSize, maxWanted: k });
+        byShape.set(k * 100_003 + basisSize, ws);
       }
+      solver.thermal = ws;
       const tol = Math.max(o.residualTolerance * clusterEnergyScale(h), looseTolerance);
       lanczosLowest(ws, h.matrix, k, warm, warm === null ? 0 : 1, tol, o.maxMatvecs);
       matvecs += ws.matvecs;
