@@ -155,6 +155,11 @@ export const OPTION_TABLE = {
   kt: { flags: '--kt <x>', help: 'temperature k_B T/U (0: ground state)', kind: 'real', range: { min: 0, max: 100 } },
   nmax: { flags: '--nmax <n>', help: 'highest occupation kept per site', kind: 'integer', range: { min: 2, max: 40 } },
   shade: { flags: '--shade <field>', help: "colour by 'phi' (order parameter) or 'density'", kind: 'choice', values: ['phi', 'density'] },
+  cluster: {
+    flags: '--cluster <shape>',
+    help: 'also draw the Mott lobes of cluster mean field for this cluster, e.g. 2x2 (square lattice) or 2x2x2 (cubic), T = 0, with the quantum Monte Carlo tip for comparison',
+    kind: 'text',
+  },
   // hubbard
   species: { flags: '--species <name>', help: 'isotope from the built-in table, e.g. 87Rb', kind: 'text' },
   massU: { flags: '--mass-u <u>', help: 'or: atomic mass in u (with --scattering-bohr)', kind: 'real', range: positive('u', 'the atomic mass') },

@@ -8,7 +8,9 @@ import { svgToPng } from '../figures/svgToPng.js';
 import { renderReportHtml } from '../report/renderReport.js';
 import { MEAN_FIELD_CAUTION } from '../report/cautions.js';
 import type { phaseMap, PhaseMapRequest } from '../solver/phaseMap.js';
+import { monteCarloTip, type ClusterLobe } from '../solver/cluster/clusterLobeSet.js';
 import type { OutputFolder } from './outputFolder.js';
+import type { OverlayLine } from '../figures/gridFrame.js';
 import { toolVersion } from './toolVersion.js';
 
 /** The map's grid and what colours it. */
@@ -28,7 +30,13 @@ export function diagramTitle(s: DiagramSettings): string {
 }
 
 /** Stage the files of a phase map in `folder` (the caller commits it). */
-export function writeDiagramFiles(result: PhaseMapResult, s: DiagramSettings, seconds: number, folder: OutputFolder): void {
+/** Lobes of cluster mean field drawn beside the single-site map. */
+export interface DiagramClusterLobes {
+  shape: number[];
+  lobes: ClusterLobe[];
+}
+
+export function writeDiagramFiles(result: PhaseMapResult, s: DiagramSettings, seconds: number, folder: OutputFolder, cluster: DiagramClusterLobes | null = null): void {
   const { zJMax, muMin, muMax, columns, rows, temperature, nmax } = s;
   const dz = zJMax / (columns - 1);
   const dmu = (muMax - muMin) / (rows - 1);
@@ -49,7 +57,7 @@ export function writeDiagramFiles(result: PhaseMapResult, s: DiagramSettings, se
     colorBarLabel: shadePhi ? 'order parameter phi' : 'density n',
     colorMap: shadePhi ? 'ember' : 'glacier',
     pixelsPerSite: Math.max(1, Math.floor(600 / Math.max(columns, rows))),
-    overlays: [{ x: edgeZ, y: edgeMu }],
+    overlays: [{ x: edgeZ, y: edgeMu }, ...clusterOverlays(cluster, muMin, muMax)],
   });
   const png = svgToPng(svg);
 
@@ -109,8 +117,9 @@ export function writeDiagramFiles(result: PhaseMapResult, s: DiagramSettings, se
     { title: 'Mott-lobe tips of the homogeneous mean field', description: 'largest zJ/U of each computed boundary curve (the lobe tip at T = 0)', creator, notes: common },
   );
 
+  const clusterTable = cluster === null ? null : clusterLobeTable(cluster, creator);
   folder.write('phase_map.png', png);
-  for (const table of [boundary, tips, grid]) {
+  for (const table of [boundary, tips, grid, ...(clusterTable === null ? [] : [clusterTable])]) {
     folder.write(table.file, table.csv);
     folder.write(table.metadataFile, table.metadata);
   }
@@ -120,7 +129,12 @@ export function writeDiagramFiles(result: PhaseMapResult, s: DiagramSettings, se
       title: 'tiercake — homogeneous phase map',
       subtitle: title,
       createdIso: new Date().toISOString(),
-      status: [{ level: 'ok', text: `${columns} × ${rows} grid in ${seconds.toFixed(2)} s` }],
+      status: [
+        { level: 'ok', text: `${columns} × ${rows} grid in ${seconds.toFixed(2)} s` },
+        ...(cluster !== null && cluster.lobes.some((b) => !b.converged)
+          ? [{ level: 'warning' as const, text: 'some cluster lobe points did not converge (cluster_lobes.csv, column converged)' }]
+          : []),
+      ],
       sections: [
         { heading: 'Map', blocks: [{ kind: 'figure', svg, caption: 'Line: computed edge of the superfluid (zJ chi = 1), all fillings in one curve.' }] },
         {
@@ -133,9 +147,82 @@ export function writeDiagramFiles(result: PhaseMapResult, s: DiagramSettings, se
             },
           ],
         },
+        ...(cluster === null ? [] : [clusterSection(cluster, result)]),
         { heading: 'Cautions', blocks: [{ kind: 'cautionList', items: [MEAN_FIELD_CAUTION] }] },
       ],
       footer: `tiercake ${toolVersion()}`,
     }),
   );
+}
+
+/** Dashed cluster lobes, and the Monte Carlo tip as a dotted vertical line across the n = 1 interval. */
+function clusterOverlays(cluster: DiagramClusterLobes | null, muMin: number, muMax: number) {
+  if (cluster === null) return [];
+  const lines: OverlayLine[] = cluster.lobes.map((b) => ({ x: b.zJ, y: b.mu, color: [120, 220, 255], dashPx: [6, 4] }));
+  const qmc = monteCarloTip(cluster.shape.length);
+  if (qmc !== null && muMax > 0 && muMin < 1) {
+    lines.push({ x: [qmc.zJOverU, qmc.zJOverU], y: [Math.max(0, muMin), Math.min(1, muMax)], color: [255, 255, 255], dashPx: [2, 3] });
+  }
+  return lines;
+}
+
+function clusterLobeTable(cluster: DiagramClusterLobes, creator: string) {
+  const filling: number[] = [];
+  const nmax: number[] = [];
+  const mu: number[] = [];
+  const zJ: number[] = [];
+  const crossing: number[] = [];
+  for (const b of cluster.lobes) {
+    for (let k = 0; k < b.mu.length; k++) {
+      filling.push(b.filling);
+      nmax.push(b.nmax);
+      mu.push(b.mu[k]);
+      zJ.push(b.zJ[k]);
+      crossing.push(b.levelCrossing[k]);
+    }
+  }
+  return csvTable(
+    'cluster_lobes.csv',
+    [
+      { name: 'filling', values: filling, unit: 'atoms per site', datatype: 'integer', description: 'filling n of the lobe' },
+      { name: 'nmax', values: nmax, unit: 'atoms per site', datatype: 'integer', description: 'truncation of the cluster problem for this lobe' },
+      { name: 'mu_over_U', values: mu, unit: '1', description: 'chemical potential over U' },
+      { name: 'zJ_over_U', values: zJ, unit: '1', description: `coordination number (${2 * cluster.shape.length}) times hopping over U at the edge of the Mott lobe` },
+      { name: 'level_crossing', values: crossing, unit: '1', datatype: 'integer', description: '1 where the edge is a level crossing of the cluster ground state, 0 where the Mott state becomes unstable to the mean field' },
+    ],
+    {
+      title: `cluster mean-field Mott lobes, ${cluster.shape.join('x')} clusters`,
+      description: `T = 0 lobe boundaries of cluster mean field with ${cluster.shape.join('x')} clusters on the ${cluster.shape.length === 2 ? 'square' : cluster.shape.length === 3 ? 'simple-cubic' : 'chain'} lattice (exact clusters, mean fields between them)`,
+      creator,
+      notes: cluster.lobes.map((b) => `n = ${b.filling}: tip zJ/U = ${b.tipZJ} at mu/U = ${b.tipMu} (nmax ${b.nmax}${b.converged ? '' : ', NOT CONVERGED'})`),
+    },
+  );
+}
+
+function clusterSection(cluster: DiagramClusterLobes, result: PhaseMapResult) {
+  const single = new Map(lobesOf(result).map((b) => [b.filling, b.tipZJ]));
+  const qmc = monteCarloTip(cluster.shape.length);
+  const z = 2 * cluster.shape.length;
+  const rows = cluster.lobes.map((b) => {
+    const s = single.get(b.filling);
+    return [b.filling, b.tipZJ, z / b.tipZJ, s === undefined ? null : z / s, b.filling === 1 && qmc !== null ? qmc.criticalUOverJ : null];
+  });
+  return {
+    heading: `Cluster mean field (${cluster.shape.join('×')} clusters)`,
+    blocks: [
+      {
+        kind: 'paragraph' as const,
+        text:
+          `Dashed: the Mott lobes of cluster mean field with ${cluster.shape.join('×')} clusters on the ${qmc?.lattice ?? 'chain'} lattice (z = ${z}), solved exactly inside each cluster. ` +
+          (qmc !== null
+            ? `Dotted vertical line: the n = 1 tip from quantum Monte Carlo, (U/J)c = ${qmc.criticalUOverJ} (${qmc.source}). Larger clusters move the cluster tip toward it.`
+            : 'No Monte Carlo reference is drawn for a chain.'),
+      },
+      {
+        kind: 'table' as const,
+        columns: [{ header: 'filling n' }, { header: 'cluster tip zJ/U' }, { header: 'cluster (U/J)c' }, { header: 'single-site (U/J)c' }, { header: 'Monte Carlo (U/J)c' }],
+        rows,
+      },
+    ],
+  };
 }

@@ -71,9 +71,33 @@ describe('tiercake diagram', () => {
     expect(Math.max(...xs)).toBeGreaterThan(right + 1);
   });
 
+  it('--cluster 2x2: the n = 1 lobe of cluster mean field encloses the single-site one and its tip lies between single-site and Monte Carlo', async () => {
+    // Outside references: the single-site boundary in closed form (above) and the quantum
+    // Monte Carlo tip (U/J)c = 16.74 on the square lattice (Capogrosso-Sansone, Soyler,
+    // Prokof'ev & Svistunov, PRA 77, 015602 (2008)); clusters add exact bonds, so their
+    // Mott lobe can only grow from the single-site one toward the exact one.
+    const out = join(mkdtempSync(join(tmpdir(), 'tiercake-diagram-')), 'map');
+    expect(await runCli(['diagram', '--grid', '30x30', '--mu', '0:1', '--cluster', '2x2', '--out', out])).toBe(0);
+    const b = readCsv(join(out, 'cluster_lobes.csv'));
+    expect(b.filling.every((n) => n === 1)).toBe(true);
+    expect(b.filling.length).toBe(48);
+    for (let k = 0; k < b.filling.length; k++) {
+      const x = b.mu_over_U[k];
+      expect(b.zJ_over_U[k]).toBeGreaterThanOrEqual(((1 - x) * x) / (1 + x) - 1e-9);
+    }
+    const tip = Math.max(...b.zJ_over_U);
+    expect(4 / tip).toBeLessThan(4 / (3 - 2 * Math.SQRT2) - 0.5); // below the single-site 23.31 (tip zJ/U = 3 - 2 sqrt 2, as above)
+    expect(4 / tip).toBeGreaterThan(16.74);
+    const html = readFileSync(join(out, 'report.html'), 'utf8');
+    expect(html).toMatch(/Cluster mean field \(2×2 clusters\)/);
+    expect(html).toMatch(/16\.74/);
+    // the single-site edge, the cluster lobe and the Monte Carlo line
+    expect([...html.matchAll(/<path class="overlay"/g)]).toHaveLength(3);
+  });
+
   it('refuses bad options with exit code 2 and writes nothing', async () => {
     const out = join(mkdtempSync(join(tmpdir(), 'tiercake-diagram-')), 'map');
-    for (const args of [['--grid', '10by10'], ['--mu', '3:1'], ['--kt', '-1'], ['--nmax', '3', '--mu', '0:3'], ['--shade', 'rainbow']]) {
+    for (const args of [['--grid', '10by10'], ['--mu', '3:1'], ['--kt', '-1'], ['--nmax', '3', '--mu', '0:3'], ['--shade', 'rainbow'], ['--cluster', '2by2'], ['--cluster', '2x2', '--kt', '0.1'], ['--cluster', '5x5']]) {
       expect(await runCli(['diagram', ...args, '--out', out])).toBe(2);
       expect(existsSync(out)).toBe(false);
     }

@@ -7,13 +7,14 @@ import { resolve } from 'node:path';
 import { writeOutputFolder } from '../../output/outputFolder.js';
 import { lobesOf, writeDiagramFiles, type DiagramSettings } from '../../output/diagramOutputs.js';
 import { phaseMap } from '../../solver/phaseMap.js';
+import { clusterLobes, lobeFillings, lobeTruncation, LOBE_MAX_STATES } from '../../solver/cluster/clusterLobeSet.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
 import { declare, readOptions, type RawOptions } from '../options.js';
 import { parseInteger, parseReal } from '../numberText.js';
 import { outputTarget, reportCommit } from '../outputOption.js';
 
-const OPTIONS = ['zjMax', 'mu', 'grid', 'kt', 'nmax', 'shade', 'out', 'force'] as const;
+const OPTIONS = ['zjMax', 'mu', 'grid', 'kt', 'nmax', 'shade', 'cluster', 'out', 'force'] as const;
 
 export function registerDiagram(program: Command, context: CommandContext): void {
   const command = program.command('diagram').description('homogeneous mean-field phase map in the (zJ/U, mu/U) plane with the Mott-lobe boundaries');
@@ -31,7 +32,7 @@ export function registerDiagram(program: Command, context: CommandContext): void
 }
 
 /** The options checked and converted; every message names the option. */
-export function parseDiagramOptions(raw: RawOptions): DiagramSettings & { out: string; force: boolean } {
+export function parseDiagramOptions(raw: RawOptions): DiagramSettings & { out: string; force: boolean; cluster: number[] | null } {
   const o = readOptions(raw, OPTIONS);
   const muParts = (o.mu ?? '-0.2:3').split(':');
   if (muParts.length !== 2) throw new InputError(`--mu: expected from:to, e.g. -0.2:3, got ${JSON.stringify(o.mu)}`);
@@ -43,7 +44,17 @@ export function parseDiagramOptions(raw: RawOptions): DiagramSettings & { out: s
   const rows = parseInteger(grid[2], '--grid (rows)', { min: 2, max: 4000 });
   const nmax = o.nmax ?? 10;
   if (muMax + 1 >= nmax) throw new InputError(`--nmax: ${nmax} is too small for mu/U up to ${muMax}; use at least ${Math.ceil(muMax) + 3}`);
+  let cluster: number[] | null = null;
+  if (o.cluster !== undefined) {
+    if (!/^\d{1,2}(x\d{1,2}){0,2}$/.test(o.cluster)) throw new InputError(`--cluster: expected a cluster shape such as 2x2 or 2x2x2, got ${JSON.stringify(o.cluster)}`);
+    cluster = o.cluster.split('x').map((t, d) => parseInteger(t, `--cluster (extent ${d + 1})`, { min: 1, max: 16 }));
+    if ((o.kt ?? 0) > 0) throw new InputError('--cluster: the cluster lobes are computed at T = 0; drop --kt or --cluster');
+    if (lobeTruncation(cluster, 1) === null) {
+      throw new InputError(`--cluster: a ${cluster.join('x')} cluster needs more than ${LOBE_MAX_STATES} Fock states even at nmax 2; use a smaller cluster (2x2, 2x4, 2x2x2)`);
+    }
+  }
   return {
+    cluster,
     zJMax: o.zjMax ?? 0.25,
     muMin,
     muMax,
@@ -63,13 +74,21 @@ export async function runDiagram(raw: RawOptions): Promise<number> {
   const target = outputTarget(s.out, { force: s.force });
   const t0 = performance.now();
   const result = phaseMap({ zJMax: s.zJMax, muMin: s.muMin, muMax: s.muMax, columns: s.columns, rows: s.rows, temperature: s.temperature, nmax: s.nmax, boundaryPoints: 400 });
+  const lobes =
+    s.cluster === null
+      ? null
+      : clusterLobes(s.cluster, lobeFillings(s.muMin, s.muMax), 48, (n) => process.stderr.write(`tiercake diagram: cluster ${s.cluster!.join('x')} lobe n = ${n} ...\n`));
   const seconds = (performance.now() - t0) / 1000;
   if (result.maxTopWeight > 1e-6) {
     throw new InputError(`--nmax: the weight on |nmax> reaches ${result.maxTopWeight.toExponential(2)} on this map; raise --nmax`);
   }
-  const { commit } = await writeOutputFolder(target, { command: 'diagram', scenarioHash: null }, (folder) => writeDiagramFiles(result, s, seconds, folder));
+  const { commit } = await writeOutputFolder(target, { command: 'diagram', scenarioHash: null }, (folder) =>
+    writeDiagramFiles(result, s, seconds, folder, lobes === null ? null : { shape: s.cluster!, lobes }),
+  );
   reportCommit(commit);
   const tips = lobesOf(result).map((b) => `n=${b.filling}: zJ/U=${b.tipZJ.toFixed(5)} at mu/U=${b.tipMu.toFixed(4)}`).join('; ');
-  process.stdout.write(`phase map ${s.columns}x${s.rows} in ${seconds.toFixed(2)} s; lobe tips ${tips}\nresults in ${outDir}\n`);
+  const clusterTips =
+    lobes === null ? '' : `\ncluster ${s.cluster!.join('x')} lobe tips ${lobes.map((b) => `n=${b.filling}: zJ/U=${b.tipZJ.toFixed(5)} at mu/U=${b.tipMu.toFixed(4)}`).join('; ')}`;
+  process.stdout.write(`phase map ${s.columns}x${s.rows} in ${seconds.toFixed(2)} s; lobe tips ${tips}${clusterTips}\nresults in ${outDir}\n`);
   return ExitCode.done;
 }
