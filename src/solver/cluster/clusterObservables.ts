@@ -26,7 +26,7 @@ export interface ClusterObservables {
   readonly bondCorrelation: Float64Array;
   /** eigenstates used (1 at T = 0) */
   keptStates: number;
-  /** Boltzmann weight of the highest kept state (0 at T = 0): the truncation measure */
+  /** Boltzmann weight of the highest kept state of a Lanczos thermal solve: the truncation measure (0 at T = 0 and for dense solves, which drop nothing above 1e-17) */
   truncationWeight: number;
   /** every state with a Boltzmann weight above 1e-17 of the ground state's was kept (dense thermal solve) */
   exhaustive: boolean;

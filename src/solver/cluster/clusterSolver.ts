@@ -276,7 +276,10 @@ export function solveClusterThermal(solver: ClusterSolver, temperature: number, 
   out.energy = e0 - temperature * Math.log(z);
   out.entropy = Math.log(z) + meanExcess * invZ;
   out.keptStates = kept;
-  out.truncationWeight = (used === kept ? w[kept - 1] : 0) * invZ;
+  // A dense solve keeps every state within 1e-17 of the ground state's weight: nothing that
+  // matters is dropped, and the highest kept state's weight (which may be large when the
+  // whole Fock space is kept) measures no truncation.
+  out.truncationWeight = out.exhaustive ? 0 : (used === kept ? w[kept - 1] : 0) * invZ;
   // phi >= 0 gauge: the thermal average does not depend on eigenvector signs, and the
   // ground-state sign convention makes phi_i >= 0 for Psi_i >= 0.
   return out;
