@@ -25,6 +25,7 @@
 // Omega_C / |C| + Psi_i phi_i, so that the sums over sites are the lattice totals.
 
 import type { LatticeModel } from '../../lattice/latticeModel.js';
+import type { MeasureFields } from '../sweepKernel.js';
 import { createSiteWorkspace, solveSiteGround } from '../site/index.js';
 import { createClusterSolver, solveClusterGround, solveClusterThermal, type ClusterSolver, type ClusterSolverOptions } from './clusterSolver.js';
 import { createClusterTiling, type ClusterTiling } from './clusterTiling.js';
@@ -221,15 +222,8 @@ function shareRange(first: number, end: number, share: ClusterShare | undefined)
   return [first + Math.floor((n * share.index) / share.count), first + Math.floor((n * (share.index + 1)) / share.count)];
 }
 
-/** Arrays `measure` fills (one value per site; bond arrays per physical axis). */
-export interface ClusterMeasureTargets {
-  density: Float64Array;
-  densitySq: Float64Array;
-  parityOdd: Float64Array;
-  topWeight: Float64Array;
-  entropy: Float64Array;
-  psi: Float64Array;
-  grandPotential: Float64Array;
+/** Arrays `measure` fills: the solver's measured fields, plus the bonds per physical axis. */
+export interface ClusterMeasureTargets extends MeasureFields {
   bondCorrelation: Float64Array[];
   bondExact: Uint8Array[];
 }
