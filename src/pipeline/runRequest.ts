@@ -37,6 +37,7 @@ export function runRequestOf(resolved: ResolvedScenario, observer?: (p: RunProgr
       automatic: s.truncation.automatic,
       topWeightMax: s.truncation.topWeightMax,
       nmaxLimit: nmaxLimitOf(s.truncation.nmax, s.solver.cluster),
+      ...(clusterSites(s.solver.cluster) > 1 ? { step: 1 } : {}),
     },
     compressibility: s.solver.compressibility,
     ...(observer ? { observer } : {}),

@@ -26,7 +26,8 @@ export interface RunRequest {
   tolerance: number;
   maxSweeps: number;
   accelerate: boolean;
-  truncation: { automatic: boolean; topWeightMax: number; nmaxLimit: number };
+  /** step: how much nmax grows per retry (default 2; 1 for clusters, whose cost grows as (nmax + 1)^sites) */
+  truncation: { automatic: boolean; topWeightMax: number; nmaxLimit: number; step?: number };
   compressibility: boolean;
   /** starting order parameter (e.g. from a checkpoint); default: atomic-limit guess */
   initialPhi?: Float64Array;
@@ -198,10 +199,11 @@ export async function runLattice(request: RunRequest, makeExecutor: ExecutorFact
 
     const totals = solve.totals;
     const truncationOk = totals.maxTopWeight <= request.truncation.topWeightMax;
-    if (!truncationOk && request.truncation.automatic && model.nmax + 2 <= request.truncation.nmaxLimit && !solve.stopped) {
+    const nmaxStep = request.truncation.step ?? 2;
+    if (!truncationOk && request.truncation.automatic && model.nmax + nmaxStep <= request.truncation.nmaxLimit && !solve.stopped) {
       // Keep the field: it is a good start for the larger Fock space.
       phiStart = Float64Array.from(state.fields.phi);
-      model = withNmax(model, model.nmax + 2);
+      model = withNmax(model, model.nmax + nmaxStep);
       continue;
     }
 
