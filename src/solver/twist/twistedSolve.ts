@@ -1,0 +1,169 @@
+// Static Gutzwiller solution with complex order parameters and a Peierls phase per bond
+// (twistedBonds.ts), at fixed chemical potential, T = 0 or T > 0.
+//
+// The site problem stays the real one of src/solver/site: with psi_i = |psi_i| e^{i theta_i}
+// the site Hamiltonian -psi_i^* b - psi_i b^+ + ... becomes the real one with |psi_i| in the
+// basis |n> -> e^{i n theta_i} |n> (a gauge rotation of the site), so phi_i = <b_i> is the
+// real solution times e^{i theta_i}. Red-black Gauss-Seidel sweeps in plain JavaScript on one
+// thread (the twisted solves are few and warm-started; the parallel kernels of the main
+// solve are real-valued and not reused here).
+//
+// The grand potential at fixed mu is evaluated on the Gutzwiller product state:
+//   Omega = -sum_bonds 2 J_b Re(e^{i q_b} phi_i^* phi_j)
+//           + sum_i [U_i/2 <n(n-1)>_i + (eps_i - mu) <n>_i] - T sum_i S_i,
+// the expectation of H - mu N (minus T S) in that state (standard mean-field decoupling).
+
+import type { LatticeModel } from '../../lattice/latticeModel.js';
+import { createSiteObservables, createSiteWorkspace, solveSite, solveSiteGround, solveSiteThermal } from '../site/index.js';
+import { twistedBonds, type TwistedBonds } from './twistedBonds.js';
+
+export interface TwistedSolveOptions {
+  mu: number;
+  /** kT in the model's energy unit; <= 0 for the ground state */
+  temperature: number;
+  /** Peierls phase per bond, radians, one per physical axis */
+  twistPerBond: readonly number[];
+  /** stop when the last max |delta phi| and its geometric-tail estimate are below this */
+  tolerance: number;
+  maxSweeps: number;
+  /** starting order parameter (real part; imaginary part optional, zero if absent) */
+  initialRe: Float64Array;
+  initialIm?: Float64Array;
+}
+
+export interface TwistedSolution {
+  phiRe: Float64Array;
+  phiIm: Float64Array;
+  density: Float64Array;
+  /** Omega at fixed mu of the product state (header), energy unit of the model */
+  grandPotential: number;
+  /** hopping part of Omega, -sum_bonds 2 J Re(e^{iq} phi_i^* phi_j) */
+  hoppingEnergy: number;
+  atoms: number;
+  /** sum_i |phi_i|^2 */
+  condensedAtoms: number;
+  sweeps: number;
+  converged: boolean;
+  /** last max |delta phi| */
+  lastChange: number;
+  bonds: TwistedBonds;
+}
+
+function interactionAt(model: LatticeModel, i: number): number {
+  const u = model.interactionU;
+  return typeof u === 'number' ? u : u[i];
+}
+
+export function solveTwisted(model: LatticeModel, options: TwistedSolveOptions): TwistedSolution {
+  const N = model.geometry.siteCount;
+  if (options.initialRe.length !== N) throw new RangeError(`initialRe: expected ${N} values, got ${options.initialRe.length}`);
+  const bonds = twistedBonds(model, options.twistPerBond);
+  const { neighbour, coefRe, coefIm, slots, colour } = bonds;
+  const phiRe = Float64Array.from(options.initialRe);
+  const phiIm = options.initialIm ? Float64Array.from(options.initialIm) : new Float64Array(N);
+  const ws = createSiteWorkspace(model.nmax);
+  const thermal = options.temperature > 0;
+  const mu = options.mu;
+  const eps = model.eps;
+
+  const colourSites = [0, 1].map((c) => {
+    const list: number[] = [];
+    for (let i = 0; i < N; i++) if (colour[i] === c) list.push(i);
+    return Int32Array.from(list);
+  });
+
+  let sweeps = 0;
+  let lastChange = Infinity;
+  let previousChange = Infinity;
+  let converged = false;
+  while (sweeps < options.maxSweeps) {
+    let change = 0;
+    for (const sites of colourSites) {
+      for (let k = 0; k < sites.length; k++) {
+        const i = sites[k];
+        let pr = 0;
+        let pi = 0;
+        const base = i * slots;
+        for (let s = 0; s < slots; s++) {
+          const j = neighbour[base + s];
+          if (j < 0) continue;
+          const cr = coefRe[base + s];
+          const ci = coefIm[base + s];
+          pr += cr * phiRe[j] - ci * phiIm[j];
+          pi += ci * phiRe[j] + cr * phiIm[j];
+        }
+        const a = Math.hypot(pr, pi);
+        let nr = 0;
+        let ni = 0;
+        if (a > 0) {
+          const u = interactionAt(model, i);
+          const mag = thermal ? solveSiteThermal(ws, u, mu - eps[i], a, options.temperature, null) : solveSiteGround(ws, u, mu - eps[i], a, NaN);
+          nr = (mag * pr) / a;
+          ni = (mag * pi) / a;
+        }
+        const dc = Math.hypot(nr - phiRe[i], ni - phiIm[i]);
+        if (dc > change) change = dc;
+        phiRe[i] = nr;
+        phiIm[i] = ni;
+      }
+    }
+    sweeps++;
+    previousChange = lastChange;
+    lastChange = change;
+    // geometric-tail estimate of the remaining error, change * r / (1 - r) (as relaxation.ts)
+    const r = previousChange > 0 && Number.isFinite(previousChange) ? change / previousChange : 1;
+    const tail = r < 1 ? (change * r) / (1 - r) : Infinity;
+    if (change === 0 || (change < options.tolerance && tail < options.tolerance)) {
+      converged = true;
+      break;
+    }
+  }
+
+  // measurement on the final field
+  const out = createSiteObservables();
+  const density = new Float64Array(N);
+  let local = 0;
+  let atoms = 0;
+  let condensed = 0;
+  for (let i = 0; i < N; i++) {
+    let pr = 0;
+    let pi = 0;
+    const base = i * slots;
+    for (let s = 0; s < slots; s++) {
+      const j = neighbour[base + s];
+      if (j < 0) continue;
+      pr += coefRe[base + s] * phiRe[j] - coefIm[base + s] * phiIm[j];
+      pi += coefIm[base + s] * phiRe[j] + coefRe[base + s] * phiIm[j];
+    }
+    const u = interactionAt(model, i);
+    solveSite(ws, u, mu - eps[i], Math.hypot(pr, pi), options.temperature, out);
+    density[i] = out.density;
+    atoms += out.density;
+    condensed += phiRe[i] * phiRe[i] + phiIm[i] * phiIm[i];
+    local += 0.5 * u * (out.densitySq - out.density) + (eps[i] - mu) * out.density;
+    if (thermal) local -= options.temperature * out.entropy;
+  }
+  let hopping = 0;
+  for (let b = 0; b < bonds.bondFrom.length; b++) {
+    const i = bonds.bondFrom[b];
+    const j = bonds.bondTo[b];
+    const c = bonds.bondCos[b];
+    const s = bonds.bondSin[b];
+    const wr = c * phiRe[j] - s * phiIm[j];
+    const wi = s * phiRe[j] + c * phiIm[j];
+    hopping -= 2 * bonds.bondHopping[b] * (phiRe[i] * wr + phiIm[i] * wi);
+  }
+  return {
+    phiRe,
+    phiIm,
+    density,
+    grandPotential: hopping + local,
+    hoppingEnergy: hopping,
+    atoms,
+    condensedAtoms: condensed,
+    sweeps,
+    converged,
+    lastChange,
+    bonds,
+  };
+}
