@@ -143,6 +143,7 @@ export const SolverSchema = z
       .describe(
         'site kernel: "auto" (WebAssembly where it can run, else JavaScript), "wasm", or "js" (the reference); all give the same numbers. The environment variable TIERCAKE_KERNEL overrides it',
       ),
+    stiffness: z.boolean().default(false).describe('superfluid fraction per periodic axis from the curvature of the grand potential under a phase twist (four extra twisted solves per axis, one thread)'),
   })
   .describe('self-consistency settings');
 
