@@ -77,3 +77,24 @@ describe('solve with solver.stiffness', () => {
     expect(off.report).not.toContain('Superfluid stiffness (phase twist)');
   });
 });
+
+describe('solve with solver.stiffness, curvature not converged', () => {
+  it('a sweep budget too small for the twisted solves gives the warning stiffness-not-converged and NOT converged in the report', async () => {
+    const { code, summary, report } = await solve({
+      name: 'stiffness-short',
+      energyUnit: 'U',
+      lattice: { shape: [8, 8], boundary: 'periodic' },
+      hubbard: { hopping: 0.05 },
+      disorder: { kind: 'box', width: 0.4, seed: 'short' },
+      particles: { chemicalPotential: 0.5 },
+      solver: { compressibility: false, maxSweeps: 4, stiffness: true },
+    });
+    expect(code).toBe(3); // the main solve is short of its tolerance too
+    const sf = summary.results.superfluidFraction;
+    expect(sf.converged).toBe(false);
+    expect(sf.perAxis.every((a: { converged: boolean }) => !a.converged)).toBe(true);
+    const w = summary.warnings.find((x: { code: string }) => x.code === 'stiffness-not-converged');
+    expect(w.message).toContain('solver.maxSweeps = 4');
+    expect(report).toContain('NOT converged, see the warning');
+  });
+});
