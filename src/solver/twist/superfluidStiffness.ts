@@ -86,19 +86,30 @@ export function superfluidStiffness(model: LatticeModel, options: StiffnessOptio
     }
     const q = stiffnessTwist(L);
     let allConverged = untwisted.converged;
-    const omegaAt = (t: number): number => {
+    // +t starts from the field `re, im`; -t starts from the complex conjugate of the +t
+    // solution (the exact -t solution when the +t one is exact: time reversal), and is
+    // still solved to the tolerance like the others.
+    const solveAt = (t: number, re: Float64Array, im: Float64Array): TwistedSolution => {
       const twist = zero.slice();
       twist[d] = t;
-      const s = solveTwisted(model, { ...common, twistPerBond: twist, initialRe: untwisted.phiRe, initialIm: untwisted.phiIm });
+      const s = solveTwisted(model, { ...common, twistPerBond: twist, initialRe: re, initialIm: im });
       solves++;
       sweeps += s.sweeps;
       if (!s.converged) allConverged = false;
-      return s.grandPotential;
+      return s;
     };
+    const conjugate = (a: Float64Array): Float64Array => a.map((v) => -v);
     const o0 = untwisted.grandPotential;
-    const coarse = (omegaAt(q) - 2 * o0 + omegaAt(-q)) / (q * q);
     const h = q / 2;
-    const fine = (omegaAt(h) - 2 * o0 + omegaAt(-h)) / (h * h);
+    const plusFine = solveAt(h, untwisted.phiRe, untwisted.phiIm);
+    const minusFine = solveAt(-h, plusFine.phiRe, conjugate(plusFine.phiIm));
+    // the coarse twist starts from the linear extrapolation 2 phi(q/2) - phi(0)
+    const startRe = plusFine.phiRe.map((v, i) => 2 * v - untwisted.phiRe[i]);
+    const startIm = plusFine.phiIm.map((v, i) => 2 * v - untwisted.phiIm[i]);
+    const plusCoarse = solveAt(q, startRe, startIm);
+    const minusCoarse = solveAt(-q, plusCoarse.phiRe, conjugate(plusCoarse.phiIm));
+    const coarse = (plusCoarse.grandPotential - 2 * o0 + minusCoarse.grandPotential) / (q * q);
+    const fine = (plusFine.grandPotential - 2 * o0 + minusFine.grandPotential) / (h * h);
     const curvature = (4 * fine - coarse) / 3;
     const curvatureError = Math.abs(fine - coarse) / 3;
     // reference: 2 sum_b J_b (n_i + n_j)/2 over the bonds along d

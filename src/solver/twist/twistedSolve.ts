@@ -29,6 +29,12 @@ export interface TwistedSolveOptions {
   /** starting order parameter (real part; imaginary part optional, zero if absent) */
   initialRe: Float64Array;
   initialIm?: Float64Array;
+  /**
+   * extrapolate the slowest mode when three contraction-rate estimates agree (default on):
+   * the Aitken step of relaxation.ts, phi <- phi + delta r/(1 - r), on the complex field.
+   * The twist relaxes through long-wavelength phase modes that Gauss-Seidel contracts slowly.
+   */
+  accelerate?: boolean;
 }
 
 export interface TwistedSolution {
@@ -44,6 +50,7 @@ export interface TwistedSolution {
   condensedAtoms: number;
   sweeps: number;
   converged: boolean;
+  extrapolations: number;
   /** last max |delta phi| */
   lastChange: number;
   bonds: TwistedBonds;
@@ -72,6 +79,14 @@ export function solveTwisted(model: LatticeModel, options: TwistedSolveOptions):
     return Int32Array.from(list);
   });
 
+  const accelerate = options.accelerate ?? true;
+  const deltaRe = new Float64Array(N);
+  const deltaIm = new Float64Array(N);
+  const rates: number[] = [];
+  let sinceExtrapolation = 0;
+  let extrapolations = 0;
+  let maxFactor = 5000;
+  let lastChangeBeforeExtrapolation = NaN;
   let sweeps = 0;
   let lastChange = Infinity;
   let previousChange = Infinity;
@@ -101,21 +116,58 @@ export function solveTwisted(model: LatticeModel, options: TwistedSolveOptions):
           nr = (mag * pr) / a;
           ni = (mag * pi) / a;
         }
-        const dc = Math.hypot(nr - phiRe[i], ni - phiIm[i]);
+        deltaRe[i] = nr - phiRe[i];
+        deltaIm[i] = ni - phiIm[i];
+        const dc = Math.hypot(deltaRe[i], deltaIm[i]);
         if (dc > change) change = dc;
         phiRe[i] = nr;
         phiIm[i] = ni;
       }
     }
     sweeps++;
+    sinceExtrapolation++;
     previousChange = lastChange;
     lastChange = change;
-    // geometric-tail estimate of the remaining error, change * r / (1 - r) (as relaxation.ts)
-    const r = previousChange > 0 && Number.isFinite(previousChange) ? change / previousChange : 1;
+    if (!(change === change)) break; // NaN: not converged
+    // geometric-tail estimate of the remaining error, change * r / (1 - r) (as relaxation.ts);
+    // no rate across an extrapolation step
+    const r = sinceExtrapolation >= 2 && previousChange > 0 && Number.isFinite(previousChange) ? change / previousChange : 1;
+    if (sinceExtrapolation >= 2) rates.push(r);
     const tail = r < 1 ? (change * r) / (1 - r) : Infinity;
-    if (change === 0 || (change < options.tolerance && tail < options.tolerance)) {
+    // a change far below the tolerance stops whatever r says (rounding noise can make r >= 1)
+    if (change < 1e-3 * options.tolerance || (change < options.tolerance && tail < options.tolerance)) {
       converged = true;
       break;
+    }
+    if (sinceExtrapolation === 1 && extrapolations > 0 && change > 10 * lastChangeBeforeExtrapolation) {
+      maxFactor = Math.max(2, maxFactor / 8); // the last step overshot: be more careful
+    }
+    if (accelerate && sinceExtrapolation >= 4 && rates.length >= 3) {
+      const r1 = rates[rates.length - 1];
+      const r2 = rates[rates.length - 2];
+      const r3 = rates[rates.length - 3];
+      const gap = 1 - r1;
+      if (r1 > 0.5 && r1 < 1 && Math.abs(r1 - r2) < 0.05 * gap && Math.abs(r2 - r3) < 0.05 * gap) {
+        const factor = Math.min(r1 / (1 - r1), maxFactor);
+        for (let i = 0; i < N; i++) {
+          const cr = phiRe[i];
+          const ci = phiIm[i];
+          const xr = cr + factor * deltaRe[i];
+          const xi = ci + factor * deltaIm[i];
+          // keep |phi| above a small fraction of the current one (no region set to zero)
+          if (Math.hypot(xr, xi) >= 0.01 * Math.hypot(cr, ci)) {
+            phiRe[i] = xr;
+            phiIm[i] = xi;
+          } else {
+            phiRe[i] = 0.01 * cr;
+            phiIm[i] = 0.01 * ci;
+          }
+        }
+        extrapolations++;
+        sinceExtrapolation = 0;
+        rates.length = 0;
+        lastChangeBeforeExtrapolation = change;
+      }
     }
   }
 
@@ -163,6 +215,7 @@ export function solveTwisted(model: LatticeModel, options: TwistedSolveOptions):
     condensedAtoms: condensed,
     sweeps,
     converged,
+    extrapolations,
     lastChange,
     bonds,
   };
