@@ -64,7 +64,7 @@ export function stiffnessReading(
     solves: r.solves,
     sweeps: r.sweeps,
     tolerance,
-    method: 'twisted Gutzwiller solves (complex phi), red-black Gauss-Seidel in plain JavaScript on one thread, warm-started from the solution; central differences at q and q/2 per bond, Richardson-extrapolated; error = |D(q/2) - D(q)|/3',
+    method: 'twisted Gutzwiller solves (complex phi), red-black Gauss-Seidel in plain JavaScript on one thread with an Aitken step on the slowest mode, warm-started from the solution; central differences at q and q/2 per bond, Richardson-extrapolated; error = |D(q/2) - D(q)|/3',
     converged: notConverged.length === 0,
     warnings,
   };
