@@ -24,6 +24,9 @@ export const ScanRowSchema = z.strictObject({
   chemicalPotential: z.number(),
   condensedAtoms: z.number(),
   condensateFraction: maybe,
+  // optional: rows written before solver.stiffness existed read back as NaN
+  superfluidFraction: maybe.optional(),
+  superfluidFractionError: maybe.optional(),
   entropy: z.number(),
   entropyPerAtom: maybe,
   temperature: z.number(),
@@ -53,6 +56,8 @@ export function scanRowToJson(row: ScanRow): ScanRowJson {
     ...row,
     values: [...row.values],
     condensateFraction: nullIfNaN(row.condensateFraction),
+    superfluidFraction: nullIfNaN(row.superfluidFraction),
+    superfluidFractionError: nullIfNaN(row.superfluidFractionError),
     entropyPerAtom: nullIfNaN(row.entropyPerAtom),
     characteristicDensity: nullIfNaN(row.characteristicDensity),
     characteristicLength: nullIfNaN(row.characteristicLength),
@@ -65,6 +70,8 @@ export function scanRowFromJson(json: ScanRowJson): ScanRow {
   return {
     ...json,
     condensateFraction: nanIfNull(json.condensateFraction),
+    superfluidFraction: nanIfNull(json.superfluidFraction ?? null),
+    superfluidFractionError: nanIfNull(json.superfluidFractionError ?? null),
     entropyPerAtom: nanIfNull(json.entropyPerAtom),
     characteristicDensity: nanIfNull(json.characteristicDensity),
     characteristicLength: nanIfNull(json.characteristicLength),

@@ -94,6 +94,7 @@ export function buildSummary(a: SolveArtifacts, files: string[], extras: Summary
       grandPotential: energyBlock(totals.grandPotential),
       entropy: totals.entropy,
       entropyPerAtom: fractionOfAtoms(totals.entropy, atoms),
+      superfluidFraction: superfluidFractionBlock(a),
       temperatureSearch:
         outcome.temperatureSearch === null
           ? null
@@ -202,5 +203,31 @@ function withNullVisibility(imaging: Record<string, unknown>, atoms: number): Re
       ...('momentumDistributionValue' in visibility ? { momentumDistributionValue: null } : {}),
       emptyCloud: 'no atoms: the visibility is undefined (see warnings, empty-cloud)',
     },
+  };
+}
+
+/** results.superfluidFraction: per axis the fraction and its error, or null with the reason; null when solver.stiffness is off. */
+function superfluidFractionBlock(a: SolveArtifacts): Record<string, unknown> | null {
+  const r = a.stiffness;
+  if (r === null) return null;
+  const unit = outputEnergyUnit(a.scenario, a.resolved.units);
+  return {
+    criterion: r.criterion,
+    perAxis: r.axes.map((x) => ({
+      axis: x.axis,
+      value: x.value,
+      error: x.error,
+      reason: x.reason,
+      converged: x.converged,
+      twistPerBondRad: x.twistPerBond,
+      curvature: x.curvature === null ? null : x.curvature / unit.internalPerUnit,
+    })),
+    curvatureUnit: `${unit.name} per rad^2 (d^2 Omega/dq^2, q the twist per bond)`,
+    condensateFraction: r.condensateFraction,
+    converged: r.converged,
+    twistedSolves: r.solves,
+    twistedSweeps: r.sweeps,
+    tolerance: r.tolerance,
+    method: r.method,
   };
 }

@@ -10,6 +10,8 @@
 //                         (imaging/timeOfFlightScales.ts); its 'info' form, for the exact free
 //                         expansion, stays a notice in the imaging block
 //   fit-at-bound          a fitted parameter ended on a bound of its range (fitAtBound.ts)
+//   stiffness-not-converged   the twist curvature of solver.stiffness did not converge
+//                         (solveStiffness.ts)
 // A message says what is wrong and what to change; the list holds each (code, message) once.
 
 import type { SolveArtifacts } from './solveScenario.js';
@@ -40,9 +42,10 @@ export interface PictureNotice {
 }
 
 /** The warnings of a solve: the readings, the laboratory model, the landscape and the pictures' notices. */
-export function solveWarnings(a: Pick<SolveArtifacts, 'readingWarnings' | 'resolved'>, notices: readonly PictureNotice[] = []): RunWarning[] {
+export function solveWarnings(a: Pick<SolveArtifacts, 'readingWarnings' | 'resolved'> & { stiffness?: SolveArtifacts['stiffness'] }, notices: readonly PictureNotice[] = []): RunWarning[] {
   return uniqueWarnings([
     ...a.readingWarnings,
+    ...(a.stiffness?.warnings ?? []),
     ...(a.resolved.laboratory?.warnings ?? []).map((message) => ({ code: 'laboratory-validity', message })),
     ...a.resolved.landscape.warnings.map((message) => ({ code: 'landscape', message })),
     ...notices.filter((n) => n.severity === 'warning').map((n) => ({ code: n.code, message: n.message })),

@@ -20,6 +20,7 @@ import type { PreparedScenario } from './prepareScenario.js';
 import { readingWarningsOfSolve, type ReadingWarning } from '../observables/readingWarnings.js';
 import type { ResolvedScenario } from '../scenario/resolveScenario.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
+import { stiffnessReading, type StiffnessReading } from './solveStiffness.js';
 
 /** Below this many sites the worker round trips cost more than they save. */
 export const PARALLEL_MIN_SITES = 8192;
@@ -70,10 +71,12 @@ export interface SolveArtifacts {
   cluster: ClusterReading | null;
   /** what cannot be trusted in the solution as it stands (readingWarnings.ts) */
   readingWarnings: ReadingWarning[];
+  /** superfluid fraction from a phase twist (solver.stiffness), null when not asked for */
+  stiffness: StiffnessReading | null;
   /** threads asked for (the caller's `threads`) */
   threadsRequested: number;
   threadsUsed: number;
-  timings: { resolveSeconds: number; solveSeconds: number; analysisSeconds: number };
+  timings: { resolveSeconds: number; solveSeconds: number; analysisSeconds: number; stiffnessSeconds: number };
 }
 
 /** Threads a lattice of this size uses: below PARALLEL_MIN_SITES one. */
@@ -167,6 +170,15 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     },
   );
   const t3 = clock();
+  const stiffness =
+    scenario.solver.stiffness && !outcome.stopped
+      ? stiffnessReading(
+          outcome.model,
+          { mu: outcome.solve.mu, temperature: outcome.temperature, phi: outcome.state.fields.phi },
+          { tolerance: scenario.solver.tolerance, maxSweeps: scenario.solver.maxSweeps },
+        )
+      : null;
+  const t4 = clock();
   return {
     scenario,
     raw,
@@ -180,9 +192,10 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     profile,
     cluster,
     readingWarnings: cluster === null ? readingWarnings : [...readingWarnings, ...clusterWarnings(cluster)],
+    stiffness,
     threadsRequested: options.threads,
     threadsUsed: outcome.warm.executor.threads,
-    timings: { resolveSeconds: options.prepareSeconds ?? 0, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000 },
+    timings: { resolveSeconds: options.prepareSeconds ?? 0, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000, stiffnessSeconds: (t4 - t3) / 1000 },
   };
 }
 

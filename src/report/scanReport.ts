@@ -47,6 +47,8 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
     ...provenanceLines.map((line) => ({ label: 'produced by', value: line })),
   ];
   const fillings = scanFillings(rows);
+  // solver.stiffness on: the superfluid fraction stands beside the condensate fraction
+  const withStiffness = rows.some((r) => !Number.isNaN(r.superfluidFraction));
   const columns = [
     ...o.plan.axes.map((a) => ({ header: a.path })),
     { header: 'converged' },
@@ -54,6 +56,7 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
     { header: 'mu', unit: o.energyUnit },
     ...(finiteTemperature ? [{ header: 'kT', unit: o.energyUnit }] : []),
     { header: 'condensate fraction' },
+    ...(withStiffness ? [{ header: 'superfluid fraction (twist)' }] : []),
     { header: 'central density' },
     { header: 'central phase' },
     { header: 'superfluid', unit: 'sites' },
@@ -68,6 +71,7 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
     r.chemicalPotential,
     ...(finiteTemperature ? [r.temperature] : []),
     r.condensateFraction,
+    ...(withStiffness ? [r.superfluidFraction] : []),
     r.centralDensity,
     phaseTitles[phaseNames[r.centralPhase]],
     r.phaseSites[phaseNames.indexOf('superfluid')],

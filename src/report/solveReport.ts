@@ -148,6 +148,7 @@ export function buildSolveReport(
     { label: 'threads', value: a.threadsUsed },
     { label: 'solve time', value: a.timings.solveSeconds, unit: 's' },
     { label: 'analysis time', value: a.timings.analysisSeconds, unit: 's' },
+    ...(a.stiffness !== null ? [{ label: 'superfluid-fraction time', value: a.timings.stiffnessSeconds, unit: 's', note: `${a.stiffness.solves} twisted solves, ${a.stiffness.sweeps} sweeps, one thread` }] : []),
   ];
 
   const radiusX = Array.from(profile.meanRadius, (r) => (spacing !== null ? r * spacing : r));
@@ -209,6 +210,7 @@ export function buildSolveReport(
             : []),
           ...landscapeBlocks(a),
           { kind: 'keyValueTable', caption: 'Totals', rows: resultRows },
+          ...stiffnessBlocks(a),
         ],
       },
       {
@@ -282,4 +284,25 @@ function inAllUnitsArray(values: Float64Array, unit: number): Float64Array {
 
 function fmt(x: number): string {
   return Number.isFinite(x) ? x.toExponential(2) : String(x);
+}
+
+/** Condensate fraction and superfluid fraction side by side, with the criterion (solver.stiffness). */
+function stiffnessBlocks(a: SolveArtifacts): ReportBlock[] {
+  const r = a.stiffness;
+  if (r === null) return [];
+  const rows: KeyValueRow[] = [
+    { label: 'condensate fraction', value: r.condensateFraction, note: 'sum |phi|^2 / N, untwisted' },
+    ...r.axes.map((x) => ({
+      label: `superfluid fraction, axis ${'xyz'[x.axis]}`,
+      value: x.value,
+      note:
+        x.value === null
+          ? (x.reason ?? 'not available')
+          : `± ${x.error === null ? '?' : x.error.toExponential(1)} (two twist sizes)${x.converged ? '' : '; NOT converged, see the warning'}`,
+    })),
+  ];
+  return [
+    { kind: 'keyValueTable', caption: 'Superfluid stiffness (phase twist)', rows },
+    { kind: 'paragraph', text: r.criterion },
+  ];
 }

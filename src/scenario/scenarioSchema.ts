@@ -159,6 +159,7 @@ export const SolverSchema = z
       .describe(
         'cluster mean field: the cluster shape, one extent per lattice axis (e.g. [2, 2]); the lattice is tiled by clusters solved exactly in the mean fields of their neighbours. Omitted or all 1: the single-site Gutzwiller solver. Cost grows as (nmax + 1)^sites',
       ),
+    stiffness: z.boolean().default(false).describe('superfluid fraction per periodic axis from the curvature of the grand potential under a phase twist (four extra twisted solves per axis, one thread)'),
   })
   .describe('self-consistency settings');
 
@@ -226,6 +227,9 @@ export const ScenarioSchema = z
       }
     });
     const cluster = s.solver.cluster;
+    if (s.solver.stiffness && cluster !== undefined && cluster.some((c) => c > 1)) {
+      issue(['solver', 'stiffness'], 'the twisted solves behind the superfluid fraction are single-site; drop solver.stiffness or solver.cluster');
+    }
     if (cluster !== undefined) {
       if (cluster.length !== dims) {
         issue(['solver', 'cluster'], `expected ${dims} extents (one per lattice axis), got ${cluster.length}`);

@@ -85,6 +85,7 @@ const fileCases: Record<string, { names: RegExp; pending?: string }> = {
   'lattice-list.json': { names: /lattice: expected a group of keys \{\.\.\.\}, got the list \[8,8\]/ },
   'atoms-string.json': { names: /particles\.atoms: expected a number, got the text "5000"/ },
   'accelerate-string.json': { names: /solver\.accelerate: expected true or false, got the text "yes"/ },
+  'stiffness-number.json': { names: /solver\.stiffness: expected true or false, got 1/ },
   'nmax-fraction.json': { names: /truncation\.nmax: expected an integer, got 3\.5/ },
   'name-number.json': { names: /name: expected a text in double quotes, got 12/ },
   'trap-null.json': { names: /trap: expected a group of keys \{\.\.\.\}, got null/ },

@@ -105,6 +105,13 @@ export async function runSolveCommand(scenarioPath: string, raw: RawOptions): Pr
     `${artifacts.scenario.name}: ${outcome.converged ? 'converged' : 'NOT CONVERGED'} after ${outcome.totalSweeps} sweeps (${artifacts.timings.solveSeconds.toFixed(2)} s, ${threadText})`,
     `  atoms ${t.atoms.toPrecision(8)}, condensate fraction ${fraction === null ? 'undefined (no atoms)' : fraction.toFixed(4)}, mu = ${(outcome.solve.mu / artifacts.resolved.units.interaction).toPrecision(6)} U`,
     `  shells: ${artifacts.shells.shells.map((s) => `n=${s.filling} (${s.sites} sites)`).join(', ') || 'none'}`,
+    ...(artifacts.stiffness !== null
+      ? [
+          `  superfluid fraction (twist): ${artifacts.stiffness.axes
+            .map((x) => `${'xyz'[x.axis]} ${x.value === null ? 'none (open axis)' : `${x.value.toFixed(4)} ± ${(x.error ?? NaN).toExponential(1)}${x.converged ? '' : ' NOT CONVERGED'}`}`)
+            .join(', ')}`,
+        ]
+      : []),
     `  results in ${outDir}`,
   ];
   process.stdout.write(`${lines.join('\n')}\n`);

@@ -36,6 +36,10 @@ export interface ScanRow {
   chemicalPotential: number;
   condensedAtoms: number;
   condensateFraction: number;
+  /** superfluid fraction from a phase twist, mean over the periodic axes (solver.stiffness); NaN when off or no axis is periodic */
+  superfluidFraction: number;
+  /** its numerical error, the largest over those axes; NaN with it */
+  superfluidFractionError: number;
   /** k_B */
   entropy: number;
   entropyPerAtom: number;
@@ -97,6 +101,7 @@ export function scanRowOf(point: number, values: readonly number[], a: SolveArti
     chemicalPotential: o.solve.mu / unit.internal,
     condensedAtoms: t.condensedAtoms,
     condensateFraction: t.atoms > 0 ? t.condensedAtoms / t.atoms : NaN,
+    ...superfluidFractionOf(a),
     entropy: t.entropy,
     entropyPerAtom: t.atoms > 0 ? t.entropy / t.atoms : NaN,
     temperature: o.temperature / unit.internal,
@@ -107,4 +112,17 @@ export function scanRowOf(point: number, values: readonly number[], a: SolveArti
     phaseSites: phaseNames.map((name) => a.classification.counts[name]),
     shells: a.shells.shells.map((s) => ({ filling: s.filling, innerRadius: s.innerRadius, outerRadius: s.outerRadius, sites: s.sites, radiusFrom: s.radiusFrom })),
   };
+}
+
+/** Mean superfluid fraction over the periodic axes and the largest error; NaN without a reading. */
+function superfluidFractionOf(a: SolveArtifacts): { superfluidFraction: number; superfluidFractionError: number } {
+  const axes = (a.stiffness?.axes ?? []).filter((x) => x.value !== null);
+  if (axes.length === 0) return { superfluidFraction: NaN, superfluidFractionError: NaN };
+  let sum = 0;
+  let error = 0;
+  for (const x of axes) {
+    sum += x.value as number;
+    error = Math.max(error, x.error as number);
+  }
+  return { superfluidFraction: sum / axes.length, superfluidFractionError: error };
 }
