@@ -228,7 +228,24 @@ export function scanImages(o: ScanOutcome): WrittenImage[] {
       widthPx: 460,
       heightPx: 320,
     });
+    const stiffness = rows.some((r) => r.superfluidFraction === r.superfluidFraction)
+      ? [
+          figureImage(
+            'images/scan_stiffness.png',
+            `Superfluid fraction (phase twist) and condensate fraction against ${axis.path}`,
+            renderLinePlotSvg({
+              title: 'Superfluid and condensate fraction',
+              xAxis,
+              yAxis: { label: 'fraction' },
+              series: [series('superfluid fraction f_s (twist)', (r) => r.superfluidFraction), series('condensate fraction', (r) => r.condensateFraction)],
+              widthPx: 560,
+              heightPx: 360,
+            }),
+          ),
+        ]
+      : [];
     return [
+      ...stiffness,
       figureImage('images/scan_cloud.png', `Atoms, central density and condensate fraction against ${axis.path}`, sideBySideSvg([atoms, centre], `Cloud against ${axis.path}`)),
       figureImage('images/scan_shells.png', `Mott shell radii and sites per phase against ${axis.path}`, sideBySideSvg([shells, phases], `Shells and phases against ${axis.path}`)),
     ];
@@ -251,6 +268,20 @@ export function scanImages(o: ScanOutcome): WrittenImage[] {
       `Superfluid and Mott sites over ${o.plan.axes[0].path} and ${o.plan.axes[1].path}`,
       sideBySideSvg([map('Superfluid sites', 'sites', (r) => r.phaseSites[sf]), map('Mott sites', 'sites', (r) => r.phaseSites[mott])], 'Phases over the scan'),
     ),
+    // With solver.stiffness: where the condensate fraction stays finite but the superfluid
+    // fraction vanishes, the puddles carry no superflow (Bose glass, when compressible).
+    ...(rows.some((r) => r.superfluidFraction === r.superfluidFraction)
+      ? [
+          figureImage(
+            'images/scan_map_stiffness.png',
+            `Superfluid fraction (phase twist) beside the condensate fraction over ${o.plan.axes[0].path} and ${o.plan.axes[1].path}`,
+            sideBySideSvg(
+              [map('Superfluid fraction f_s', 'f_s (twist)', (r) => r.superfluidFraction), map('Condensate fraction', 'condensed / all atoms', (r) => r.condensateFraction)],
+              'Superflow against condensate over the scan',
+            ),
+          ),
+        ]
+      : []),
   ];
 }
 

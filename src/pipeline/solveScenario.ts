@@ -76,7 +76,8 @@ export interface SolveArtifacts {
   /** threads asked for (the caller's `threads`) */
   threadsRequested: number;
   threadsUsed: number;
-  timings: { resolveSeconds: number; solveSeconds: number; analysisSeconds: number; stiffnessSeconds: number };
+  /** stiffnessSeconds only with solver.stiffness */
+  timings: { resolveSeconds: number; solveSeconds: number; analysisSeconds: number; stiffnessSeconds?: number };
 }
 
 /** Threads a lattice of this size uses: below PARALLEL_MIN_SITES one. */
@@ -178,7 +179,7 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
           { tolerance: scenario.solver.tolerance, maxSweeps: scenario.solver.maxSweeps },
         )
       : null;
-  const t4 = clock();
+  const t4 = stiffness !== null ? clock() : t3;
   return {
     scenario,
     raw,
@@ -195,7 +196,7 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     stiffness,
     threadsRequested: options.threads,
     threadsUsed: outcome.warm.executor.threads,
-    timings: { resolveSeconds: options.prepareSeconds ?? 0, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000, stiffnessSeconds: (t4 - t3) / 1000 },
+    timings: { resolveSeconds: options.prepareSeconds ?? 0, solveSeconds: (t2 - t1) / 1000, analysisSeconds: (t3 - t2) / 1000, ...(stiffness !== null ? { stiffnessSeconds: (t4 - t3) / 1000 } : {}) },
   };
 }
 

@@ -148,7 +148,7 @@ export function buildSolveReport(
     { label: 'threads', value: a.threadsUsed },
     { label: 'solve time', value: a.timings.solveSeconds, unit: 's' },
     { label: 'analysis time', value: a.timings.analysisSeconds, unit: 's' },
-    ...(a.stiffness !== null ? [{ label: 'superfluid-fraction time', value: a.timings.stiffnessSeconds, unit: 's', note: `${a.stiffness.solves} twisted solves, ${a.stiffness.sweeps} sweeps, one thread` }] : []),
+    ...(a.stiffness !== null ? [{ label: 'superfluid-fraction time', value: a.timings.stiffnessSeconds ?? 0, unit: 's', note: `${a.stiffness.solves} twisted solves, ${a.stiffness.sweeps} sweeps, one thread` }] : []),
   ];
 
   const radiusX = Array.from(profile.meanRadius, (r) => (spacing !== null ? r * spacing : r));

@@ -100,6 +100,7 @@ const fileCases: Record<string, { names: RegExp; pending?: string }> = {
   'hopping-negative.json': { names: /hubbard\.hopping: expected a number > 0, got -0\.02/ },
   'kt-negative.json': { names: /temperature\.kT: expected a number >= 0, got -0\.1/ },
   'nmax-zero.json': { names: /truncation\.nmax: expected an integer >= 1, got 0/ },
+  'stiffness-with-cluster.json': { names: /solver\.stiffness: the twisted solves behind the superfluid fraction are single-site/ },
   'cluster-wrong-length.json': { names: /solver\.cluster: expected 2 extents \(one per lattice axis\), got 3/ },
   'cluster-not-dividing-periodic.json': { names: /solver\.cluster\[0\]: on a periodic axis the cluster extent must divide the length 8, got 3/ },
   'cluster-too-many-states.json': { names: /solver\.cluster: a \[4, 4\] cluster at truncation\.nmax 3 has 4\.29e\+9 Fock states.*smaller cluster/ },

@@ -6,7 +6,7 @@
 // not change the answer beyond the reported numerical error); without solver.stiffness the
 // column is nan (the same columns in every mode).
 import { afterAll, describe, expect, it, vi } from 'vitest';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runScanCommand } from '../../../src/cli/commands/scan.js';
@@ -72,6 +72,7 @@ describe('scan with solver.stiffness', () => {
     }
     const report = readFileSync(join(out, 'report.html'), 'utf8');
     expect(report).toContain('superfluid fraction (twist)');
+    expect(existsSync(join(out, 'images', 'scan_stiffness.png'))).toBe(true);
   });
 
   it('without solver.stiffness the column is nan', async () => {
@@ -81,5 +82,6 @@ describe('scan with solver.stiffness', () => {
       expect(Number.isNaN(r.superfluid_fraction)).toBe(true);
       expect(Number.isNaN(r.superfluid_fraction_error)).toBe(true);
     }
+    expect(existsSync(join(out, 'images', 'scan_stiffness.png'))).toBe(false);
   });
 });
