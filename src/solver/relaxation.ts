@@ -55,6 +55,22 @@ export interface RelaxResult {
   stopped: boolean;
 }
 
+/**
+ * The factor of the slow-mode extrapolation phi + factor * delta, or 0 when none is due:
+ * after at least 4 sweeps since the last one, when the last three contraction rates agree
+ * to 5 % of 1 - r and lie in (0.5, 1), the remaining geometric tail r/(1 - r), at most
+ * `maxFactor`. Shared by every relaxation that extrapolates (this one, the twisted solver).
+ */
+export function slowModeFactor(rates: readonly number[], sinceExtrapolation: number, maxFactor: number): number {
+  if (sinceExtrapolation < 4 || rates.length < 3) return 0;
+  const r1 = rates[rates.length - 1];
+  const r2 = rates[rates.length - 2];
+  const r3 = rates[rates.length - 3];
+  const gap = 1 - r1;
+  if (!(r1 > 0.5 && r1 < 1 && Math.abs(r1 - r2) < 0.05 * gap && Math.abs(r2 - r3) < 0.05 * gap)) return 0;
+  return Math.min(r1 / (1 - r1), maxFactor);
+}
+
 export async function relaxAtFixedMu(state: SolverState, executor: SweepExecutor, options: RelaxOptions): Promise<RelaxResult> {
   const { mu, temperature, tolerance, maxSweeps, accelerate } = options;
   const phi = state.fields.phi;
@@ -103,24 +119,18 @@ export async function relaxAtFixedMu(state: SolverState, executor: SweepExecutor
       break;
     }
 
-    if (accelerate && sinceExtrapolation >= 4 && rates.length >= 3) {
-      const r1 = rates[rates.length - 1];
-      const r2 = rates[rates.length - 2];
-      const r3 = rates[rates.length - 3];
-      const gap = 1 - r1;
-      if (r1 > 0.5 && r1 < 1 && Math.abs(r1 - r2) < 0.05 * gap && Math.abs(r2 - r3) < 0.05 * gap) {
-        const factor = Math.min(r1 / (1 - r1), maxFactor);
-        for (let i = 0; i < n; i++) {
-          const current = phi[i];
-          const next = current + factor * delta[i];
-          const floor = 0.01 * current;
-          phi[i] = next > floor ? next : floor;
-        }
-        extrapolations++;
-        sinceExtrapolation = 0;
-        rates.length = 0;
-        lastChangeBeforeExtrapolation = change;
+    const factor = accelerate ? slowModeFactor(rates, sinceExtrapolation, maxFactor) : 0;
+    if (factor > 0) {
+      for (let i = 0; i < n; i++) {
+        const current = phi[i];
+        const next = current + factor * delta[i];
+        const floor = 0.01 * current;
+        phi[i] = next > floor ? next : floor;
       }
+      extrapolations++;
+      sinceExtrapolation = 0;
+      rates.length = 0;
+      lastChangeBeforeExtrapolation = change;
     }
   }
   return {

@@ -15,6 +15,7 @@
 
 import type { LatticeModel } from '../../lattice/latticeModel.js';
 import { createSiteObservables, createSiteWorkspace, solveSite, solveSiteGround, solveSiteThermal } from '../site/index.js';
+import { slowModeFactor } from '../relaxation.js';
 import { twistedBonds, type TwistedBonds } from './twistedBonds.js';
 
 export interface TwistedSolveOptions {
@@ -73,6 +74,24 @@ export function solveTwisted(model: LatticeModel, options: TwistedSolveOptions):
   const mu = options.mu;
   const eps = model.eps;
 
+  /** psi_i = sum_j J_ij e^{i q_ij} phi_j into field[0] (real) and field[1] (imaginary) */
+  const field = new Float64Array(2);
+  const fieldAt = (i: number): void => {
+    let pr = 0;
+    let pi = 0;
+    const base = i * slots;
+    for (let s = 0; s < slots; s++) {
+      const j = neighbour[base + s];
+      if (j < 0) continue;
+      const cr = coefRe[base + s];
+      const ci = coefIm[base + s];
+      pr += cr * phiRe[j] - ci * phiIm[j];
+      pi += ci * phiRe[j] + cr * phiIm[j];
+    }
+    field[0] = pr;
+    field[1] = pi;
+  };
+
   const colourSites = [0, 1].map((c) => {
     const list: number[] = [];
     for (let i = 0; i < N; i++) if (colour[i] === c) list.push(i);
@@ -96,17 +115,9 @@ export function solveTwisted(model: LatticeModel, options: TwistedSolveOptions):
     for (const sites of colourSites) {
       for (let k = 0; k < sites.length; k++) {
         const i = sites[k];
-        let pr = 0;
-        let pi = 0;
-        const base = i * slots;
-        for (let s = 0; s < slots; s++) {
-          const j = neighbour[base + s];
-          if (j < 0) continue;
-          const cr = coefRe[base + s];
-          const ci = coefIm[base + s];
-          pr += cr * phiRe[j] - ci * phiIm[j];
-          pi += ci * phiRe[j] + cr * phiIm[j];
-        }
+        fieldAt(i);
+        const pr = field[0];
+        const pi = field[1];
         const a = Math.hypot(pr, pi);
         let nr = 0;
         let ni = 0;
@@ -142,32 +153,26 @@ export function solveTwisted(model: LatticeModel, options: TwistedSolveOptions):
     if (sinceExtrapolation === 1 && extrapolations > 0 && change > 10 * lastChangeBeforeExtrapolation) {
       maxFactor = Math.max(2, maxFactor / 8); // the last step overshot: be more careful
     }
-    if (accelerate && sinceExtrapolation >= 4 && rates.length >= 3) {
-      const r1 = rates[rates.length - 1];
-      const r2 = rates[rates.length - 2];
-      const r3 = rates[rates.length - 3];
-      const gap = 1 - r1;
-      if (r1 > 0.5 && r1 < 1 && Math.abs(r1 - r2) < 0.05 * gap && Math.abs(r2 - r3) < 0.05 * gap) {
-        const factor = Math.min(r1 / (1 - r1), maxFactor);
-        for (let i = 0; i < N; i++) {
-          const cr = phiRe[i];
-          const ci = phiIm[i];
-          const xr = cr + factor * deltaRe[i];
-          const xi = ci + factor * deltaIm[i];
-          // keep |phi| above a small fraction of the current one (no region set to zero)
-          if (Math.hypot(xr, xi) >= 0.01 * Math.hypot(cr, ci)) {
-            phiRe[i] = xr;
-            phiIm[i] = xi;
-          } else {
-            phiRe[i] = 0.01 * cr;
-            phiIm[i] = 0.01 * ci;
-          }
+    const factor = accelerate ? slowModeFactor(rates, sinceExtrapolation, maxFactor) : 0;
+    if (factor > 0) {
+      for (let i = 0; i < N; i++) {
+        const cr = phiRe[i];
+        const ci = phiIm[i];
+        const xr = cr + factor * deltaRe[i];
+        const xi = ci + factor * deltaIm[i];
+        // keep |phi| above a small fraction of the current one (no region set to zero)
+        if (Math.hypot(xr, xi) >= 0.01 * Math.hypot(cr, ci)) {
+          phiRe[i] = xr;
+          phiIm[i] = xi;
+        } else {
+          phiRe[i] = 0.01 * cr;
+          phiIm[i] = 0.01 * ci;
         }
-        extrapolations++;
-        sinceExtrapolation = 0;
-        rates.length = 0;
-        lastChangeBeforeExtrapolation = change;
       }
+      extrapolations++;
+      sinceExtrapolation = 0;
+      rates.length = 0;
+      lastChangeBeforeExtrapolation = change;
     }
   }
 
@@ -178,17 +183,9 @@ export function solveTwisted(model: LatticeModel, options: TwistedSolveOptions):
   let atoms = 0;
   let condensed = 0;
   for (let i = 0; i < N; i++) {
-    let pr = 0;
-    let pi = 0;
-    const base = i * slots;
-    for (let s = 0; s < slots; s++) {
-      const j = neighbour[base + s];
-      if (j < 0) continue;
-      pr += coefRe[base + s] * phiRe[j] - coefIm[base + s] * phiIm[j];
-      pi += coefIm[base + s] * phiRe[j] + coefRe[base + s] * phiIm[j];
-    }
+    fieldAt(i);
     const u = interactionAt(model, i);
-    solveSite(ws, u, mu - eps[i], Math.hypot(pr, pi), options.temperature, out);
+    solveSite(ws, u, mu - eps[i], Math.hypot(field[0], field[1]), options.temperature, out);
     density[i] = out.density;
     atoms += out.density;
     condensed += phiRe[i] * phiRe[i] + phiIm[i] * phiIm[i];
