@@ -11,6 +11,7 @@
 //                         expansion, stays a notice in the imaging block
 //   fit-at-bound          a fitted parameter ended on a bound of its range (fitAtBound.ts)
 //   stiffness-not-converged   the twist curvature of solver.stiffness did not converge
+//   no-superflow              a condensate but (almost) no superfluid fraction: puddles, no superflow
 //                         (solveStiffness.ts)
 // A message says what is wrong and what to change; the list holds each (code, message) once.
 

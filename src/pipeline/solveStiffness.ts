@@ -27,6 +27,9 @@ export interface StiffnessReading {
   warnings: RunWarning[];
 }
 
+/** Superfluid fraction below this fraction of the condensate fraction: no superflow to speak of (common practice for a threshold of this kind; a scenario key if it ever needs tuning). */
+export const NO_SUPERFLOW_RATIO = 0.05;
+
 /** Tolerance of the twisted solves: the curvature divides Omega differences of order q^2 ~ 1e-4 per bond. */
 export function stiffnessTolerance(solveTolerance: number): number {
   return Math.min(solveTolerance, 1e-11);
@@ -57,10 +60,22 @@ export function stiffnessReading(
         'the superfluid fraction there is not reliable: raise solver.maxSweeps or move away from a phase boundary',
     });
   }
+  // The site labels call a site superfluid by its own condensate; puddles that carry no
+  // superflow look the same there. Say so when the twist finds (almost) none.
+  const condensateFraction = u.atoms > 0 ? u.condensedAtoms / u.atoms : null;
+  const measured = r.axes.filter((a) => a.value !== null && a.converged).map((a) => a.value as number);
+  if (condensateFraction !== null && condensateFraction > 1e-3 && measured.length > 0 && Math.max(...measured) < NO_SUPERFLOW_RATIO * condensateFraction) {
+    warnings.push({
+      code: 'no-superflow',
+      message:
+        `the condensate fraction is ${condensateFraction.toPrecision(3)} but the superfluid fraction is at most ${Math.max(...measured).toExponential(2)} (below ${NO_SUPERFLOW_RATIO} of it) on every periodic axis: ` +
+        'the sites labelled superfluid are puddles that carry no superflow across the lattice; where they are compressible this is a Bose glass by the stiffness criterion',
+    });
+  }
   return {
     criterion: STIFFNESS_CRITERION,
     axes: r.axes,
-    condensateFraction: u.atoms > 0 ? u.condensedAtoms / u.atoms : null,
+    condensateFraction,
     solves: r.solves,
     sweeps: r.sweeps,
     tolerance,

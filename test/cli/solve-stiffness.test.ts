@@ -98,3 +98,40 @@ describe('solve with solver.stiffness, curvature not converged', () => {
     expect(report).toContain('NOT converged, see the warning');
   });
 });
+
+describe('the no-superflow warning (the site labels alone would call the puddles superfluid)', () => {
+  it('strong box disorder at small J: condensate in puddles, f_s below 5 % of it, warned; a clean superfluid is not', async () => {
+    // Outside reference: the clean lattice has f_s = |phi|^2/n (mean-field identity, above),
+    // so the ratio is 1 there; under strong disorder the Bose glass carries no superflow
+    // (Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989)).
+    const { prepareScenario } = await import('../../src/pipeline/prepareScenario.js');
+    const { solveScenario } = await import('../../src/pipeline/solveScenario.js');
+    const { solveWarnings } = await import('../../src/pipeline/runWarnings.js');
+    const { mkdtempSync, writeFileSync } = await import('node:fs');
+    const { tmpdir } = await import('node:os');
+    const { join } = await import('node:path');
+    const folder = mkdtempSync(join(tmpdir(), 'tiercake-no-superflow-'));
+    const run = async (name: string, width: number, hopping: number) => {
+      const path = join(folder, `${name}.json`);
+      writeFileSync(
+        path,
+        JSON.stringify({
+          name,
+          energyUnit: 'U',
+          lattice: { shape: [12, 12], boundary: 'periodic' },
+          hubbard: { hopping },
+          disorder: { kind: 'box', width, seed: 'puddles' },
+          particles: { chemicalPotential: 0.5 },
+          truncation: { nmax: 4 },
+          solver: { stiffness: true, compressibility: false },
+        }),
+      );
+      const a = await solveScenario(prepareScenario(path), { threads: 1 });
+      return solveWarnings(a).map((w) => w.code);
+    };
+    const glass = await run('puddles', 2.0, 0.01); // condensate fraction 0.010, f_s below 1e-6 on both axes
+    expect(glass).toContain('no-superflow');
+    const clean = await run('clean', 0, 0.05);
+    expect(clean).not.toContain('no-superflow');
+  });
+});
