@@ -5,6 +5,7 @@
 // stamp and provenance lines differ). Writers only: the numbers come from
 // src/ensemble/ensembleStatistics.ts.
 
+import { NO_SUPERFLOW_RATIO, STIFFNESS_CRITERION } from '../pipeline/solveStiffness.js';
 import { encodeNpy } from '../formats/npy.js';
 import { csvTable, type CsvTable } from '../formats/csvTable.js';
 import type { OutputFolder } from './outputFolder.js';
@@ -136,6 +137,17 @@ export function realisationsCsv(o: EnsembleOutcome): CsvTable {
       { name: 'superfluid_clusters', values: r.map((x) => x.superfluidClusters), unit: '', datatype: 'integer', description: 'connected superfluid clusters in the bulk' },
       { name: 'largest_cluster_sites', values: r.map((x) => x.largestClusterSites), unit: '', datatype: 'integer', description: 'sites of the largest superfluid cluster in the bulk' },
       ...phaseColumns,
+      ...(r.every((x) => x.superfluidFraction !== null)
+        ? [
+            {
+              name: 'superfluid_fraction',
+              values: r.map((x) => x.superfluidFraction as number),
+              unit: '1',
+              description: 'superfluid fraction from a phase twist (solver.stiffness), mean over the periodic axes: the stiffness criterion of a Bose glass (zero) against a superfluid (finite)',
+            },
+            { name: 'superfluid_fraction_error', values: r.map((x) => x.superfluidFractionError as number), unit: '1', description: 'numerical error of the superfluid fraction (two twist sizes), largest over the axes' },
+          ]
+        : []),
     ],
     {
       title: `ensemble of scenario ${o.scenario.name}: one row per disorder realisation`,
@@ -260,6 +272,21 @@ export function ensembleWarnings(o: EnsembleOutcome): Array<{ code: string; mess
     }).filter((w) => w.code === 'cloud-at-edge' || w.code === 'empty-cloud');
     for (const w of edge) warnings.push({ code: w.code, message: `mean over realisations: ${w.message}` });
   }
+  const fs = s.superfluidFraction;
+  if (fs !== null && fs.notConverged.length > 0) {
+    warnings.push({
+      code: 'stiffness-not-converged',
+      message: `the twist curvature did not converge in ${fs.notConverged.length} of ${fs.realisations} realisations (indices ${fs.notConverged.slice(0, 12).join(', ')}${fs.notConverged.length > 12 ? ', ...' : ''}); their superfluid fractions enter the mean as they stand (raise solver.maxSweeps)`,
+    });
+  }
+  if (fs !== null && fs.noSuperflowRealisations > 0) {
+    warnings.push({
+      code: 'no-superflow',
+      message:
+        `in ${fs.noSuperflowRealisations} of ${fs.realisations} realisations the condensate carries no superflow (superfluid fraction below ${NO_SUPERFLOW_RATIO} of the condensate fraction): ` +
+        'the sites labelled superfluid there are puddles; where they are compressible this is a Bose glass by the stiffness criterion',
+    });
+  }
   return warnings;
 }
 
@@ -303,6 +330,7 @@ export function buildEnsembleSummary(o: EnsembleOutcome, files: string[]): Recor
       sweeps: s.sweeps,
       meanSitesPerPhase: s.sitesPerPhase,
       nmaxUsedMax: s.nmaxUsedMax,
+      ...(s.superfluidFraction !== null ? { superfluidFraction: { ...s.superfluidFraction, criterion: STIFFNESS_CRITERION } } : {}),
     },
     phases: {
       thresholds: o.context.thresholds,

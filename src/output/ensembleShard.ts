@@ -46,6 +46,10 @@ const RecordSchema = z.strictObject({
   superfluidClusters: z.int(),
   largestClusterSites: z.int(),
   phaseSites: z.array(z.int()).length(phaseCount),
+  // absent in shards written before solver.stiffness reached ensembles
+  superfluidFraction: z.number().nullable().default(null),
+  superfluidFractionError: z.number().nullable().default(null),
+  stiffnessConverged: z.boolean().default(true),
 });
 
 const BlockEntrySchema = z.strictObject({

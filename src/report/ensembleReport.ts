@@ -9,6 +9,7 @@ import type { EnsembleOutcome } from '../output/ensembleOutputs.js';
 import { ensembleHistogramSpecs, histogramForDisplay, ensembleWarnings } from '../output/ensembleOutputs.js';
 import type { WrittenImage } from '../output/solveOutputs.js';
 import { toolVersion } from '../output/toolVersion.js';
+import { NO_SUPERFLOW_RATIO } from '../pipeline/solveStiffness.js';
 
 
 /** Largest number of realisations listed row by row in the report (all are in realisations.csv). */
@@ -41,6 +42,20 @@ export function buildEnsembleReport(o: EnsembleOutcome, images: WrittenImage[], 
     { label: 'superfluid spans the cloud', value: s.spanningFraction, note: `${spanText} realisations; binomial standard error ${fmt(s.spanningFractionError)}` },
     { label: 'atoms N (mean ± spread)', value: `${fmt(s.atoms.mean)} ± ${fmt(s.atoms.spread)}` },
     { label: 'condensate fraction (mean ± spread)', value: `${fmt(s.condensateFraction.mean)} ± ${fmt(s.condensateFraction.spread)}` },
+    ...(s.superfluidFraction !== null
+      ? [
+          {
+            label: 'superfluid fraction (mean ± spread)',
+            value: `${fmt(s.superfluidFraction.mean)} ± ${fmt(s.superfluidFraction.spread)}`,
+            note: `phase-twist stiffness beside the condensate fraction; standard error of the mean ${fmt(s.superfluidFraction.standardError)}, largest numerical error ${fmt(s.superfluidFraction.largestNumericalError)}`,
+          },
+          {
+            label: 'condensate without superflow',
+            value: `${s.superfluidFraction.noSuperflowRealisations} of ${s.superfluidFraction.realisations}`,
+            note: `realisations whose condensate (puddles) carries a superfluid fraction below ${NO_SUPERFLOW_RATIO * 100} % of it: compressible puddles without stiffness are a Bose glass (Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989))`,
+          },
+        ]
+      : []),
     {
       label: 'chemical potential mu (mean ± spread)',
       value: `${fmt(s.mu.mean / u)} ± ${fmt(s.mu.spread / u)}`,

@@ -34,7 +34,7 @@ describe('ensemble files', () => {
     const p = createBlockPartial(blockRange(plan, 0), 6, bins);
     for (const [r, n] of [[0, 1], [1, 3]] as const) {
       addRealisation(p, {
-        record: { index: r, converged: true, sweeps: 1, nmaxUsed: 3, mu: 0.5, temperature: 0, atoms: 6 * n, condensedAtoms: 0, superfluidSpans: false, superfluidClusters: 0, largestClusterSites: 0, phaseSites: [0, 0, 6, 0, 0] },
+        record: { index: r, converged: true, sweeps: 1, nmaxUsed: 3, mu: 0.5, temperature: 0, atoms: 6 * n, condensedAtoms: 0, superfluidSpans: false, superfluidClusters: 0, largestClusterSites: 0, phaseSites: [0, 0, 6, 0, 0], superfluidFraction: null, superfluidFractionError: null, stiffnessConverged: true },
         density: new Float64Array(6).fill(n),
         condensateDensity: new Float64Array(6),
         phaseCodes: new Uint8Array(6).fill(PhaseCode.mott),
@@ -71,7 +71,7 @@ describe('ensemble files', () => {
     const p = createBlockPartial(blockRange(plan, 0), 6, bins);
     for (const r of [0, 1]) {
       addRealisation(p, {
-        record: { index: r, converged: r === 0, sweeps: 1, nmaxUsed: 3, mu: 0.5, temperature: 0, atoms: 6, condensedAtoms: 0, superfluidSpans: false, superfluidClusters: 0, largestClusterSites: 0, phaseSites: [0, 0, 6, 0, 0] },
+        record: { index: r, converged: r === 0, sweeps: 1, nmaxUsed: 3, mu: 0.5, temperature: 0, atoms: 6, condensedAtoms: 0, superfluidSpans: false, superfluidClusters: 0, largestClusterSites: 0, phaseSites: [0, 0, 6, 0, 0], superfluidFraction: null, superfluidFractionError: null, stiffnessConverged: true },
         density: new Float64Array(6).fill(1),
         condensateDensity: new Float64Array(6),
         phaseCodes: new Uint8Array(6).fill(PhaseCode.mott),

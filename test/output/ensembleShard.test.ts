@@ -36,7 +36,7 @@ const bins = histogramBins(prepared.scenario.truncation.nmax, 4);
 const identity: EnsembleIdentity = { scenario: prepared.scenario, scenarioHash: scenarioHash(prepared.scenario), baseSeed: 's', plan, bins, context: ensembleContextOf(prepared.resolved) };
 const random = seededRandom('shard-test');
 const resultOf = (r: number): RealisationResult => ({
-  record: { index: r, converged: r !== 3, sweeps: 7 + r, nmaxUsed: 6, mu: 0.1 + 0.2, temperature: 0, atoms: 5 + random.uniform(), condensedAtoms: random.uniform() / 3, superfluidSpans: r % 2 === 0, superfluidClusters: 1, largestClusterSites: 4, phaseSites: [0, 6, 0, 0, 0] },
+  record: { index: r, converged: r !== 3, sweeps: 7 + r, nmaxUsed: 6, mu: 0.1 + 0.2, temperature: 0, atoms: 5 + random.uniform(), condensedAtoms: random.uniform() / 3, superfluidSpans: r % 2 === 0, superfluidClusters: 1, largestClusterSites: 4, phaseSites: [0, 6, 0, 0, 0], superfluidFraction: null, superfluidFractionError: null, stiffnessConverged: true },
   density: Float64Array.from({ length: 6 }, () => random.uniform() * 2),
   condensateDensity: Float64Array.from({ length: 6 }, () => random.uniform() / 7),
   phaseCodes: new Uint8Array(6).fill(PhaseCode.superfluid),

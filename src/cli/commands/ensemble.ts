@@ -219,6 +219,9 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
     `${scenario.name}: ${stats.realisations} realisations in ${seconds.toFixed(1)} s (${threadNote})` + (notConverged > 0 ? `, ${notConverged} NOT CONVERGED` : ', all converged'),
     `  superfluid spans the cloud in ${stats.spanningRealisations} of ${stats.realisations} (fraction ${stats.spanningFraction.toFixed(3)} ± ${stats.spanningFractionError.toFixed(3)})`,
     `  atoms ${stats.atoms.mean.toPrecision(6)} ± ${stats.atoms.spread.toPrecision(3)}, condensate fraction ${stats.condensateFraction.mean.toFixed(4)}`,
+    ...(stats.superfluidFraction !== null
+      ? [`  superfluid fraction ${stats.superfluidFraction.mean.toPrecision(4)} ± ${stats.superfluidFraction.spread.toPrecision(2)} (spread; standard error ${stats.superfluidFraction.standardError.toPrecision(2)}), no superflow in ${stats.superfluidFraction.noSuperflowRealisations} of ${stats.realisations}`]
+      : []),
     `  results in ${collect}`,
   ];
   process.stdout.write(`${lines.join('\n')}\n`);

@@ -12,6 +12,28 @@
 import { phaseNames, type PhaseName } from '../../observables/phaseCodes.js';
 import type { EnsembleAccumulation } from './blockPartial.js';
 import { sampleSpread, scalarSummary, type ScalarSummary } from '../../numerics/runningMoments.js';
+import { NO_SUPERFLOW_RATIO } from '../solveStiffness.js';
+
+/** Condensate fraction above which a realisation without superflow counts as puddles (the no-superflow warning's floor, solveStiffness.ts). */
+const CONDENSATE_FLOOR = 1e-3;
+
+/**
+ * The ensemble's superfluid fraction (solver.stiffness): mean and spread over the
+ * realisations, the standard error of the mean spread / sqrt(R), the largest numerical
+ * error of one realisation (the twist's own), and the realisations whose condensate
+ * carries no superflow (condensate fraction above 1e-3, f_s below NO_SUPERFLOW_RATIO of
+ * it: puddles, the Bose-glass signature of Fisher et al. 1989), with its binomial error.
+ */
+export interface EnsembleSuperfluidFraction extends ScalarSummary {
+  realisations: number;
+  standardError: number;
+  largestNumericalError: number;
+  noSuperflowRealisations: number;
+  noSuperflowFraction: number;
+  noSuperflowFractionError: number;
+  /** realisations whose twist curvature did not converge */
+  notConverged: number[];
+}
 
 export { scalarSummary, type ScalarSummary };
 
@@ -42,6 +64,30 @@ export interface EnsembleStatistics {
   nmaxUsedMax: number;
   /** true if any realisation was solved at T > 0 */
   finiteTemperature: boolean;
+  /** null unless every realisation carries a superfluid fraction (solver.stiffness on a periodic axis) */
+  superfluidFraction: EnsembleSuperfluidFraction | null;
+}
+
+function superfluidFractionOf(records: EnsembleAccumulation['records']): EnsembleSuperfluidFraction | null {
+  if (records.length === 0 || records.some((x) => x.superfluidFraction === null)) return null;
+  const values = records.map((x) => x.superfluidFraction as number);
+  const summary = scalarSummary(values);
+  const r = records.length;
+  const puddles = records.filter((x) => {
+    const cf = x.atoms > 0 ? x.condensedAtoms / x.atoms : 0;
+    return cf > CONDENSATE_FLOOR && (x.superfluidFraction as number) < NO_SUPERFLOW_RATIO * cf;
+  }).length;
+  const p = puddles / r;
+  return {
+    ...summary,
+    realisations: r,
+    standardError: summary.spread / Math.sqrt(r),
+    largestNumericalError: records.reduce((m, x) => Math.max(m, x.superfluidFractionError ?? 0), 0),
+    noSuperflowRealisations: puddles,
+    noSuperflowFraction: p,
+    noSuperflowFractionError: Math.sqrt((p * (1 - p)) / r),
+    notConverged: records.filter((x) => !x.stiffnessConverged).map((x) => x.index),
+  };
 }
 
 export function ensembleStatistics(total: EnsembleAccumulation): EnsembleStatistics {
@@ -78,5 +124,6 @@ export function ensembleStatistics(total: EnsembleAccumulation): EnsembleStatist
     sitesPerPhase,
     nmaxUsedMax: records.reduce((m, x) => Math.max(m, x.nmaxUsed), 0),
     finiteTemperature: records.some((x) => x.temperature > 0),
+    superfluidFraction: superfluidFractionOf(records),
   };
 }

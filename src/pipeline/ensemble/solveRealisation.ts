@@ -17,6 +17,20 @@ import { siteArraysOf } from '../../solver/siteArrays.js';
 import { defaultPhaseThresholds, type PhaseThresholds } from '../../observables/siteClassification.js';
 import { phaseNames } from '../../observables/phaseCodes.js';
 import { withRealisationSeed, realisationSeed } from './realisationSeed.js';
+import { stiffnessReading, type StiffnessReading } from '../solveStiffness.js';
+
+/** Mean superfluid fraction over the periodic axes with a reading and the largest error; nulls without one. */
+export function meanSuperfluidFraction(reading: StiffnessReading | null): { superfluidFraction: number | null; superfluidFractionError: number | null } {
+  const axes = (reading?.axes ?? []).filter((x) => x.value !== null);
+  if (axes.length === 0) return { superfluidFraction: null, superfluidFractionError: null };
+  let sum = 0;
+  let error = 0;
+  for (const x of axes) {
+    sum += x.value as number;
+    error = Math.max(error, (x.error as number | null) ?? 0);
+  }
+  return { superfluidFraction: sum / axes.length, superfluidFractionError: error };
+}
 
 /** Scalars of one realisation (one row of realisations.csv). */
 export interface RealisationRecord {
@@ -36,6 +50,15 @@ export interface RealisationRecord {
   largestClusterSites: number;
   /** sites per phase, in phase-code order (phaseNames) */
   phaseSites: number[];
+  /**
+   * superfluid fraction from a phase twist, mean over the periodic axes (solver.stiffness,
+   * src/pipeline/solveStiffness.ts); null when the scenario does not ask for it or no axis is periodic
+   */
+  superfluidFraction: number | null;
+  /** its numerical error (largest over the axes), null with it */
+  superfluidFractionError: number | null;
+  /** the twist curvature converged on every periodic axis (true when not asked for) */
+  stiffnessConverged: boolean;
 }
 
 /** What the ensemble accumulates from one realisation. */
@@ -100,6 +123,15 @@ export async function solveRealisation(
   const outcome = await runLattice(runRequestOf(resolved, observer), clusterExecutorFactory(scenario.solver.cluster) ?? makeExecutor);
   const fields = siteFieldsFrom(siteArraysOf(outcome.state), outcome.compressibility);
   const classification = classifyOutcome(resolved, outcome, fields, false);
+  // The same twisted solves `solve` runs (solveScenario.ts), from this realisation's solution.
+  const stiffness =
+    scenario.solver.stiffness && !outcome.stopped
+      ? stiffnessReading(
+          outcome.model,
+          { mu: outcome.solve.mu, temperature: outcome.temperature, phi: outcome.state.fields.phi },
+          { tolerance: scenario.solver.tolerance, maxSweeps: scenario.solver.maxSweeps },
+        )
+      : null;
   const record: RealisationRecord = {
     index,
     converged: outcome.converged,
@@ -113,6 +145,8 @@ export async function solveRealisation(
     superfluidClusters: classification.clusters.count,
     largestClusterSites: classification.clusters.largestSize,
     phaseSites: phaseNames.map((name) => classification.counts[name]),
+    ...meanSuperfluidFraction(stiffness),
+    stiffnessConverged: stiffness?.converged ?? true,
   };
   return { record, density: fields.density, condensateDensity: fields.condensateDensity, phaseCodes: classification.codes };
 }

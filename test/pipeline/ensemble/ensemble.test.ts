@@ -338,7 +338,7 @@ describe('blocks, shards and accumulation (pure)', () => {
     const values = Array.from({ length: R }, () => Float64Array.from({ length: siteCount }, () => 1e4 + random.normal()));
     const bins = histogramBins(1, 4);
     const result = (r: number): RealisationResult => ({
-      record: { index: r, converged: true, sweeps: 1, nmaxUsed: 1, mu: 0, temperature: 0, atoms: 0, condensedAtoms: 0, superfluidSpans: r % 3 === 0, superfluidClusters: 1, largestClusterSites: 1, phaseSites: [0, 5, 0, 0, 0] },
+      record: { index: r, converged: true, sweeps: 1, nmaxUsed: 1, mu: 0, temperature: 0, atoms: 0, condensedAtoms: 0, superfluidSpans: r % 3 === 0, superfluidClusters: 1, largestClusterSites: 1, phaseSites: [0, 5, 0, 0, 0], superfluidFraction: null, superfluidFractionError: null, stiffnessConverged: true },
       density: values[r],
       condensateDensity: new Float64Array(siteCount).fill(0.5),
       phaseCodes: new Uint8Array(siteCount).fill(PhaseCode.superfluid),
