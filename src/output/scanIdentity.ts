@@ -26,6 +26,8 @@ export function scanIdentityHash(id: ScanIdentity): string {
     chainLength: id.plan.chainLength,
     hold: id.hold,
     keepPoints: id.keepPoints,
+    // only when asked for, so scans of one realisation keep the identity they had
+    ...(id.plan.realisations > 1 ? { realisations: id.plan.realisations } : {}),
   });
   return createHash('sha256').update(text).digest('hex');
 }
@@ -42,5 +44,6 @@ export function describeScan(plan: ScanPlan): string {
     const how = a.spacing === 'log' ? ', log spacing' : a.spacing === 'list' ? ', listed' : '';
     return v.length === 1 ? `${a.path} = ${v[0]}` : `${a.path} ${v[0]} to ${v[v.length - 1]} (${v.length} points${how})`;
   });
-  return `${axes.join(' x ')}, ${plan.pointCount} points in chains of ${plan.chainLength}`;
+  const per = plan.realisations > 1 ? `, ${plan.realisations} disorder realisations per point` : '';
+  return `${axes.join(' x ')}, ${plan.pointCount} points in chains of ${plan.chainLength}${per}`;
 }

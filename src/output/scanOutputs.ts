@@ -14,11 +14,12 @@
 
 import type { OutputFolder } from './outputFolder.js';
 import { toCsv, type CsvColumn } from '../formats/csv.js';
-import { renderFieldMapSvg, renderLinePlotSvg, sideBySideSvg } from '../figures/index.js';
+import { renderFieldMapSvg, renderLinePlotSvg, renderPhaseMapSvg, sideBySideSvg } from '../figures/index.js';
 import type { GridAxis, LineSeries } from '../figures/index.js';
 import { figureImage, type WrittenImage } from './solveOutputs.js';
 import { seriesColor } from '../figures/figurePalette.js';
-import { phaseNames, phaseTitles } from '../observables/phaseCodes.js';
+import { PhaseCode, phaseNames, phaseTitles } from '../observables/phaseCodes.js';
+import { MOTT_COMPRESSIBILITY_MAX, STIFFNESS_PHASES, SUPERFLUID_FRACTION_MIN } from '../pipeline/scan/stiffnessPhase.js';
 import type { ScanPlan } from '../pipeline/scan/scanPlan.js';
 import type { ScanRow } from '../pipeline/scan/scanRow.js';
 import type { DensityHold } from '../pipeline/scan/scanPoint.js';
@@ -92,6 +93,18 @@ export function scanColumns(o: Pick<ScanOutcome, 'plan' | 'rows' | 'energyUnit' 
     { name: 'mu_evaluations', unit: 'solves', description: 'chemical-potential evaluations of the last fixed-N search (1 at fixed mu)' },
     { name: 'warm_start', unit: 'flag', description: '1: started from the previous points of its chain, 0: cold start (first point of a chain)' },
     { name: 'converged', unit: 'flag', description: '1: converged (self-consistency, atom number, temperature, truncation), 0: not; do not trust those rows' },
+    { name: 'realisations', unit: 'realisations', description: 'disorder realisations behind the row (scan --realisations; seeds "<disorder.seed>/r"); with more than one, the readings are their means' },
+    { name: 'superfluid_fraction_spread', unit: '1', description: 'sample standard deviation of superfluid_fraction over the realisations (nan for one realisation); standard error of the mean = spread / sqrt(realisations)' },
+    { name: 'compressibility_per_site', unit: '1/U', description: '(1/sites) sum_i dn_i/dmu times U at the trap centre (nan when solver.compressibility is off)' },
+    {
+      name: 'stiffness_phase',
+      unit: 'code',
+      description:
+        `the lattice's phase by the stiffness criterion (Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989)), the label most realisations carry: ${PhaseCode.mott} Mott insulator (compressibility_per_site below ${MOTT_COMPRESSIBILITY_MAX} at T = 0), ` +
+        `${PhaseCode.superfluid} superfluid (superfluid_fraction at least ${SUPERFLUID_FRACTION_MIN}), ${PhaseCode.boseGlass} Bose glass (compressible, below it), ${PhaseCode.normalFluid} normal fluid (the same at T > 0), ${PhaseCode.empty} empty; ` +
+        'nan without the compressibility or the superfluid fraction (solver.stiffness on a periodic axis). Both thresholds are our choice',
+    },
+    ...STIFFNESS_PHASES.filter((p) => p !== 'empty').map((p) => ({ name: `${snake(p)}_share`, unit: '1', description: `fraction of the realisations labelled ${phaseTitles[p]} by stiffness_phase's rule (nan when unlabelled)` })),
   ];
 }
 
@@ -126,6 +139,11 @@ export function scanCsv(o: Pick<ScanOutcome, 'plan' | 'rows' | 'energyUnit' | 'h
     col('mu_evaluations', (r) => r.muEvaluations),
     col('warm_start', (r) => (r.warmStart ? 1 : 0)),
     col('converged', (r) => (r.converged ? 1 : 0)),
+    col('realisations', (r) => r.realisations),
+    col('superfluid_fraction_spread', (r) => r.superfluidFractionSpread),
+    col('compressibility_per_site', (r) => r.compressibilityPerSite),
+    col('stiffness_phase', (r) => (r.stiffnessPhase === null ? NaN : PhaseCode[r.stiffnessPhase])),
+    ...STIFFNESS_PHASES.flatMap((p, k) => (p === 'empty' ? [] : [col(`${snake(p)}_share`, (r) => r.phaseShares?.[k] ?? NaN)])),
   ];
   const expected = scanColumns(o).map((c) => c.name);
   if (columns.some((c, k) => c.name !== expected[k])) throw new Error('scanCsv: the columns and their descriptions are out of step');
@@ -150,6 +168,16 @@ export function scanSummary(o: ScanOutcome): Record<string, unknown> {
     solveOrder: o.plan.axes.length === 2 ? 'snake: the second axis forwards on even rows of the first, backwards on odd rows' : 'in order of the values',
     chainLength: o.plan.chainLength,
     chains: o.plan.chainCount,
+    realisationsPerPoint: o.plan.realisations,
+    ...(o.plan.realisations > 1
+      ? { realisationRule: 'realisation r of every point uses disorder.seed "<seed>/r" (the ensemble rule) and is solved cold; each row holds the means over the realisations, superfluid_fraction_spread their spread' }
+      : {}),
+    stiffnessPhaseRule: {
+      criterion: 'Mott insulator: incompressible; Bose glass: compressible with (almost) zero superfluid fraction; superfluid: finite superfluid fraction (Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989))',
+      mottCompressibilityMaxPerU: MOTT_COMPRESSIBILITY_MAX,
+      superfluidFractionMin: SUPERFLUID_FRACTION_MIN,
+      thresholds: 'our choice, no published convention: a mean-field Bose glass has a small, not exactly zero, superfluid fraction, and next to the superfluid boundary any threshold misplaces a sliver',
+    },
     warmStarts:
       'each chain of consecutive points (in solve order) starts cold; every later point starts from the previous ones: order parameter, mu and T extrapolated linearly, ' +
       'dN/dmu for the first step of a fixed-N search, nmax',
@@ -244,8 +272,28 @@ export function scanImages(o: ScanOutcome): WrittenImage[] {
           ),
         ]
       : [];
+    const labelled = rows.some((r) => r.phaseShares !== null);
+    const phaseLines = labelled
+      ? [
+          figureImage(
+            'images/scan_disorder_phases.png',
+            `Share of realisations in each phase by the stiffness criterion against ${axis.path}`,
+            renderLinePlotSvg({
+              title: rows.some((r) => r.realisations > 1) ? `Phase by stiffness (share of ${Math.max(...rows.map((r) => r.realisations))} realisations)` : 'Phase by stiffness',
+              xAxis,
+              yAxis: { label: 'share of realisations' },
+              series: STIFFNESS_PHASES.flatMap((p, k) =>
+                p !== 'empty' && rows.some((r) => (r.phaseShares?.[k] ?? 0) > 0) ? [series(phaseTitles[p], (r) => r.phaseShares?.[k] ?? NaN)] : [],
+              ),
+              widthPx: 560,
+              heightPx: 360,
+            }),
+          ),
+        ]
+      : [];
     return [
       ...stiffness,
+      ...phaseLines,
       figureImage('images/scan_cloud.png', `Atoms, central density and condensate fraction against ${axis.path}`, sideBySideSvg([atoms, centre], `Cloud against ${axis.path}`)),
       figureImage('images/scan_shells.png', `Mott shell radii and sites per phase against ${axis.path}`, sideBySideSvg([shells, phases], `Shells and phases against ${axis.path}`)),
     ];
@@ -282,6 +330,46 @@ export function scanImages(o: ScanOutcome): WrittenImage[] {
           ),
         ]
       : []),
+    ...disorderPhaseMap(o, xAxis, yAxis, map),
+  ];
+}
+
+/**
+ * Two-axis scans with a stiffness label at every point: the regions (the label most
+ * realisations carry; Mott cells shaded by their filling), how many realisations agree with
+ * it, and the spread of the superfluid fraction between realisations.
+ */
+function disorderPhaseMap(o: ScanOutcome, xAxis: GridAxis, yAxis: GridAxis, map: (title: string, bar: string, f: (r: ScanRow) => number, colorMap?: string) => string): WrittenImage[] {
+  const rows = o.rows;
+  if (!rows.every((r) => r.stiffnessPhase !== null)) return [];
+  const [n1, n2] = o.plan.counts;
+  const regions = renderPhaseMapSvg({
+    phase: rows.map((r) => PhaseCode[r.stiffnessPhase as keyof typeof PhaseCode]),
+    filling: rows.map((r) => Math.max(1, Math.round(r.centralDensity))),
+    nx: n1,
+    ny: n2,
+    xAxis,
+    yAxis,
+    title: 'Phase by stiffness',
+    legendTitle: 'phase',
+    minImagePx: 300,
+  });
+  const r = o.plan.realisations;
+  const panels = [regions];
+  if (r > 1) {
+    panels.push(map(`Agreement of ${r} realisations`, 'share with the label', (x) => Math.max(...(x.phaseShares ?? [NaN]))));
+    panels.push(map('Superfluid fraction spread', 'std. dev. over realisations', (x) => x.superfluidFractionSpread));
+  } else {
+    panels.push(map('Compressibility', 'per site, 1/U', (x) => x.compressibilityPerSite));
+  }
+  return [
+    figureImage(
+      'images/scan_map_disorder_phases.png',
+      `Mott insulator, Bose glass and superfluid over ${o.plan.axes[0].path} and ${o.plan.axes[1].path} by the stiffness criterion ` +
+        `(incompressible: Mott; superfluid fraction at least ${SUPERFLUID_FRACTION_MIN}: superfluid; else Bose glass; thresholds of our choice)` +
+        (r > 1 ? `, with the agreement and the spread of ${r} disorder realisations` : ''),
+      sideBySideSvg(panels, 'Disorder phase map'),
+    ),
   ];
 }
 

@@ -8,6 +8,7 @@
 import * as z from 'zod';
 import type { ScanRow } from '../pipeline/scan/scanRow.js';
 import { phaseNames } from '../observables/phaseCodes.js';
+import { STIFFNESS_PHASES } from '../pipeline/scan/stiffnessPhase.js';
 
 /** A number that may be undefined at a point: NaN <-> null. */
 const maybe = z.number().nullable();
@@ -34,16 +35,23 @@ export const ScanRowSchema = z.strictObject({
   characteristicLength: maybe,
   centralDensity: z.number(),
   centralPhase: z.int().min(0).max(phaseNames.length - 1),
-  phaseSites: z.array(z.int().min(0)).length(phaseNames.length),
+  // means over the realisations with scan --realisations, so not always whole
+  phaseSites: z.array(z.number().min(0)).length(phaseNames.length),
   shells: z.array(
     z.strictObject({
       filling: z.int().min(1),
       innerRadius: z.number(),
       outerRadius: z.number(),
-      sites: z.int().min(1),
+      sites: z.number().positive(),
       radiusFrom: z.enum(['annulus', 'sites']),
     }),
   ),
+  // optional: rows written before the stiffness phase map existed
+  compressibilityPerSite: maybe.optional(),
+  stiffnessPhase: z.enum(STIFFNESS_PHASES).nullable().optional(),
+  realisations: z.int().min(1).optional(),
+  superfluidFractionSpread: maybe.optional(),
+  phaseShares: z.array(z.number().min(0).max(1)).length(STIFFNESS_PHASES.length).nullable().optional(),
 });
 
 export type ScanRowJson = z.infer<typeof ScanRowSchema>;
@@ -58,6 +66,9 @@ export function scanRowToJson(row: ScanRow): ScanRowJson {
     condensateFraction: nullIfNaN(row.condensateFraction),
     superfluidFraction: nullIfNaN(row.superfluidFraction),
     superfluidFractionError: nullIfNaN(row.superfluidFractionError),
+    compressibilityPerSite: nullIfNaN(row.compressibilityPerSite),
+    superfluidFractionSpread: nullIfNaN(row.superfluidFractionSpread),
+    phaseShares: row.phaseShares === null ? null : [...row.phaseShares],
     entropyPerAtom: nullIfNaN(row.entropyPerAtom),
     characteristicDensity: nullIfNaN(row.characteristicDensity),
     characteristicLength: nullIfNaN(row.characteristicLength),
@@ -72,6 +83,11 @@ export function scanRowFromJson(json: ScanRowJson): ScanRow {
     condensateFraction: nanIfNull(json.condensateFraction),
     superfluidFraction: nanIfNull(json.superfluidFraction ?? null),
     superfluidFractionError: nanIfNull(json.superfluidFractionError ?? null),
+    compressibilityPerSite: nanIfNull(json.compressibilityPerSite ?? null),
+    stiffnessPhase: json.stiffnessPhase ?? null,
+    realisations: json.realisations ?? 1,
+    superfluidFractionSpread: nanIfNull(json.superfluidFractionSpread ?? null),
+    phaseShares: json.phaseShares ?? null,
     entropyPerAtom: nanIfNull(json.entropyPerAtom),
     characteristicDensity: nanIfNull(json.characteristicDensity),
     characteristicLength: nanIfNull(json.characteristicLength),

@@ -40,6 +40,7 @@ export const ScanShardHeaderSchema = z.strictObject({
   axes: z.array(ScanAxisSchema).min(1).max(2),
   hold: z.enum(['trap', 'atoms']).nullable(),
   chainLength: z.int().min(1),
+  realisations: z.int().min(1).default(1),
   chainCount: z.int().min(1),
   pointCount: z.int().min(1),
   energyUnit: z.string(),
@@ -82,6 +83,7 @@ export function writeScanShardHeader(
     axes: id.plan.axes.map((a) => ({ path: a.path, values: [...a.values], spacing: a.spacing })),
     hold: id.hold,
     chainLength: id.plan.chainLength,
+    realisations: id.plan.realisations,
     chainCount: id.plan.chainCount,
     pointCount: id.plan.pointCount,
     energyUnit: id.energyUnit,
@@ -143,7 +145,7 @@ export function checkScanShardSet(shards: readonly LoadedScanShard[]): { plan: S
     seen.add(key);
   }
   const h = first.header;
-  const plan = planScan(h.axes, h.chainLength);
+  const plan = planScan(h.axes, h.chainLength, h.realisations);
   if (plan.chainCount !== h.chainCount || plan.pointCount !== h.pointCount) {
     throw new InputError(`merge ${describe(first)}: header says ${h.pointCount} points in ${h.chainCount} chains, but its axes make ${plan.pointCount} in ${plan.chainCount}; the shard is damaged, run it again`);
   }

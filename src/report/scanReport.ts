@@ -2,6 +2,7 @@
 // starts), the figures, one row per point, cautions (mean field; warm starts near
 // transitions) and the scenario.
 
+import { MOTT_COMPRESSIBILITY_MAX, SUPERFLUID_FRACTION_MIN } from '../pipeline/scan/stiffnessPhase.js';
 import type { KeyValueRow, ReportDocument, StatusLine, CellValue } from './reportModel.js';
 import { cautionsFor } from './cautions.js';
 import { phaseTitles, phaseNames } from '../observables/phaseCodes.js';
@@ -49,6 +50,14 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
   const fillings = scanFillings(rows);
   // solver.stiffness on: the superfluid fraction stands beside the condensate fraction
   const withStiffness = rows.some((r) => !Number.isNaN(r.superfluidFraction));
+  const withSpread = o.plan.realisations > 1 && withStiffness;
+  const labelled = rows.some((r) => r.stiffnessPhase !== null);
+  const shareText = (r: (typeof rows)[number]): string => {
+    if (r.stiffnessPhase === null) return '—';
+    const title = phaseTitles[r.stiffnessPhase];
+    if (r.realisations <= 1 || r.phaseShares === null) return title;
+    return `${title} (${Math.round(Math.max(...r.phaseShares) * r.realisations)}/${r.realisations})`;
+  };
   const columns = [
     ...o.plan.axes.map((a) => ({ header: a.path })),
     { header: 'converged' },
@@ -57,6 +66,8 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
     ...(finiteTemperature ? [{ header: 'kT', unit: o.energyUnit }] : []),
     { header: 'condensate fraction' },
     ...(withStiffness ? [{ header: 'superfluid fraction (twist)' }] : []),
+    ...(withSpread ? [{ header: 'f_s spread' }] : []),
+    ...(labelled ? [{ header: 'phase by stiffness' }] : []),
     { header: 'central density' },
     { header: 'central phase' },
     { header: 'superfluid', unit: 'sites' },
@@ -72,6 +83,8 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
     ...(finiteTemperature ? [r.temperature] : []),
     r.condensateFraction,
     ...(withStiffness ? [r.superfluidFraction] : []),
+    ...(withSpread ? [r.superfluidFractionSpread] : []),
+    ...(labelled ? [shareText(r)] : []),
     r.centralDensity,
     phaseTitles[phaseNames[r.centralPhase]],
     r.phaseSites[phaseNames.indexOf('superfluid')],
@@ -122,6 +135,19 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
             kind: 'cautionList',
             items: [
               ...cautionsFor({ depthFromBeamPower: false, finiteTemperature, showsLocalDensityPlots: false }),
+              ...(labelled
+                ? [
+                    {
+                      title: 'Phase by stiffness on a finite lattice',
+                      text:
+                        `Each point is labelled as a whole: Mott insulator when incompressible (mean dn/dmu per site below ${MOTT_COMPRESSIBILITY_MAX}/U at T = 0), superfluid when the superfluid fraction ` +
+                        `from a phase twist is at least ${SUPERFLUID_FRACTION_MIN}, Bose glass when compressible below it (normal fluid at T > 0), the criterion of Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989). ` +
+                        'Both thresholds are our choice. Mean field gives a Bose glass a small, not exactly zero, superfluid fraction, and a clean superfluid loses its superfluid fraction continuously at the Mott boundary, so a sliver next to the superfluid boundary is misplaced by any threshold. ' +
+                        'The compressibility is a finite difference over a small step of mu: a finite lattice in the Bose glass has a small gap set by its rarest sites, so at very small J some realisations read incompressible. ' +
+                        'Larger lattices and more realisations (--realisations) sharpen the Mott / Bose glass boundary; mean field also misplaces the critical hopping itself (quantum Monte Carlo finds the clean 2D n = 1 tip at (U/J)c = 16.74 against 23.3 here).',
+                    },
+                  ]
+                : []),
               {
                 title: 'Warm starts near transitions',
                 text:

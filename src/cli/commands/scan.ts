@@ -16,7 +16,7 @@ import { buildSolveReport } from '../../report/solveReport.js';
 import { prepareScenario, type PreparedScenario } from '../../pipeline/prepareScenario.js';
 import { PARALLEL_MIN_SITES, type WorkerModule } from '../../pipeline/solveScenario.js';
 import { solvePictures } from '../../pipeline/solvePictures.js';
-import { chainPoints, DEFAULT_CHAIN_LENGTH, planScan, pointValues, shardChains, type ScanPlan } from '../../pipeline/scan/scanPlan.js';
+import { chainPoints, DEFAULT_CHAIN_LENGTH, MAX_REALISATIONS_PER_POINT, planScan, pointValues, shardChains, type ScanPlan } from '../../pipeline/scan/scanPlan.js';
 import { runScan, type ScanPointResult } from '../../pipeline/scan/runScan.js';
 import { CHARACTERISTIC_DENSITY, checkAxisCombination, checkNumericPath, directOverrides, scenarioOfPoint, valueAtPath } from '../../pipeline/scan/scanPoint.js';
 import { loadScenario } from '../../scenario/loadScenario.js';
@@ -40,7 +40,7 @@ import { resolveShard, type ShardChoice } from '../shardOption.js';
 import { parseVaryOptions } from '../varyOption.js';
 import { outputTarget, reportCommit } from '../outputOption.js';
 
-const OPTIONS = ['vary', 'log', 'fixed', 'chainLength', 'keepPoints', 'shard', 'shardFromEnv', 'shards', 'threads', 'set', 'out', 'force', 'quiet', 'jsonProgress'] as const;
+const OPTIONS = ['vary', 'log', 'fixed', 'chainLength', 'realisations', 'keepPoints', 'shard', 'shardFromEnv', 'shards', 'threads', 'set', 'out', 'force', 'quiet', 'jsonProgress'] as const;
 
 /** Injection points for tests: the sweep workers' module, the environment, an interruption. */
 export interface ScanHooks {
@@ -57,6 +57,9 @@ export function registerScan(program: Command, context: CommandContext): void {
     .argument('<scenario>', 'scenario file (JSON); examples in configs/');
   declare(command, OPTIONS, {
     out: { help: 'output folder (default out/<name>-scan; for shards the folder that collects them, default out/<name>-scan-shards)' },
+    realisations: {
+      help: 'disorder realisations per point (realisation r uses the seed "<disorder.seed>/r", solved cold): rows hold their means, the spread of the superfluid fraction and the share of each phase (default 1)',
+    },
   }).action(async (scenarioPath: string, options: RawOptions) => {
     context.exitCode = await runScanCommand(scenarioPath, options);
   });
@@ -74,7 +77,7 @@ export interface ScanSetup {
 }
 
 /** Reads --vary, --log, --fixed, --chain-length, --keep-points and --set; shared with `submit --scan`. */
-export function scanSetup(scenarioPath: string, o: { vary?: string[]; log?: boolean; fixed?: string; chainLength?: number; keepPoints?: boolean; set?: string[] }): ScanSetup {
+export function scanSetup(scenarioPath: string, o: { vary?: string[]; log?: boolean; fixed?: string; chainLength?: number; realisations?: number; keepPoints?: boolean; set?: string[] }): ScanSetup {
   const axes = parseVaryOptions(o.vary, o.log ?? false);
   const hold = (o.fixed ?? 'trap') as 'trap' | 'atoms';
   if (o.fixed !== undefined && !axes.some((a) => a.path === CHARACTERISTIC_DENSITY)) {
@@ -84,11 +87,19 @@ export function scanSetup(scenarioPath: string, o: { vary?: string[]; log?: bool
     axes.map((a) => a.path),
     hold,
   );
-  const plan = planScan(axes, o.chainLength ?? DEFAULT_CHAIN_LENGTH);
+  if (o.realisations !== undefined && o.realisations > MAX_REALISATIONS_PER_POINT) {
+    throw new InputError(`--realisations: at most ${MAX_REALISATIONS_PER_POINT} disorder realisations per scan point; give fewer, or run an ensemble per point`);
+  }
+  const plan = planScan(axes, o.chainLength ?? DEFAULT_CHAIN_LENGTH, o.realisations ?? 1);
   const overrides = o.set ?? [];
   const memory = memoryLimitBytes();
   const prepare = (extra: readonly string[]): PreparedScenario => prepareScenario(scenarioPath, [...overrides, ...extra], { memoryLimitBytes: memory });
   const base = prepare([]);
+  if (plan.realisations > 1 && !base.scenario.disorder) {
+    throw new InputError(
+      '--realisations: the scenario has no disorder block, so every realisation would be the same; add one, e.g. "disorder": {"kind": "box", "width": 0.5, "seed": "run1"}, or leave --realisations out',
+    );
+  }
   // A path that holds a text, a list or a group in the scenario is named now, before the
   // schema refuses a number there with a message about the value.
   for (const a of plan.axes) if (a.path !== CHARACTERISTIC_DENSITY && valueAtPath(base.scenario, a.path) !== undefined) checkNumericPath(base, a.path);

@@ -43,6 +43,7 @@ const OPTIONS = [
   'log',
   'fixed',
   'chainLength',
+  'realisations',
   'keepPoints',
   'blockSize',
   'binsPerAtom',
@@ -98,7 +99,7 @@ function describeWork(scenarioPath: string, o: OptionValues<(typeof OPTIONS)[num
   }
   const sets = (o.set ?? []).flatMap((s) => ['--set', s]);
   if (!isScan) {
-    for (const name of ['log', 'fixed', 'chainLength', 'keepPoints'] as const) {
+    for (const name of ['log', 'fixed', 'chainLength', 'realisations', 'keepPoints'] as const) {
       if (o[name] !== undefined) throw new InputError(`--${name.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}: belongs to --scan, not to --ensemble; leave it out`);
     }
     const realisations = o.ensemble as number;
@@ -131,6 +132,7 @@ function describeWork(scenarioPath: string, o: OptionValues<(typeof OPTIONS)[num
     ...(o.fixed !== undefined ? ['--fixed', o.fixed] : []),
     '--chain-length',
     String(setup.plan.chainLength),
+    ...(setup.plan.realisations > 1 ? ['--realisations', String(setup.plan.realisations)] : []),
     ...(o.keepPoints ? ['--keep-points'] : []),
     ...sets,
   ];

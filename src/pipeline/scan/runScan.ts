@@ -32,6 +32,9 @@ import type { SweepPool } from '../../solver/sweepExecutor.js';
 import { chainPoints, pointCoordinates, pointValues, type ScanPlan } from './scanPlan.js';
 import { scenarioOfPoint, type DensityHold } from './scanPoint.js';
 import { scanRowOf, type ScanRow } from './scanRow.js';
+import { combineRealisationRows } from './realisationRows.js';
+import { realisationSeed } from '../ensemble/realisationSeed.js';
+import { InputError } from '../../scenario/inputError.js';
 
 const yieldToEventLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
 
@@ -181,6 +184,15 @@ export async function runScan(options: RunScanOptions): Promise<ScanRunSummary> 
   const chains = options.chains.map((c) => ({ chain: c, ...resumeChain(plan, c, options.done) }));
   const toSolve = chains.reduce((n, s) => n + s.points.length - s.start, 0);
   const summary: ScanRunSummary = { stopped: false, solved: 0, skipped: chains.reduce((n, s) => n + s.start, 0), sweeps: 0 };
+  // Several disorder realisations per point: realisation r of every point uses the seed
+  // "<disorder.seed>/r" (the ensemble's rule), each solved cold (see scanPlan.ts).
+  const realisations = plan.realisations;
+  let baseSeed = '';
+  if (realisations > 1) {
+    const disorder = options.prepare([]).scenario.disorder;
+    if (!disorder) throw new InputError('--realisations: the scenario has no disorder block, so every realisation would be the same; add one, e.g. "disorder": {"kind": "box", "width": 0.5, "seed": "run1"}');
+    baseSeed = disorder.seed;
+  }
   for (const { chain, points, start, before } of chains) {
     const solved = [...before];
     for (let position = start; position < points.length; position++) {
@@ -190,24 +202,33 @@ export async function runScan(options: RunScanOptions): Promise<ScanRunSummary> 
         summary.stopped = true;
         return summary;
       }
-      const { prepared, overrides } = scenarioOfPoint(plan, point, options.hold, options.prepare);
-      const sites = prepared.resolved.geometry.siteCount;
-      const from = useWarm ? warmStartFor(plan, solved, point, sites) : null;
       let stopped = false;
-      const artifacts = await solveScenario(prepared, {
-        threads: options.threads,
-        ...(options.sweepPool ? { sweepPool: options.sweepPool } : {}),
-        ...(from ? { resume: { phi: from.phi, mu: from.mu, nmax: from.nmax, kT: from.kT, ...(from.atomSlope > 0 ? { atomSlope: from.atomSlope } : {}) } } : {}),
-        observer: (p) => {
-          options.observer?.({ point, finished: summary.solved, toSolve, solve: p });
-          if (options.shouldStop?.()) stopped = true;
-          return stopped ? 'stop' : undefined;
-        },
-      });
-      if (artifacts.outcome.stopped || stopped) {
-        summary.stopped = true;
-        return summary;
+      const rows: ScanRow[] = [];
+      let first: { artifacts: SolveArtifacts; overrides: string[]; from: WarmStart | null } | null = null;
+      for (let r = 0; r < realisations; r++) {
+        const seeded = realisations > 1 ? (extra: readonly string[]): PreparedScenario => options.prepare([...extra, `disorder.seed=${realisationSeed(baseSeed, r)}`]) : options.prepare;
+        const { prepared, overrides } = scenarioOfPoint(plan, point, options.hold, seeded);
+        const sites = prepared.resolved.geometry.siteCount;
+        const from = useWarm && realisations === 1 ? warmStartFor(plan, solved, point, sites) : null;
+        const solvedRealisation = await solveScenario(prepared, {
+          threads: options.threads,
+          ...(options.sweepPool ? { sweepPool: options.sweepPool } : {}),
+          ...(from ? { resume: { phi: from.phi, mu: from.mu, nmax: from.nmax, kT: from.kT, ...(from.atomSlope > 0 ? { atomSlope: from.atomSlope } : {}) } } : {}),
+          observer: (p) => {
+            options.observer?.({ point, finished: summary.solved, toSolve, solve: p });
+            if (options.shouldStop?.()) stopped = true;
+            return stopped ? 'stop' : undefined;
+          },
+        });
+        if (solvedRealisation.outcome.stopped || stopped) {
+          summary.stopped = true;
+          return summary;
+        }
+        rows.push(scanRowOf(point, pointValues(plan, point), solvedRealisation, from !== null));
+        if (r === 0) first = { artifacts: solvedRealisation, overrides: realisations > 1 ? [...overrides, `disorder.seed=${realisationSeed(baseSeed, 0)}`] : overrides, from };
+        if (r < realisations - 1) await yieldToEventLoop();
       }
+      const { artifacts, overrides } = first as NonNullable<typeof first>;
       const o = artifacts.outcome;
       const warm: WarmStart = {
         phi: Float64Array.from(o.state.fields.phi),
@@ -218,7 +239,8 @@ export async function runScan(options: RunScanOptions): Promise<ScanRunSummary> 
       };
       solved.push({ point, warm });
       if (solved.length > 2) solved.shift();
-      const row = scanRowOf(point, pointValues(plan, point), artifacts, from !== null);
+      // realisation 0's solution is the point's kept folder and warm start; the row is the mean of all
+      const row = combineRealisationRows(rows);
       summary.solved++;
       summary.sweeps += row.sweeps;
       await options.onPoint({ point, chain, position, row, artifacts, warm, overrides, lastOfChain: position === points.length - 1 });

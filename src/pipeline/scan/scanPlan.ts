@@ -37,14 +37,26 @@ export interface ScanPlan {
   chainCount: number;
   /** point indices in solve order (the snake path) */
   order: number[];
+  /**
+   * disorder realisations per point (seeds "<disorder.seed>/r", realisationSeed.ts); 1: the
+   * scenario's own field. With more than one every realisation is solved cold, so the
+   * point's statistics do not depend on the solve order, chains or shards.
+   */
+  realisations: number;
 }
+
+/** Most disorder realisations per scan point. */
+export const MAX_REALISATIONS_PER_POINT = 10_000;
 
 /** Largest number of points of one scan (each is a full lattice solve). */
 export const MAX_SCAN_POINTS = 100_000;
 /** Points per chain unless the scan says otherwise. */
 export const DEFAULT_CHAIN_LENGTH = 8;
 
-export function planScan(axes: readonly ScanAxis[], chainLength: number): ScanPlan {
+export function planScan(axes: readonly ScanAxis[], chainLength: number, realisations = 1): ScanPlan {
+  if (!Number.isInteger(realisations) || realisations < 1 || realisations > MAX_REALISATIONS_PER_POINT) {
+    throw new RangeError(`realisations per point: expected a whole number from 1 to ${MAX_REALISATIONS_PER_POINT}, got ${realisations}`);
+  }
   if (axes.length < 1 || axes.length > 2) throw new RangeError(`scan axes: expected one or two, got ${axes.length}`);
   for (const a of axes) {
     if (a.values.length < 1) throw new RangeError(`scan axis ${a.path}: no values`);
@@ -64,7 +76,7 @@ export function planScan(axes: readonly ScanAxis[], chainLength: number): ScanPl
       for (let k = 0; k < n2; k++) order.push(i * n2 + (i % 2 === 0 ? k : n2 - 1 - k));
     }
   }
-  return { axes: axes.map((a) => ({ ...a, values: [...a.values] })), counts, pointCount, chainLength, chainCount: Math.ceil(pointCount / chainLength), order };
+  return { axes: axes.map((a) => ({ ...a, values: [...a.values] })), counts, pointCount, chainLength, chainCount: Math.ceil(pointCount / chainLength), order, realisations };
 }
 
 /** Grid indices of a point (one per axis). */

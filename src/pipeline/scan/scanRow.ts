@@ -9,6 +9,7 @@ import type { ResolvedScenario } from '../../scenario/resolveScenario.js';
 import { energyParser } from '../../scenario/resolveScenario.js';
 import { phaseNames } from '../../observables/phaseCodes.js';
 import { characteristicDensityOf, characteristicLengthOf } from './scanPoint.js';
+import { STIFFNESS_PHASES, stiffnessPhase, type StiffnessPhase } from './stiffnessPhase.js';
 
 export interface ShellRadii {
   filling: number;
@@ -55,6 +56,16 @@ export interface ScanRow {
   /** sites per PhaseCode */
   phaseSites: number[];
   shells: ShellRadii[];
+  /** (1/N_sites) sum_i dn_i/dmu, in units of 1/U (U at the trap centre); NaN when solver.compressibility is off */
+  compressibilityPerSite: number;
+  /** the whole lattice's phase by the stiffness criterion (stiffnessPhase.ts), null without compressibility or superfluid fraction */
+  stiffnessPhase: StiffnessPhase | null;
+  /** disorder realisations behind the row (plan.realisations); the readings above are their means */
+  realisations: number;
+  /** sample standard deviation of the superfluid fraction over the realisations (NaN for one, or without f_s) */
+  superfluidFractionSpread: number;
+  /** fraction of the realisations with each label of STIFFNESS_PHASES (null when unlabelled) */
+  phaseShares: number[] | null;
 }
 
 /** The energy unit of a scan's table: the scenario's unit in dimensionless mode, Hz (E/h) in laboratory mode. */
@@ -111,6 +122,40 @@ export function scanRowOf(point: number, values: readonly number[], a: SolveArti
     centralPhase: central.phase,
     phaseSites: phaseNames.map((name) => a.classification.counts[name]),
     shells: a.shells.shells.map((s) => ({ filling: s.filling, innerRadius: s.innerRadius, outerRadius: s.outerRadius, sites: s.sites, radiusFrom: s.radiusFrom })),
+    ...stiffnessReadingOf(a),
+  };
+}
+
+/** Every site's density rounds to the same integer (and the lattice is not empty). */
+function uniformFilling(density: ArrayLike<number>): boolean {
+  if (density.length === 0) return false;
+  const k = Math.round(density[0]);
+  for (let i = 1; i < density.length; i++) if (Math.round(density[i]) !== k) return false;
+  return k >= 1;
+}
+
+/** Mean compressibility per site (1/U), the stiffness label and its one-realisation shares. */
+function stiffnessReadingOf(a: SolveArtifacts): Pick<ScanRow, 'compressibilityPerSite' | 'stiffnessPhase' | 'realisations' | 'superfluidFractionSpread' | 'phaseShares'> {
+  const u = a.resolved.units.interaction as number;
+  const k = a.outcome.compressibility;
+  let sum = 0;
+  if (k !== null) for (let i = 0; i < k.length; i++) sum += k[i];
+  const compressibilityPerSite = k !== null && k.length > 0 ? (sum / k.length) * u : NaN;
+  const { superfluidFraction } = superfluidFractionOf(a);
+  const phase = stiffnessPhase({
+    atoms: a.outcome.solve.totals.atoms,
+    compressibilityPerSiteU: compressibilityPerSite,
+    kTOverU: a.outcome.temperature / u,
+    superfluidFraction,
+    compressibilityMin: a.scenario.phases.compressibilityMin,
+    uniformFilling: uniformFilling(a.fields.density),
+  });
+  return {
+    compressibilityPerSite,
+    stiffnessPhase: phase,
+    realisations: 1,
+    superfluidFractionSpread: NaN,
+    phaseShares: phase === null ? null : STIFFNESS_PHASES.map((p) => (p === phase ? 1 : 0)),
   };
 }
 
