@@ -6,7 +6,8 @@
 // unique minimum: Gauss-Markov / Aitken, any regression text). The bootstrap replicates are
 // means of resampled shot shifts, so their standard deviation must approach the ideal
 // bootstrap standard error of a mean, sqrt(sum_s (x_s - xbar)^2) / M (Efron & Tibshirani,
-// An Introduction to the Bootstrap (1993), eq. 5.11 with the plug-in variance), within the
+// An Introduction to the Bootstrap (1993), ch. 5, the plug-in standard error; equation
+// number not given, recalled from memory), within the
 // Monte Carlo error of B replicates, about 1/sqrt(2B) relative for the spread of a roughly
 // normal sample (common practice). The draws are reproducible from the seed.
 import { Matrix, QrDecomposition, inverse } from 'ml-matrix';
