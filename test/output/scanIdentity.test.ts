@@ -42,6 +42,7 @@ describe('scanIdentityHash', () => {
       spacing: identity({ plan: planScan([{ ...hopping, spacing: 'list' }, mu], 4) }),
       'axis order': identity({ plan: planScan([mu, hopping], 4) }),
       'chain length': identity({ plan: planScan([hopping, mu], 5) }),
+      'realisations per point': identity({ plan: planScan([hopping, mu], 4, 3) }),
       hold: identity({ hold: 'trap' }),
       'other hold': identity({ hold: 'atoms' }),
       keepPoints: identity({ keepPoints: true }),
@@ -61,6 +62,8 @@ describe('scanIdentityHash', () => {
     // them rebuilt in another object must give the same key
     const plan = { ...id.plan, order: [...id.plan.order], counts: [...id.plan.counts] };
     expect(scanIdentityHash({ ...id, plan })).toBe(base);
+    // one realisation per point (the default) keeps the key scans had before the option existed
+    expect(scanIdentityHash(identity({ plan: planScan([hopping, mu], 4, 1) }))).toBe(base);
   });
 });
 

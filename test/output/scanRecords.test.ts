@@ -38,6 +38,11 @@ function row(overrides: Partial<ScanRow> = {}): ScanRow {
       { filling: 1, innerRadius: 3.25, outerRadius: 7.0000000000000009, sites: 100, radiusFrom: 'annulus' },
       { filling: 2, innerRadius: 0, outerRadius: 3.25, sites: 33, radiusFrom: 'sites' },
     ],
+    compressibilityPerSite: 0.1 + 0.7,
+    stiffnessPhase: 'boseGlass',
+    realisations: 3,
+    superfluidFractionSpread: 1 / 7,
+    phaseShares: [0, 2 / 3, 1 / 3, 0, 0],
     ...overrides,
   };
 }
@@ -105,6 +110,17 @@ describe('scan rows as JSON', () => {
     expect(back.superfluidFraction).toBeNaN();
     expect(back.superfluidFractionError).toBeNaN();
     expect(back.condensateFraction).toBe(0.6180339887498949);
+  });
+
+  it('read a row written before the phase by stiffness existed: one realisation, no label', () => {
+    const json = scanRowToJson(row()) as Record<string, unknown>;
+    for (const key of ['compressibilityPerSite', 'stiffnessPhase', 'realisations', 'superfluidFractionSpread', 'phaseShares']) delete json[key];
+    const back = scanRowFromJson(ScanRowSchema.parse(json));
+    expect(back.compressibilityPerSite).toBeNaN();
+    expect(back.stiffnessPhase).toBeNull();
+    expect(back.realisations).toBe(1);
+    expect(back.superfluidFractionSpread).toBeNaN();
+    expect(back.phaseShares).toBeNull();
   });
 
   it('refuse a damaged row, naming the field', () => {
