@@ -41,6 +41,8 @@ export interface FieldIndexInput {
   localDensity: boolean;
   /** cluster method: the bond fields are written for these axes (indices) */
   clusterBondAxes?: readonly number[];
+  /** solver.stiffness: the local superfluid fraction is written for these (periodic) axes */
+  stiffnessAxes?: readonly number[];
 }
 
 const axisNames = ['x', 'y', 'z'];
@@ -156,6 +158,19 @@ export function fieldEntries(input: FieldIndexInput): FieldEntry[] {
         meaning: `1 where the bond from site i along ${a} lies inside a cluster and is treated exactly, 0 where it is decoupled by the mean field`,
       },
     );
+  }
+  for (const d of input.stiffnessAxes ?? []) {
+    const a = axisNames[d];
+    list.push({
+      file: `fields/superfluid_fraction_${a}.npy`,
+      quantity: `local superfluid fraction f_b of the bond i -> i + e_${a}`,
+      unit: '1',
+      dtype: 'float64',
+      meaning:
+        `the bond's share of the twist curvature d^2 Omega/dq^2 along ${a} (the change of its current 2 J Im(e^{iq} phi_i^* phi_j) per unit twist) over J (n_i + n_j), ` +
+        'stored at the lower site (NaN where there is no bond or no atoms): where the superflow runs. The whole-lattice superfluid fraction is its mean weighted by J (n_i + n_j); ' +
+        'a clean lattice gives |phi|^2/n on every bond, puddles without superflow ~0 however large their condensate',
+    });
   }
   return list;
 }

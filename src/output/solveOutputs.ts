@@ -130,6 +130,7 @@ export function fieldFiles(a: SolveArtifacts): Array<{ file: string; bytes: Uint
         ] as Array<[string, Uint8Array | Int32Array]>)
       : []),
   ];
+  for (const x of a.stiffness?.axes ?? []) if (x.localFraction !== null) list.push([`superfluid_fraction_${'xyz'[x.axis]}`, x.localFraction]);
   if (a.cluster !== null) {
     a.cluster.bondCorrelation.forEach((b, d) => list.push([`bond_correlation_${'xyz'[d]}`, b], [`bond_exact_${'xyz'[d]}`, a.cluster!.bondExact[d]]));
   }

@@ -168,6 +168,7 @@ export function buildSummary(a: SolveArtifacts, files: string[], extras: Summary
         finiteTemperature: temperature > 0,
         localDensity: lda !== undefined,
         ...(a.cluster !== null ? { clusterBondAxes: a.cluster.bondCorrelation.map((_, d) => d) } : {}),
+        ...(a.stiffness !== null ? { stiffnessAxes: a.stiffness.axes.filter((x) => x.localFraction !== null).map((x) => x.axis) } : {}),
       }),
     },
     ...(extras.images !== undefined ? { images: extras.images } : {}),

@@ -18,11 +18,11 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 const dtypeOf: Record<string, string> = { '<f8': 'float64', '|u1': 'uint8', '<i4': 'int32' };
 
-async function indexAgainstFiles(name: string, solver: Record<string, unknown>) {
+async function indexAgainstFiles(name: string, solver: Record<string, unknown>, boundary: string | string[] = 'open') {
   const path = join(dir, `${name}.json`);
   writeFileSync(
     path,
-    JSON.stringify({ name, energyUnit: 'U', lattice: { shape: [4, 6] }, hubbard: { hopping: 0.03 }, trap: { coefficient: 0.05 }, particles: { chemicalPotential: 0.6 }, truncation: { nmax: 3 }, solver }),
+    JSON.stringify({ name, energyUnit: 'U', lattice: { shape: [4, 6], boundary }, hubbard: { hopping: 0.03 }, trap: { coefficient: 0.05 }, particles: { chemicalPotential: 0.6 }, truncation: { nmax: 3 }, solver }),
   );
   const a = await solveScenario(prepareScenario(path), { threads: 1 });
   const files = fieldFiles(a);
@@ -33,6 +33,7 @@ async function indexAgainstFiles(name: string, solver: Record<string, unknown>) 
     finiteTemperature: false,
     localDensity: a.classification.localDensity !== undefined,
     ...(a.cluster !== null ? { clusterBondAxes: a.cluster.bondCorrelation.map((_, d) => d) } : {}),
+    ...(a.stiffness !== null ? { stiffnessAxes: a.stiffness.axes.filter((x) => x.localFraction !== null).map((x) => x.axis) } : {}),
   });
   expect(entries.map((e) => e.file).sort()).toEqual(files.map((f) => f.file).sort());
   for (const f of files) {
@@ -49,6 +50,11 @@ describe('fields index', () => {
   it('lists exactly the files of a single-site solve, with their dtypes', async () => {
     const entries = await indexAgainstFiles('single', { compressibility: false });
     expect(entries.some((e) => e.file.startsWith('fields/bond_'))).toBe(false);
+  });
+
+  it('lists the local superfluid fraction of a stiffness solve on its periodic axis only', async () => {
+    const entries = await indexAgainstFiles('stiffness', { stiffness: true, compressibility: false }, ['periodic', 'open']);
+    expect(entries.filter((e) => e.file.startsWith('fields/superfluid_fraction_')).map((e) => e.file)).toEqual(['fields/superfluid_fraction_x.npy']);
   });
 
   it('lists the bond fields of a cluster solve (one pair per axis)', async () => {

@@ -12,6 +12,15 @@
 // error is |D(q/2) - D(q)| / 3, the estimated error of the finer difference, an upper bound
 // of the extrapolated one when the series in q^2 is regular.
 //
+// Local map (where the superflow runs): by Hellmann-Feynman at a converged twisted solution,
+// dOmega/dq = sum_b I_b with the bond current I_b = 2 J_b Im(e^{i q} phi_i^* phi_j), the
+// expectation of the current operator on bond b in the product state. Its central
+// difference K_b = (I_b(+q) - I_b(-q)) / 2q, Richardson-extrapolated like the energy, is the
+// bond's share of the curvature (sum_b K_b = d^2 Omega/dq^2 to the solver tolerance), and
+// f_b = K_b / (J_b (n_i + n_j)) its local superfluid fraction, stored at the bond's lower
+// site; f_s is the weighted mean of f_b with the weights J_b (n_i + n_j). In a clean lattice
+// every f_b = |phi|^2/n; puddles that carry no superflow show f_b ~ 0 even where phi is large.
+//
 // An open axis has no boundary condition to twist: a uniform phase per bond is removed by
 // the gauge transformation phi_x -> e^{-i q x} phi_x, so Omega does not depend on it and the
 // curvature says nothing. Such axes are reported as null with that reason.
@@ -34,6 +43,26 @@ export interface AxisStiffness {
   twistPerBond: number | null;
   /** all twisted solves converged and the two twist sizes agree within the tolerance */
   converged: boolean;
+  /** local superfluid fraction f_b of the bond from each site along this axis (NaN where there is no bond or no atoms on it), null on an axis without a twist */
+  localFraction: Float64Array | null;
+}
+
+/** Bond currents 2 J Im(e^{i t} phi_i^* phi_j) of the bonds along axis d of a twisted solution, at the bond's lower site. */
+function bondCurrents(s: TwistedSolution, d: number, t: number): Float64Array {
+  const b = s.bonds;
+  const out = new Float64Array(b.siteCount);
+  const c = Math.cos(t);
+  const sn = Math.sin(t);
+  for (let k = 0; k < b.bondFrom.length; k++) {
+    if (b.bondAxis[k] !== d) continue;
+    const i = b.bondFrom[k];
+    const j = b.bondTo[k];
+    // z = phi_i^* phi_j
+    const zr = s.phiRe[i] * s.phiRe[j] + s.phiIm[i] * s.phiIm[j];
+    const zi = s.phiRe[i] * s.phiIm[j] - s.phiIm[i] * s.phiRe[j];
+    out[i] = 2 * b.bondHopping[k] * (sn * zr + c * zi);
+  }
+  return out;
 }
 
 export interface StiffnessOptions {
@@ -81,6 +110,7 @@ export function superfluidStiffness(model: LatticeModel, options: StiffnessOptio
         curvature: null,
         twistPerBond: null,
         converged: true,
+        localFraction: null,
       });
       continue;
     }
@@ -115,19 +145,29 @@ export function superfluidStiffness(model: LatticeModel, options: StiffnessOptio
     // reference: 2 sum_b J_b (n_i + n_j)/2 over the bonds along d
     let reference = 0;
     const b = untwisted.bonds;
+    const localFraction = new Float64Array(b.siteCount).fill(NaN);
+    const iPlusFine = bondCurrents(plusFine, d, h);
+    const iMinusFine = bondCurrents(minusFine, d, -h);
+    const iPlusCoarse = bondCurrents(plusCoarse, d, q);
+    const iMinusCoarse = bondCurrents(minusCoarse, d, -q);
     for (let k = 0; k < b.bondFrom.length; k++) {
       if (b.bondAxis[k] !== d) continue;
-      reference += b.bondHopping[k] * (untwisted.density[b.bondFrom[k]] + untwisted.density[b.bondTo[k]]);
+      const i = b.bondFrom[k];
+      const weight = b.bondHopping[k] * (untwisted.density[i] + untwisted.density[b.bondTo[k]]);
+      reference += weight;
+      const kFine = (iPlusFine[i] - iMinusFine[i]) / (2 * h);
+      const kCoarse = (iPlusCoarse[i] - iMinusCoarse[i]) / (2 * q);
+      if (weight > 0) localFraction[i] = (4 * kFine - kCoarse) / 3 / weight;
     }
     if (reference === 0) {
       // no hopping or no atoms on this axis: Omega does not depend on q at all, the stiffness is zero
-      axes.push({ axis: d, value: 0, error: 0, reason: null, curvature: 0, twistPerBond: q, converged: allConverged });
+      axes.push({ axis: d, value: 0, error: 0, reason: null, curvature: 0, twistPerBond: q, converged: allConverged, localFraction });
       continue;
     }
     const value = curvature / reference;
     const error = curvatureError / reference;
     const converged = allConverged && error <= agreement * Math.max(Math.abs(value), 1e-2);
-    axes.push({ axis: d, value, error, reason: null, curvature, twistPerBond: q, converged });
+    axes.push({ axis: d, value, error, reason: null, curvature, twistPerBond: q, converged, localFraction });
   }
   return { axes, untwisted, solves, sweeps };
 }
