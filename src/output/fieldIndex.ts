@@ -167,8 +167,8 @@ export function fieldEntries(input: FieldIndexInput): FieldEntry[] {
       unit: '1',
       dtype: 'float64',
       meaning:
-        `the bond's share of the twist curvature d^2 Omega/dq^2 along ${a} (the change of its current 2 J Im(e^{iq} phi_i^* phi_j) per unit twist) over J (n_i + n_j), ` +
-        'stored at the lower site (NaN where there is no bond or no atoms): where the superflow runs. The whole-lattice superfluid fraction is its mean weighted by J (n_i + n_j); ' +
+        `the bond's share of the twist curvature d^2 Omega/dq^2 along ${a} (the change of its current 2 J Im(e^{iq} phi_i^* phi_j) per unit twist) over the mean J (n_i + n_j) of the bonds along ${a}, ` +
+        'stored at the lower site (NaN where there is no bond): where the superflow runs. The whole-lattice superfluid fraction is its plain mean; ' +
         'a clean lattice gives |phi|^2/n on every bond, puddles without superflow ~0 however large their condensate',
     });
   }

@@ -195,6 +195,21 @@ export function solveImages(a: SolveArtifacts): WrittenImage[] {
   images.push(
     fieldPicture('images/condensate_plane.png', `Condensate density |phi_i|^2${planeLabel}`, condensate, `${name}: condensate |phi|²${planeLabel}`, 'atoms per site', 'glacier'),
   );
+  // solver.stiffness: where the superflow runs (the local superfluid fraction of each bond)
+  for (const x of a.stiffness?.axes ?? []) {
+    if (x.localFraction === null) continue;
+    const n = axisNames[x.axis];
+    images.push(
+      fieldPicture(
+        `images/superfluid_fraction_${n}_plane.png`,
+        `Local superfluid fraction of the bonds along ${n}${planeLabel}: each bond's share of the twist curvature over the mean J (n_i + n_j), at its lower site (the map's mean is the superfluid fraction); ~0 on puddles that hold a condensate but carry no superflow`,
+        centralPlane(x.localFraction, shape, centre),
+        `${name}: superflow along ${n}${planeLabel}`,
+        'local superfluid fraction',
+        'glacier',
+      ),
+    );
+  }
   const phase = centralPlane(a.classification.codes, shape, centre);
   const filling = centralPlane(a.classification.mottFilling, shape, centre);
   const phaseSvg = renderPhaseMapSvg({

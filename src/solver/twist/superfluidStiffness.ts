@@ -17,9 +17,11 @@
 // expectation of the current operator on bond b in the product state. Its central
 // difference K_b = (I_b(+q) - I_b(-q)) / 2q, Richardson-extrapolated like the energy, is the
 // bond's share of the curvature (sum_b K_b = d^2 Omega/dq^2 to the solver tolerance), and
-// f_b = K_b / (J_b (n_i + n_j)) its local superfluid fraction, stored at the bond's lower
-// site; f_s is the weighted mean of f_b with the weights J_b (n_i + n_j). In a clean lattice
-// every f_b = |phi|^2/n; puddles that carry no superflow show f_b ~ 0 even where phi is large.
+// f_b = K_b / <J (n_i + n_j)> its local superfluid fraction, stored at the bond's lower site,
+// with <.> the mean over the bonds along the axis, so f_s is the plain mean of f_b. (Dividing
+// by the bond's own J_b (n_i + n_j) would blow up on nearly empty bonds next to a puddle.)
+// In a clean lattice every f_b = |phi|^2/n; puddles that carry no superflow show f_b ~ 0
+// even where phi is large.
 //
 // An open axis has no boundary condition to twist: a uniform phase per bond is removed by
 // the gauge transformation phi_x -> e^{-i q x} phi_x, so Omega does not depend on it and the
@@ -43,7 +45,7 @@ export interface AxisStiffness {
   twistPerBond: number | null;
   /** all twisted solves converged and the two twist sizes agree within the tolerance */
   converged: boolean;
-  /** local superfluid fraction f_b of the bond from each site along this axis (NaN where there is no bond or no atoms on it), null on an axis without a twist */
+  /** local superfluid fraction f_b of the bond from each site along this axis (its curvature share over the mean J (n_i + n_j) of the axis' bonds, so value = mean of f_b; NaN where there is no bond), null on an axis without a twist */
   localFraction: Float64Array | null;
 }
 
@@ -146,6 +148,7 @@ export function superfluidStiffness(model: LatticeModel, options: StiffnessOptio
     let reference = 0;
     const b = untwisted.bonds;
     const localFraction = new Float64Array(b.siteCount).fill(NaN);
+    let bondsAlong = 0;
     const iPlusFine = bondCurrents(plusFine, d, h);
     const iMinusFine = bondCurrents(minusFine, d, -h);
     const iPlusCoarse = bondCurrents(plusCoarse, d, q);
@@ -153,12 +156,14 @@ export function superfluidStiffness(model: LatticeModel, options: StiffnessOptio
     for (let k = 0; k < b.bondFrom.length; k++) {
       if (b.bondAxis[k] !== d) continue;
       const i = b.bondFrom[k];
-      const weight = b.bondHopping[k] * (untwisted.density[i] + untwisted.density[b.bondTo[k]]);
-      reference += weight;
+      reference += b.bondHopping[k] * (untwisted.density[i] + untwisted.density[b.bondTo[k]]);
+      bondsAlong++;
       const kFine = (iPlusFine[i] - iMinusFine[i]) / (2 * h);
       const kCoarse = (iPlusCoarse[i] - iMinusCoarse[i]) / (2 * q);
-      if (weight > 0) localFraction[i] = (4 * kFine - kCoarse) / 3 / weight;
+      localFraction[i] = (4 * kFine - kCoarse) / 3; // the bond's curvature share, normalised below
     }
+    const meanWeight = reference / Math.max(1, bondsAlong);
+    for (let i = 0; i < localFraction.length; i++) if (!Number.isNaN(localFraction[i])) localFraction[i] = meanWeight > 0 ? localFraction[i] / meanWeight : 0;
     if (reference === 0) {
       // no hopping or no atoms on this axis: Omega does not depend on q at all, the stiffness is zero
       axes.push({ axis: d, value: 0, error: 0, reason: null, curvature: 0, twistPerBond: q, converged: allConverged, localFraction });
