@@ -20,7 +20,7 @@ import type { PreparedScenario } from './prepareScenario.js';
 import { readingWarningsOfSolve, type ReadingWarning } from '../observables/readingWarnings.js';
 import type { ResolvedScenario } from '../scenario/resolveScenario.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
-import { stiffnessReading, type StiffnessReading } from './solveStiffness.js';
+import { stiffnessOfSolve, type StiffnessReading } from './solveStiffness.js';
 
 /** Below this many sites the worker round trips cost more than they save. */
 export const PARALLEL_MIN_SITES = 8192;
@@ -171,14 +171,7 @@ export async function solveScenario(prepared: PreparedScenario, options: SolveOp
     },
   );
   const t3 = clock();
-  const stiffness =
-    scenario.solver.stiffness && !outcome.stopped
-      ? stiffnessReading(
-          outcome.model,
-          { mu: outcome.solve.mu, temperature: outcome.temperature, phi: outcome.state.fields.phi },
-          { tolerance: scenario.solver.tolerance, maxSweeps: scenario.solver.maxSweeps },
-        )
-      : null;
+  const stiffness = stiffnessOfSolve(scenario.solver, outcome);
   const t4 = stiffness !== null ? clock() : t3;
   return {
     scenario,

@@ -35,6 +35,19 @@ export function stiffnessTolerance(solveTolerance: number): number {
   return Math.min(solveTolerance, 1e-11);
 }
 
+/** The reading a solve asked for (solver.stiffness), from its outcome; null when off or stopped. */
+export function stiffnessOfSolve(
+  solver: { stiffness: boolean; tolerance: number; maxSweeps: number },
+  outcome: { stopped: boolean; model: LatticeModel; solve: { mu: number }; temperature: number; state: { fields: { phi: Float64Array } } },
+): StiffnessReading | null {
+  if (!solver.stiffness || outcome.stopped) return null;
+  return stiffnessReading(
+    outcome.model,
+    { mu: outcome.solve.mu, temperature: outcome.temperature, phi: outcome.state.fields.phi },
+    { tolerance: solver.tolerance, maxSweeps: solver.maxSweeps },
+  );
+}
+
 export function stiffnessReading(
   model: LatticeModel,
   solution: { mu: number; temperature: number; phi: Float64Array },

@@ -17,7 +17,7 @@ import { siteArraysOf } from '../../solver/siteArrays.js';
 import { defaultPhaseThresholds, type PhaseThresholds } from '../../observables/siteClassification.js';
 import { phaseNames } from '../../observables/phaseCodes.js';
 import { withRealisationSeed, realisationSeed } from './realisationSeed.js';
-import { stiffnessReading, type StiffnessReading } from '../solveStiffness.js';
+import { stiffnessOfSolve, type StiffnessReading } from '../solveStiffness.js';
 
 /** Mean superfluid fraction over the periodic axes with a reading and the largest error; nulls without one. */
 export function meanSuperfluidFraction(reading: StiffnessReading | null): { superfluidFraction: number | null; superfluidFractionError: number | null } {
@@ -124,14 +124,7 @@ export async function solveRealisation(
   const fields = siteFieldsFrom(siteArraysOf(outcome.state), outcome.compressibility);
   const classification = classifyOutcome(resolved, outcome, fields, false);
   // The same twisted solves `solve` runs (solveScenario.ts), from this realisation's solution.
-  const stiffness =
-    scenario.solver.stiffness && !outcome.stopped
-      ? stiffnessReading(
-          outcome.model,
-          { mu: outcome.solve.mu, temperature: outcome.temperature, phi: outcome.state.fields.phi },
-          { tolerance: scenario.solver.tolerance, maxSweeps: scenario.solver.maxSweeps },
-        )
-      : null;
+  const stiffness = stiffnessOfSolve(scenario.solver, outcome);
   const record: RealisationRecord = {
     index,
     converged: outcome.converged,
