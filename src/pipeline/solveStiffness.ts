@@ -30,6 +30,27 @@ export interface StiffnessReading {
 /** Superfluid fraction below this fraction of the condensate fraction: no superflow to speak of (common practice for a threshold of this kind; a scenario key if it ever needs tuning). */
 export const NO_SUPERFLOW_RATIO = 0.05;
 
+/** Mean superfluid fraction over the periodic axes with a reading and the largest error; nulls without one. */
+export function meanSuperfluidFraction(reading: StiffnessReading | null): { superfluidFraction: number | null; superfluidFractionError: number | null } {
+  const axes = (reading?.axes ?? []).filter((x) => x.value !== null);
+  if (axes.length === 0) return { superfluidFraction: null, superfluidFractionError: null };
+  let sum = 0;
+  let error = 0;
+  for (const x of axes) {
+    sum += x.value as number;
+    error = Math.max(error, (x.error as number | null) ?? 0);
+  }
+  return { superfluidFraction: sum / axes.length, superfluidFractionError: error };
+}
+
+/** Condensate fraction below which the no-superflow rule says nothing (no condensate to speak of). */
+export const NO_SUPERFLOW_CONDENSATE_FLOOR = 1e-3;
+
+/** The no-superflow rule: a condensate (fraction above the floor) whose superfluid fraction is below NO_SUPERFLOW_RATIO of it. */
+export function carriesNoSuperflow(condensateFraction: number, superfluidFraction: number): boolean {
+  return condensateFraction > NO_SUPERFLOW_CONDENSATE_FLOOR && superfluidFraction < NO_SUPERFLOW_RATIO * condensateFraction;
+}
+
 /** Tolerance of the twisted solves: the curvature divides Omega differences of order q^2 ~ 1e-4 per bond. */
 export function stiffnessTolerance(solveTolerance: number): number {
   return Math.min(solveTolerance, 1e-11);
@@ -77,7 +98,7 @@ export function stiffnessReading(
   // superflow look the same there. Say so when the twist finds (almost) none.
   const condensateFraction = u.atoms > 0 ? u.condensedAtoms / u.atoms : null;
   const measured = r.axes.filter((a) => a.value !== null && a.converged).map((a) => a.value as number);
-  if (condensateFraction !== null && condensateFraction > 1e-3 && measured.length > 0 && Math.max(...measured) < NO_SUPERFLOW_RATIO * condensateFraction) {
+  if (condensateFraction !== null && measured.length > 0 && carriesNoSuperflow(condensateFraction, Math.max(...measured))) {
     warnings.push({
       code: 'no-superflow',
       message:

@@ -12,10 +12,7 @@
 import { phaseNames, type PhaseName } from '../../observables/phaseCodes.js';
 import type { EnsembleAccumulation } from './blockPartial.js';
 import { sampleSpread, scalarSummary, type ScalarSummary } from '../../numerics/runningMoments.js';
-import { NO_SUPERFLOW_RATIO } from '../solveStiffness.js';
-
-/** Condensate fraction above which a realisation without superflow counts as puddles (the no-superflow warning's floor, solveStiffness.ts). */
-const CONDENSATE_FLOOR = 1e-3;
+import { carriesNoSuperflow } from '../solveStiffness.js';
 
 /**
  * The ensemble's superfluid fraction (solver.stiffness): mean and spread over the
@@ -73,10 +70,7 @@ function superfluidFractionOf(records: EnsembleAccumulation['records']): Ensembl
   const values = records.map((x) => x.superfluidFraction as number);
   const summary = scalarSummary(values);
   const r = records.length;
-  const puddles = records.filter((x) => {
-    const cf = x.atoms > 0 ? x.condensedAtoms / x.atoms : 0;
-    return cf > CONDENSATE_FLOOR && (x.superfluidFraction as number) < NO_SUPERFLOW_RATIO * cf;
-  }).length;
+  const puddles = records.filter((x) => carriesNoSuperflow(x.atoms > 0 ? x.condensedAtoms / x.atoms : 0, x.superfluidFraction as number)).length;
   const p = puddles / r;
   return {
     ...summary,

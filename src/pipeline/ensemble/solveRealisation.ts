@@ -17,20 +17,8 @@ import { siteArraysOf } from '../../solver/siteArrays.js';
 import { defaultPhaseThresholds, type PhaseThresholds } from '../../observables/siteClassification.js';
 import { phaseNames } from '../../observables/phaseCodes.js';
 import { withRealisationSeed, realisationSeed } from './realisationSeed.js';
-import { stiffnessOfSolve, type StiffnessReading } from '../solveStiffness.js';
+import { meanSuperfluidFraction, stiffnessOfSolve } from '../solveStiffness.js';
 
-/** Mean superfluid fraction over the periodic axes with a reading and the largest error; nulls without one. */
-export function meanSuperfluidFraction(reading: StiffnessReading | null): { superfluidFraction: number | null; superfluidFractionError: number | null } {
-  const axes = (reading?.axes ?? []).filter((x) => x.value !== null);
-  if (axes.length === 0) return { superfluidFraction: null, superfluidFractionError: null };
-  let sum = 0;
-  let error = 0;
-  for (const x of axes) {
-    sum += x.value as number;
-    error = Math.max(error, (x.error as number | null) ?? 0);
-  }
-  return { superfluidFraction: sum / axes.length, superfluidFractionError: error };
-}
 
 /** Scalars of one realisation (one row of realisations.csv). */
 export interface RealisationRecord {

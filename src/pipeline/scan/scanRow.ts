@@ -10,6 +10,7 @@ import { energyParser } from '../../scenario/resolveScenario.js';
 import { phaseNames } from '../../observables/phaseCodes.js';
 import { characteristicDensityOf, characteristicLengthOf } from './scanPoint.js';
 import { STIFFNESS_PHASES, stiffnessPhase, type StiffnessPhase } from './stiffnessPhase.js';
+import { meanSuperfluidFraction } from '../solveStiffness.js';
 
 export interface ShellRadii {
   filling: number;
@@ -136,7 +137,7 @@ function uniformFilling(density: ArrayLike<number>): boolean {
 
 /** Mean compressibility per site (1/U), the stiffness label and its one-realisation shares. */
 function stiffnessReadingOf(a: SolveArtifacts): Pick<ScanRow, 'compressibilityPerSite' | 'stiffnessPhase' | 'realisations' | 'superfluidFractionSpread' | 'phaseShares'> {
-  const u = a.resolved.units.interaction as number;
+  const u = a.resolved.units.interaction;
   const k = a.outcome.compressibility;
   let sum = 0;
   if (k !== null) for (let i = 0; i < k.length; i++) sum += k[i];
@@ -159,15 +160,8 @@ function stiffnessReadingOf(a: SolveArtifacts): Pick<ScanRow, 'compressibilityPe
   };
 }
 
-/** Mean superfluid fraction over the periodic axes and the largest error; NaN without a reading. */
+/** Mean superfluid fraction over the periodic axes and the largest error (meanSuperfluidFraction); NaN without a reading. */
 function superfluidFractionOf(a: SolveArtifacts): { superfluidFraction: number; superfluidFractionError: number } {
-  const axes = (a.stiffness?.axes ?? []).filter((x) => x.value !== null);
-  if (axes.length === 0) return { superfluidFraction: NaN, superfluidFractionError: NaN };
-  let sum = 0;
-  let error = 0;
-  for (const x of axes) {
-    sum += x.value as number;
-    error = Math.max(error, x.error as number);
-  }
-  return { superfluidFraction: sum / axes.length, superfluidFractionError: error };
+  const m = meanSuperfluidFraction(a.stiffness);
+  return { superfluidFraction: m.superfluidFraction ?? NaN, superfluidFractionError: m.superfluidFractionError ?? NaN };
 }
