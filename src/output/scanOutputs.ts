@@ -100,7 +100,7 @@ export function scanColumns(o: Pick<ScanOutcome, 'plan' | 'rows' | 'energyUnit' 
       name: 'stiffness_phase',
       unit: 'code',
       description:
-        `the lattice's phase by the stiffness criterion (Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989)), the label most realisations carry: ${PhaseCode.mott} Mott insulator (compressibility_per_site below ${MOTT_COMPRESSIBILITY_MAX} at T = 0), ` +
+        `the lattice's phase by the stiffness criterion (Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989)), the label most realisations carry: ${PhaseCode.mott} Mott insulator (every site at one integer filling and compressibility_per_site below ${MOTT_COMPRESSIBILITY_MAX} at T = 0), ` +
         `${PhaseCode.superfluid} superfluid (superfluid_fraction at least ${SUPERFLUID_FRACTION_MIN}), ${PhaseCode.boseGlass} Bose glass (compressible, below it), ${PhaseCode.normalFluid} normal fluid (the same at T > 0), ${PhaseCode.empty} empty; ` +
         'nan without the compressibility or the superfluid fraction (solver.stiffness on a periodic axis). Both thresholds are our choice',
     },
@@ -366,7 +366,7 @@ function disorderPhaseMap(o: ScanOutcome, xAxis: GridAxis, yAxis: GridAxis, map:
     figureImage(
       'images/scan_map_disorder_phases.png',
       `Mott insulator, Bose glass and superfluid over ${o.plan.axes[0].path} and ${o.plan.axes[1].path} by the stiffness criterion ` +
-        `(incompressible: Mott; superfluid fraction at least ${SUPERFLUID_FRACTION_MIN}: superfluid; else Bose glass; thresholds of our choice)` +
+        `(one filling and incompressible: Mott; superfluid fraction at least ${SUPERFLUID_FRACTION_MIN}: superfluid; else Bose glass; thresholds of our choice)` +
         (r > 1 ? `, with the agreement and the spread of ${r} disorder realisations` : ''),
       sideBySideSvg(panels, 'Disorder phase map'),
     ),
