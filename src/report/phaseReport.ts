@@ -11,6 +11,7 @@ import type { SiteClassification } from '../observables/siteClassification.js';
 import type { ShellSummary } from '../observables/shellSummary.js';
 
 import type { StatusLine } from './reportModel.js';
+import { shellRadiusNote, type RadialFrame } from '../observables/radialFrame.js';
 
 export interface PhaseReportInput {
   classification: SiteClassification;
@@ -19,6 +20,8 @@ export interface PhaseReportInput {
   latticeSpacingUm: number | null;
   /** U in the energy unit of kT (for kT/U) */
   interaction: number;
+  /** what the radii measure (radialFrame.ts); 'none' leaves them out */
+  radialFrame: RadialFrame;
 }
 
 const pct = (x: number): string => `${(100 * x).toPrecision(2)} %`;
@@ -31,14 +34,15 @@ export function phaseReportBlocks(input: PhaseReportInput): ReportBlock[] {
   const thermal = c.temperature > 0;
   const statsByFilling = new Map(c.shellStatistics.map((s) => [s.filling, s]));
 
+  const withRadii = input.radialFrame !== 'none';
   const shellRows: CellValue[][] = shells.shells.map((s) => {
     const st = statsByFilling.get(s.filling);
     return [
       `n = ${s.filling}`,
       s.sites,
       s.atoms,
-      s.innerRadius * scale,
-      s.outerRadius * scale,
+      withRadii ? s.innerRadius * scale : null,
+      withRadii ? s.outerRadius * scale : null,
       st ? st.meanCondensateFraction : null,
       st ? st.maxCondensateFraction : null,
       st ? st.coherentSites : null,
@@ -48,7 +52,7 @@ export function phaseReportBlocks(input: PhaseReportInput): ReportBlock[] {
     {
       kind: 'table',
       caption:
-        'Mott shells: the sites labelled Mott insulator of each filling. Radii are where the shell fills half of an annulus of the trap-scaled radius (a central shell starts at 0). ' +
+        `Mott shells: the sites labelled Mott insulator of each filling. ${shellRadiusNote(input.radialFrame)} ` +
         'Proximity-induced coherence: the condensate fraction |φ|²/n that the neighbouring superfluid induces inside the shell (mean, largest) and the shell sites with |φ|² above ' +
         `${c.thresholds.condensateMin}; it is reported, not used to erase the shell.`,
       columns: [

@@ -7,6 +7,7 @@ import { cautionsFor } from './cautions.js';
 import { inAllUnits } from '../scenario/resolveScenario.js';
 import { fractionOfAtoms } from '../observables/readingWarnings.js';
 import type { RunWarning } from '../pipeline/runWarnings.js';
+import { radialFrame, radiusLabel } from '../observables/radialFrame.js';
 import { phaseReportBlocks, warningStatusLines } from './phaseReport.js';
 import type { SolveArtifacts } from '../pipeline/solveScenario.js';
 import type { WrittenImage } from '../output/solveOutputs.js';
@@ -152,10 +153,10 @@ export function buildSolveReport(
   ];
 
   const radiusX = Array.from(profile.meanRadius, (r) => (spacing !== null ? r * spacing : r));
-  const radiusLabel = spacing !== null ? 'trap-scaled radius' : 'trap-scaled radius';
+  const frame = radialFrame(resolved.trapCoefficient, resolved.geometry.periodic);
   const radiusUnit = spacing !== null ? 'µm' : 'sites';
   const valid = (arr: ArrayLike<number>) => Array.from(arr, (v, i) => (profile.count[i] > 0 ? v : NaN));
-  const shellMarkers = shells.shells.flatMap((s) => [
+  const shellMarkers = frame === 'none' ? [] : shells.shells.flatMap((s) => [
     ...(s.innerRadius > 0 ? [{ at: (spacing ?? 1) * s.innerRadius, label: `n=${s.filling} inner` }] : []),
     { at: (spacing ?? 1) * s.outerRadius, label: `n=${s.filling} outer` },
   ]);
@@ -163,8 +164,10 @@ export function buildSolveReport(
     {
       kind: 'linePlot',
       title: 'Radial profiles',
-      caption: 'Mean over each annular bin; error bars show the spread of sites in the bin. Vertical lines: edges of the Mott shells (where a shell fills half of an annulus).',
-      xAxis: { label: radiusLabel, unit: radiusUnit },
+      caption:
+        'Mean over each annular bin; error bars show the spread of sites in the bin.' +
+        (frame === 'none' ? ' No trap and every axis periodic: the lattice has no centre, so these bins only sort the sites by where the lattice was cut.' : ' Vertical lines: edges of the Mott shells (where a shell fills half of an annulus).'),
+      xAxis: { label: radiusLabel(frame), unit: radiusUnit },
       yAxis: { label: 'atoms per site' },
       series: [
         { label: 'density n', x: radiusX, y: valid(profile.fields.density.mean), yErr: valid(profile.fields.density.std) },
@@ -220,7 +223,7 @@ export function buildSolveReport(
       { heading: 'Profiles', blocks: profileBlocks },
       {
         heading: 'Shells and phases',
-        blocks: phaseReportBlocks({ classification, shells, latticeSpacingUm: spacing, interaction: resolved.units.interaction }),
+        blocks: phaseReportBlocks({ classification, shells, latticeSpacingUm: spacing, interaction: resolved.units.interaction, radialFrame: frame }),
       },
       {
         heading: 'Convergence',

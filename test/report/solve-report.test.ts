@@ -104,3 +104,34 @@ describe('solve report: warnings on top, empty cloud', () => {
     expect(empty.doc.status.find((s) => s.text.includes('empty-cloud'))!.level).toBe('error');
   });
 });
+
+// What a radius means depends on the lattice (src/observables/radialFrame.ts). Mott lobe at
+// mu = U/2 with J = 0.01 U (zJ/U = 0.04 < zJ_c/U = 0.172 for n = 1 in 2D, van Oosten, van der
+// Straten & Stoof, PRA 63, 053601 (2001)): without a trap the whole lattice is one n = 1 shell.
+describe('solve report: radii only where a centre exists', () => {
+  it('a trapped cloud reads the trap-scaled radius; an open untrapped box reads the distance from the lattice centre', async () => {
+    const trapped = await report(scenario('frame-trap', { lattice: { shape: [16, 16] }, hubbard: { hopping: 0.01 }, trap: { coefficient: 0.004 }, particles: { chemicalPotential: 0.5 } }));
+    const open = await report(scenario('frame-open', { lattice: { shape: [16, 16] }, hubbard: { hopping: 0.01 }, particles: { chemicalPotential: 0.5 } }));
+    const caption = (d: ReportDocument) => (section(d, 'Shells and phases').blocks[0] as TableBlock).caption ?? '';
+    expect(caption(trapped.doc)).toMatch(/trap-scaled radius/);
+    expect(trapped.html).toMatch(/trap-scaled radius/);
+    expect(caption(open.doc)).toMatch(/no trap: radii are distances from the lattice centre/i);
+    expect(open.html).not.toMatch(/trap-scaled radius/);
+    const row = (section(open.doc, 'Shells and phases').blocks[0] as TableBlock).rows[0];
+    expect(row[0]).toBe('n = 1');
+    expect(row[1]).toBe(256); // every site in the n = 1 shell
+    expect(row[3]).toBe(0);
+  });
+
+  it('a periodic lattice without a trap has no centre: the shell is listed without radii', async () => {
+    const torus = await report(scenario('frame-torus', { lattice: { shape: [16, 16], boundary: 'periodic' }, hubbard: { hopping: 0.01 }, particles: { chemicalPotential: 0.5 } }));
+    const table = section(torus.doc, 'Shells and phases').blocks[0] as TableBlock;
+    expect(table.rows[0][0]).toBe('n = 1');
+    expect(table.rows[0][1]).toBe(256);
+    expect(table.rows[0][3]).toBeNull();
+    expect(table.rows[0][4]).toBeNull();
+    expect(table.caption).toMatch(/no centre/);
+    expect(torus.html).not.toMatch(/trap-scaled radius/);
+    expect(torus.html).not.toMatch(/n=1 outer/);
+  });
+});
