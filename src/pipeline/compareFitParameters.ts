@@ -72,6 +72,11 @@ export function selectFitParameters(list: readonly (FitParameterName | FitParame
     if (lower !== undefined && upper !== undefined && !(lower < upper)) {
       throw new InputError(`--fit: the bounds of ${request.name} must be lower:upper with lower < upper, got ${lower}:${upper}`);
     }
+    // A bound must be a number (an infinite one is the same as none); a one-sided NaN would pass
+    // every comparison of the fit and silently remove the bound.
+    for (const [side, value] of [['lower', lower], ['upper', upper]] as const) {
+      if (value !== undefined && Number.isNaN(value)) throw new InputError(`--fit: the ${side} bound of ${request.name} is not a number; give a number or leave it out (${request.name}=lower:upper)`);
+    }
     if (lower !== undefined || upper !== undefined) {
       if (request.name === 'entropy') {
         throw new InputError('--fit: entropy is fitted through the temperature and takes no bounds of its own; bound the temperature instead (temperature=lower:upper)');

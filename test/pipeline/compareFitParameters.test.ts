@@ -60,6 +60,11 @@ describe('selectFitParameters', () => {
       expect(e.message).toContain('lower < upper');
       expect(e.message).toContain(`${lower}:${upper}`);
     }
+    // One-sided NaN: no order to check, so it is refused on its own (it would remove the bound).
+    for (const bounds of [{ lower: NaN }, { upper: NaN }]) {
+      const e = refusal(() => selectFitParameters([{ name: 'trap', ...bounds }]));
+      expect(e.message).toMatch(/(lower|upper) bound of trap is not a number/);
+    }
     for (const bounds of [{ lower: 0.1 }, { upper: 2 }, { lower: 0.1, upper: 2 }]) {
       const e = refusal(() => selectFitParameters([{ name: 'entropy', ...bounds }]));
       expect(e.message).toMatch(/entropy .*no bounds of its own.*temperature=lower:upper/);
