@@ -1,7 +1,9 @@
 // Scan rows (src/pipeline/scan/scanRow.ts) as JSON, for the partial results a scan keeps
 // while it runs (scanWork.ts) and the shards it writes for `tiercake merge` (scanShard.ts).
 // JSON numbers are written by ECMAScript Number::toString, the shortest decimal that reads
-// back as the same double, so every row survives the round trip bit for bit. JSON has no
+// back as the same double, so every row survives the round trip bit for bit, with one
+// exception: -0 is written as 0 (JSON.stringify drops the sign of a zero). A merged scan still
+// equals a single run, which goes through the same records, and no reading tells -0 from 0. JSON has no
 // NaN: readings that are undefined at a point (a characteristic density without a trap,
 // the condensate fraction of an empty lattice) are written as null and read back as NaN.
 
