@@ -4,7 +4,7 @@
 // what is known about its noise: either the per-pixel variance of the imaging noise
 // (absorption imaging) or the detected counts per atom of a Poisson counts picture.
 // Pure: built from plain arrays; the files are read and processed before
-// (src/cli/cameraFrames.ts, src/pipeline/measuredShots.ts).
+// (src/imaging/camera/frameSources.ts, src/pipeline/measuredShots.ts).
 
 import type { PixelImage, PixelMask } from './camera/pixelImage.js';
 import { cameraMaskToPlanar, cameraToPlanar } from './cameraConvention.js';

@@ -1,5 +1,5 @@
 // From the raw frames of one or more shots to the measured picture the compare fit takes,
-// in memory (the files are read by src/cli/cameraFrames.ts). Per shot, in this order:
+// in memory (the files are read by src/imaging/camera/frameSources.ts). Per shot, in this order:
 //
 // 1. hot and dead pixels replaced on every raw frame (removeHotPixels, 10 MAD);
 // 2. atoms per pixel and their imaging-noise variance:

@@ -14,7 +14,7 @@ import { validateScenario } from '../../src/scenario/loadScenario.js';
 import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { solveScenario } from '../../src/pipeline/solveScenario.js';
 import { solvePictures } from '../../src/pipeline/solvePictures.js';
-import { readSidecar } from '../../src/cli/measuredImageFile.js';
+import { readSidecar } from '../../src/imaging/camera/pictureSidecar.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tiercake-length-keys-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));

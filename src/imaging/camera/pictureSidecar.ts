@@ -1,6 +1,6 @@
 // The scale of tiercake's own pictures, read from the JSON sidecar next to them (used by
-// `compare` when --counts-per-atom or the pixel size is missing). The frames themselves are read
-// by cameraFrames.ts.
+// `compare` when --counts-per-atom or the pixel size is missing; the sidecar is written by
+// src/output/pictureFiles.ts). The frames themselves are read by frameSources.ts.
 //
 // What a sidecar gives: the 16-bit PNG stores grey levels, atoms = grey x atomsPerGreyLevel,
 // so its counts per atom are 1 / atomsPerGreyLevel; the float .npy of the same picture holds

@@ -1,7 +1,9 @@
 // Reading the camera frames `compare` is pointed at: files, HDF5 datasets, lists and
-// folders, each decoded by the camera core's readers (src/imaging/camera/readFrames.ts:
-// TIFF, HDF5, FITS, .npy, PNG, told apart by their first bytes) in the camera convention
-// a[row, col], row 0 at the top. Every problem is an InputError naming the option.
+// folders, each decoded by the camera core's readers (readFrames.ts: TIFF, HDF5, FITS, .npy,
+// PNG, told apart by their first bytes) in the camera convention a[row, col], row 0 at the
+// top. This file and pictureSidecar.ts are the only ones of the camera core that touch the
+// file system; the decoders stay bytes in, frames out. Every problem is an InputError naming
+// the option it is given (the caller passes the option's name).
 //
 // A source is written as
 //   frames.tif            a file: every frame (page, plane) of it, in file order;
@@ -13,12 +15,12 @@
 
 import { closeSync, openSync, readdirSync, readFileSync, readSync, statSync } from 'node:fs';
 import { basename, join } from 'node:path';
-import { detectFrameFormat, readFrames } from '../imaging/camera/readFrames.js';
-import { FrameReadError } from '../imaging/camera/frameReadError.js';
-import { parseFrameAddress } from '../imaging/camera/frameAddress.js';
-import type { FrameStack } from '../imaging/camera/frameStack.js';
-import type { PixelImage } from '../imaging/camera/pixelImage.js';
-import { InputError } from '../scenario/inputError.js';
+import { detectFrameFormat, readFrames } from './readFrames.js';
+import { FrameReadError } from './frameReadError.js';
+import { parseFrameAddress } from './frameAddress.js';
+import type { FrameStack } from './frameStack.js';
+import type { PixelImage } from './pixelImage.js';
+import { InputError } from '../../scenario/inputError.js';
 
 /** Largest file read (a 16k x 16k float64 frame is 2 GiB; camera frames and stacks are far smaller). */
 const MAX_FILE_BYTES = 1 << 30;
