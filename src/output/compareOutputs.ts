@@ -9,7 +9,7 @@
 // staged in one output folder. Writers only: every number comes from the fit
 // (src/pipeline/compareFit.ts) or what was read off the pictures.
 
-import { basename } from 'node:path';
+import { sourceShortName } from '../imaging/camera/frameAddress.js';
 import { encodeNpy } from '../formats/npy.js';
 import { renderLinePlotSvg } from '../figures/linePlotSvg.js';
 import { sideBySideSvg } from '../figures/composeSvg.js';
@@ -146,7 +146,7 @@ export function comparePictures(c: CompareFit, provenance: CompareProvenance, ph
   if (eosSvg !== null) images.push(figureImage('images/equation_of_state.png', 'Equation of state: measured n(mu_local) beside the homogeneous mean field at the fitted temperature', eosSvg));
   const thermometrySvg = physics !== undefined ? thermometryFigure(c, physics.thermometry) : null;
   if (thermometrySvg !== null) images.push(figureImage('images/thermometry.png', 'Fluctuation thermometry: kT per radial bin, the combined value and the fitted one', thermometrySvg));
-  const source = basename(provenance.imagePath);
+  const source = sourceShortName(provenance.imagePath);
   const pictures: PictureFiles[] = [
     pictureFiles(measuredPicture, {
       name: 'measured',

@@ -6,6 +6,7 @@
 // the scenario as given. Builds the document model only (reportModel.ts); renderReport.ts
 // turns it into HTML.
 
+import { sourceShortName } from '../imaging/camera/frameAddress.js';
 import type { CompareFit } from '../pipeline/compareFit.js';
 import type { EquationOfStateReading } from '../pipeline/compareEquationOfState.js';
 import type { ThermometryReading } from '../pipeline/compareThermometry.js';
@@ -21,11 +22,6 @@ export interface CompareReportInputs {
   provenance?: CompareProvenance;
   eos?: EquationOfStateReading;
   thermometry?: ThermometryReading;
-}
-
-function baseName(path: string): string {
-  const parts = path.split(/[\\/]/);
-  return parts[parts.length - 1] ?? path;
 }
 
 const serious = new Set(['solve-not-converged']);
@@ -107,7 +103,7 @@ function thermometryBlocks(t: ThermometryReading | undefined, figure: ReportBloc
     {
       kind: 'keyValueTable',
       rows: [
-        { label: 'kT from the fluctuations', value: t.kT, unit: t.energyUnit, secondValue: t.kTUncertainty, secondUnit: t.energyUnit, note: `${t.usableBins} bins of ${t.binSites.toPrecision(3)} sites, ${t.shotCount} shots` },
+        { label: 'kT from the fluctuations', value: t.kT, unit: t.energyUnit, secondValue: t.kTUncertainty, secondUnit: t.energyUnit, note: t.usableBins > 0 ? `${t.usableBins} bins of ${t.binSites.toPrecision(3)} sites, ${t.shotCount} shots` : `no temperature: no radial bin of ${t.binSites.toPrecision(3)} sites was usable (${t.shotCount} shots)` },
         { label: 'kT from the fit', value: t.fittedKT, unit: t.energyUnit },
         { label: 'consistency of the bins', value: t.chiSquare, note: `chi-square for ${t.degreesOfFreedom} degrees of freedom` },
       ],
@@ -120,7 +116,7 @@ function thermometryBlocks(t: ThermometryReading | undefined, figure: ReportBloc
 export function buildCompareReport(c: CompareFit, inputs: CompareReportInputs): ReportDocument {
   const { scenario, raw } = c.prepared;
   const unit = c.optics.lengthUnit;
-  const image = baseName(inputs.imagePath);
+  const image = sourceShortName(inputs.imagePath);
   const figure = (file: string, caption?: string): ReportBlock | undefined => {
     const img = inputs.images.find((i) => i.file === file);
     return img === undefined ? undefined : { kind: 'figure', svg: img.svg, caption: caption ?? img.title };

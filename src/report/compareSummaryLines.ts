@@ -4,6 +4,7 @@
 // caution of plain Beer-Lambert, the fluctuation thermometry of a stack, and where the
 // results are. Pure text; the command writes it.
 
+import { sourceShortName } from '../imaging/camera/frameAddress.js';
 import type { CompareFit } from '../pipeline/compareFit.js';
 import type { ThermometryReading } from '../pipeline/compareThermometry.js';
 import type { MeasurementSettings } from '../pipeline/measuredShots.js';
@@ -24,11 +25,17 @@ export function compareSummaryLines(s: CompareSummaryInput): string[] {
   const shown = (r: (typeof result.parameters)[number]) =>
     `  ${r.name} = ${r.best.toPrecision(6)} ± ${r.uncertainty.toPrecision(2)}${r.bootstrapUncertainty !== null ? ` (bootstrap ± ${r.bootstrapUncertainty.toPrecision(2)})` : ''}${r.name === 'atoms' ? '' : ` ${r.unit}`}`;
   return [
-    `${s.scenarioName}: compared with ${s.imagePath.split('/').pop()} (${result.fit.converged ? 'fit converged' : 'fit NOT converged'}, ${result.fit.solves} solves)`,
+    `${s.scenarioName}: compared with ${sourceShortName(s.imagePath)} (${result.fit.converged ? 'fit converged' : 'fit NOT converged'}, ${result.fit.solves} solves)`,
     ...result.parameters.map(shown),
     `  reduced chi-square ${result.fit.reducedChiSquare.toPrecision(4)} (${result.fit.degreesOfFreedom} degrees of freedom, ${result.fit.chiSquarePixels === 'signal' ? 'pixels above the noise' : 'all used pixels'})`,
     ...(measurement.kind === 'absorption' && measurement.saturationCounts === undefined ? ['  plain Beer-Lambert (no --saturation-counts): atom numbers are low unless the probe is far below saturation'] : []),
-    ...(thermometry.available ? [`  fluctuation thermometry: kT = ${thermometry.kT.toPrecision(4)} ± ${thermometry.kTUncertainty.toPrecision(2)} ${thermometry.energyUnit} (${thermometry.usableBins} bins, ${thermometry.shotCount} shots)`] : []),
+    ...(thermometry.available
+      ? [
+          thermometry.usableBins > 0
+            ? `  fluctuation thermometry: kT = ${thermometry.kT.toPrecision(4)} ± ${thermometry.kTUncertainty.toPrecision(2)} ${thermometry.energyUnit} (${thermometry.usableBins} bins, ${thermometry.shotCount} shots)`
+            : `  fluctuation thermometry: no temperature, no radial bin was usable (${thermometry.shotCount} shots; warning no-usable-bins)`,
+        ]
+      : []),
     `  results in ${s.outPath}`,
   ];
 }

@@ -64,4 +64,14 @@ describe('compareSummaryLines', () => {
     const saturated = compareSummaryLines({ ...base, measurement: { kind: 'absorption', crossSection: 0.29, crossSectionSource: 'test', saturationCounts: 3000 } });
     expect(saturated.some((l) => l.includes('Beer-Lambert'))).toBe(false);
   });
+  it('says there is no temperature when no bin was usable, instead of printing NaN', () => {
+    const thermometry = { available: true, kT: NaN, kTUncertainty: NaN, energyUnit: 'U', usableBins: 0, shotCount: 12 } as ThermometryReading;
+    const lines = compareSummaryLines({ ...base, thermometry });
+    expect(lines).toContain('  fluctuation thermometry: no temperature, no radial bin was usable (12 shots; warning no-usable-bins)');
+    expect(lines.join('\n')).not.toMatch(/NaN/);
+  });
+  it('names raw absorption frames by the frames with atoms first, not by the last path', () => {
+    const lines = compareSummaryLines({ ...base, imagePath: 'run7/atoms.npy,run7/probe.npy,run7/dark.npy' });
+    expect(lines[0]).toBe('rb-layer: compared with atoms.npy, probe.npy, dark.npy (fit converged, 17 solves)');
+  });
 });

@@ -20,3 +20,22 @@ export function parseFrameAddress(text: string): FrameAddress {
   const dataset = text.slice(cut + 1);
   return dataset.length > 1 ? { file: text.slice(0, cut), dataset } : { file: text.slice(0, cut) };
 }
+
+/**
+ * The short name of a measured source as given (--image, --absorption-frames or --shots):
+ * the base name of each comma-separated item, in order, so raw absorption frames read
+ * "atoms.npy, probe.npy" (the frames with atoms first) rather than the last path's name.
+ */
+export function sourceShortName(text: string): string {
+  return text
+    .split(',')
+    .map((item) => item.trim())
+    .filter((item) => item.length > 0)
+    .map((item) => {
+      const parts = item.split(/[\\/]/);
+      const last = parts[parts.length - 1];
+      // A folder given with a trailing slash keeps its own name.
+      return last !== undefined && last.length > 0 ? last : (parts[parts.length - 2] ?? item);
+    })
+    .join(', ');
+}
