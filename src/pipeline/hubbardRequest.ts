@@ -26,10 +26,10 @@ export interface HubbardRequest {
   depthsEr: number[];
   axes: 1 | 2 | 3;
   /** trap frequency (Hz) of every axis without a lattice; required below 3 axes */
-  confinementHz?: number;
+  confinementHz?: number | undefined;
   /** beam power (W) and waist (µm) of the depth estimate; the waist is required with a power */
-  powerW?: number;
-  waistUm?: number;
+  powerW?: number | undefined;
+  waistUm?: number | undefined;
 }
 
 export interface HubbardResult {

@@ -6,7 +6,7 @@ import { laserSafetyCaution } from '../physics/dipolePotential.js';
 import { formatHubbardTable } from '../pipeline/hubbardTable.js';
 import type { HubbardResult } from '../pipeline/hubbardRequest.js';
 
-export function hubbardSummaryText(result: HubbardResult, beam: { powerW?: number; waistUm?: number }): { text: string; caution: string } {
+export function hubbardSummaryText(result: HubbardResult, beam: { powerW?: number | undefined; waistUm?: number | undefined }): { text: string; caution: string } {
   let text = formatHubbardTable(result.rows);
   const power = result.power;
   if (power) {

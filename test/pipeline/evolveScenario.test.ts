@@ -14,7 +14,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { evolveMemoryBytes, evolveScenario } from '../../src/pipeline/evolveScenario.js';
+import { evolveMemoryBytes, evolveScenario, requireEvolutionSection } from '../../src/pipeline/evolveScenario.js';
 import { prepareScenario } from '../../src/pipeline/prepareScenario.js';
 import { InputError } from '../../src/scenario/inputError.js';
 
@@ -112,6 +112,9 @@ describe('evolveScenario', () => {
     await expect(evolveScenario(prepared('big2', base), { threads: 1, memoryLimitBytes: need - 1 })).rejects.toThrow(/^lattice\.shape: the evolution of 9 sites at nmax = 6/);
     const fits = await evolveScenario(prepared('fits', base), { threads: 1, memoryLimitBytes: need });
     expect(fits.status).toBe('done');
+    const { evolution: _, ...still } = base;
+    expect(() => requireEvolutionSection(prepared('none', still), 'x.json')).toThrow(/^evolution: x\.json has no "evolution" section/);
+    expect(() => requireEvolutionSection(prepared('some', base), 'x.json')).not.toThrow();
   });
 
   it('with a spectrum section (frequencies from the options) the loaded cloud is scanned at those frequencies', async () => {

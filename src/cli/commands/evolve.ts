@@ -9,7 +9,8 @@ import { dirname, resolve } from 'node:path';
 import { writeEvolveFolder } from '../../output/evolveFolder.js';
 import { evolveSummaryLines } from '../../report/evolveSummaryLines.js';
 import { prepareScenario } from '../../pipeline/prepareScenario.js';
-import { evolveScenario, type EvolveProgress } from '../../pipeline/evolveScenario.js';
+import { evolveScenario, requireEvolutionSection, type EvolveProgress } from '../../pipeline/evolveScenario.js';
+import { modulationFrequencyGrid } from '../../pipeline/evolutionPlan.js';
 import { EvolutionInterrupted } from '../../pipeline/interruptibleRunner.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
@@ -41,10 +42,7 @@ export function parseModulationFrequencies(text: string): number[] {
   if (parts.length !== 3) throw new InputError(`--modulation-frequencies: expected from:to:count or one frequency, got ${JSON.stringify(text)}`);
   const from = parseReal(parts[0], '--modulation-frequencies (from)', frequencyRange);
   const to = parseReal(parts[1], '--modulation-frequencies (to)', frequencyRange);
-  const count = parseInteger(parts[2], '--modulation-frequencies (count)', { min: 1, max: 2000 });
-  if (!(to >= from)) throw new InputError(`--modulation-frequencies: expected from <= to, got ${from} and ${to}`);
-  if (count === 1 && to !== from) throw new InputError('--modulation-frequencies: one frequency needs from = to (or give it alone)');
-  return Array.from({ length: count }, (_, k) => (count === 1 ? from : from + ((to - from) * k) / (count - 1)));
+  return modulationFrequencyGrid(from, to, parseInteger(parts[2], '--modulation-frequencies (count)', { min: 1, max: 2000 }));
 }
 
 function evolveObserver(progress: ProgressReporter): (p: EvolveProgress) => void {
@@ -69,9 +67,7 @@ export async function runEvolveCommand(scenarioPath: string, raw: RawOptions): P
   const threads = o.threads ?? defaultThreads();
   const modulationFrequencies = o.modulationFrequencies !== undefined ? parseModulationFrequencies(o.modulationFrequencies) : undefined;
   const prepared = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
-  if (!prepared.scenario.evolution) {
-    throw new InputError(`evolution: ${scenarioPath} has no "evolution" section; add one with at least "duration" (and "ramps"), e.g. --set 'evolution={"duration": 10}'`);
-  }
+  requireEvolutionSection(prepared, scenarioPath);
   const outDir = resolve(o.out ?? `out/${prepared.scenario.name}-evolve`);
   const target = outputTarget(o.out ?? outDir, { force: o.force ?? false, inputs: [scenarioPath] });
   const progress = progressFor(o);

@@ -41,7 +41,7 @@ export async function runHubbard(raw: RawOptions): Promise<number> {
     const count = parseInteger(parts[2], '--depth (count)', { min: 2, max: 1000 });
     depths = depthRangeEr(parseReal(parts[0], '--depth (from)', depthRange), parseReal(parts[1], '--depth (to)', depthRange), count);
   } else throw new InputError(`--depth: expected one depth or from:to:count, got ${JSON.stringify(o.depth)}`);
-  const request = { species, wavelengthNm: o.wavelengthNm, depthsEr: depths, axes: (o.axes ?? 3) as 1 | 2 | 3, ...pick(o, ['confinementHz', 'powerW', 'waistUm']) };
+  const request = { species, wavelengthNm: o.wavelengthNm, depthsEr: depths, axes: (o.axes ?? 3) as 1 | 2 | 3, confinementHz: o.confinementHz, powerW: o.powerW, waistUm: o.waistUm };
   checkHubbardRequest(request);
   const target = o.out !== undefined ? outputTarget(o.out, { force: o.force ?? false }) : null;
   const result = runHubbardRequest(request);
@@ -53,11 +53,4 @@ export async function runHubbard(raw: RawOptions): Promise<number> {
     process.stdout.write(`written to ${target.path}\n`);
   }
   return ExitCode.done;
-}
-
-/** The keys of `o` that are set (exactOptionalPropertyTypes: no undefined values). */
-function pick<T extends object, K extends keyof T>(o: T, keys: readonly K[]): Partial<Pick<T, K>> {
-  const out: Partial<Pick<T, K>> = {};
-  for (const k of keys) if (o[k] !== undefined) out[k] = o[k];
-  return out;
 }
