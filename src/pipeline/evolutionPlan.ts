@@ -194,6 +194,18 @@ function envelopeStiffnessTable(lo: number, hi: number): (s: number) => number {
   };
 }
 
+/** `count` frequencies from `from` to `to`, both included (one: `from`). */
+export function evenlySpacedFrequencies(from: number, to: number, count: number): number[] {
+  return Array.from({ length: count }, (_, k) => (count === 1 ? from : from + ((to - from) * k) / (count - 1)));
+}
+
+/** The spectrum frequencies of --modulation-frequencies from:to:count, refused (naming the option) when the range is reversed or one point spans a range. */
+export function modulationFrequencyGrid(from: number, to: number, count: number): number[] {
+  if (!(to >= from)) throw new InputError(`--modulation-frequencies: expected from <= to, got ${from} and ${to}`);
+  if (count === 1 && to !== from) throw new InputError('--modulation-frequencies: one frequency needs from = to (or give it alone)');
+  return evenlySpacedFrequencies(from, to, count);
+}
+
 export function evolutionPlan(resolved: ResolvedScenario, options: PlanOptions = {}): EvolutionPlan {
   const scenario = resolved.scenario;
   const settings = scenario.evolution;
@@ -382,10 +394,7 @@ export function evolutionPlan(resolved: ResolvedScenario, options: PlanOptions =
   const fromCommandLine = options.modulationFrequencies !== undefined;
   if (s || fromCommandLine) {
     const path: ModulatedPath = s?.path ?? (laboratory ? 'laboratory.depthEr' : 'hubbard.hopping');
-    const frequencies =
-      options.modulationFrequencies ??
-      s?.frequencies ??
-      Array.from({ length: s!.count as number }, (_, k) => (s!.count === 1 ? (s!.from as number) : (s!.from as number) + (((s!.to as number) - (s!.from as number)) * k) / ((s!.count as number) - 1)));
+    const frequencies = options.modulationFrequencies ?? s?.frequencies ?? evenlySpacedFrequencies(s!.from as number, s!.to as number, s!.count as number);
     spectrum = {
       path,
       relativeAmplitude: s?.relativeAmplitude ?? 0.1,

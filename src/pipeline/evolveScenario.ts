@@ -100,6 +100,13 @@ export function evolveMemoryBytes(siteCount: number, nmax: number): number {
   return 14 * stateBytes + 40 * siteCount * 8;
 }
 
+/** Refuse a scenario without an `evolution` section (named by its file), before any output folder is checked. */
+export function requireEvolutionSection(prepared: PreparedScenario, scenarioPath: string): void {
+  if (!prepared.scenario.evolution) {
+    throw new InputError(`evolution: ${scenarioPath} has no "evolution" section; add one with at least "duration" (and "ramps"), e.g. --set 'evolution={"duration": 10}'`);
+  }
+}
+
 const stopped = (): never => {
   throw new EvolutionInterrupted();
 };

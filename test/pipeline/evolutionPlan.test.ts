@@ -11,7 +11,7 @@ import { describe, expect, it } from 'vitest';
 import { validateScenario } from '../../src/scenario/loadScenario.js';
 import { resolveScenario } from '../../src/scenario/resolveScenario.js';
 import type { ScenarioInput } from '../../src/scenario/scenarioSchema.js';
-import { evolutionPlan } from '../../src/pipeline/evolutionPlan.js';
+import { evenlySpacedFrequencies, evolutionPlan, modulationFrequencyGrid } from '../../src/pipeline/evolutionPlan.js';
 import { scenarioDrive } from '../../src/pipeline/scenarioDrive.js';
 import { copyFrame, frameFromModel, type DynamicsFrame } from '../../src/dynamics/dynamicsFrame.js';
 import { hubbardFromLab } from '../../src/physics/hubbardParameters.js';
@@ -190,5 +190,16 @@ describe('time-of-flight visibility of a complex order parameter', () => {
     const dephasedIm = phiRe.map((p, i) => p * Math.sin(0.9 * i * i));
     expect(v0).toBeGreaterThan(0.5);
     expect(camera.visibility(dephasedRe, dephasedIm, density)).toBeLessThan(0.5 * v0);
+  });
+});
+
+describe('spectrum frequency grids', () => {
+  it('evenly spaced, both ends included; --modulation-frequencies ranges refused when reversed or a single point spans a range', () => {
+    // (1.5 - 0.5) / 4 = 0.25 apart, counted by hand
+    expect(evenlySpacedFrequencies(0.5, 1.5, 5)).toEqual([0.5, 0.75, 1, 1.25, 1.5]);
+    expect(evenlySpacedFrequencies(0.7, 0.7, 1)).toEqual([0.7]);
+    expect(modulationFrequencyGrid(1, 2, 3)).toEqual([1, 1.5, 2]);
+    expect(() => modulationFrequencyGrid(2, 1, 5)).toThrow('--modulation-frequencies: expected from <= to, got 2 and 1');
+    expect(() => modulationFrequencyGrid(1, 2, 1)).toThrow('--modulation-frequencies: one frequency needs from = to (or give it alone)');
   });
 });

@@ -4,7 +4,7 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../main.js';
 import { prepareScenario } from '../../pipeline/prepareScenario.js';
-import { inAllUnits } from '../../scenario/resolveScenario.js';
+import { checkSummaryLines } from '../../report/checkSummaryLines.js';
 import { ExitCode } from '../../scenario/inputError.js';
 import { declare, readOptions, type RawOptions } from '../options.js';
 import { memoryLimitBytes } from '../machine.js';
@@ -25,39 +25,8 @@ export function registerCheck(program: Command, context: CommandContext): void {
 export function runCheck(scenarioPath: string, raw: RawOptions): number {
   const o = readOptions(raw, OPTIONS);
   const { resolved, overrideNotes } = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
-  const u = resolved.units;
-  const show = (label: string, v: number): string => {
-    const all = inAllUnits(v, u);
-    return `  ${label.padEnd(22)} ${Object.entries(all).map(([k, x]) => `${x.toPrecision(6)} ${k}`).join('   ')}`;
-  };
-  const lines = [
-    `scenario ${resolved.scenario.name}: valid`,
-    `  mode                   ${resolved.mode}`,
-    `  lattice                ${resolved.geometry.shape.join(' x ')} sites (${resolved.geometry.siteCount}), ${resolved.geometry.periodic.map((p) => (p ? 'periodic' : 'open')).join('/')}`,
-    ...(resolved.latticeSpacingUm !== null ? [`  lattice spacing        ${resolved.latticeSpacingUm.toPrecision(6)} µm`] : []),
-    show('hopping J', u.hopping),
-    show('interaction U', u.interaction),
-    `  U/J                    ${(u.interaction / u.hopping).toPrecision(6)}`,
-    ...resolved.trapCoefficient.map((k, d) => show(`trap coeff. ${'xyz'[d]} /site²`, k)),
-    resolved.chemical.kind === 'mu' ? show('chemical potential', resolved.chemical.mu) : `  atoms                  ${resolved.chemical.atoms}`,
-    resolved.thermal.kind === 'temperature' ? show('k_B T', resolved.thermal.kT) : `  entropy per atom       ${resolved.thermal.entropyPerAtom} k_B`,
-    `  nmax                   ${resolved.scenario.truncation.nmax}${resolved.scenario.truncation.automatic ? ' (raised automatically if needed)' : ''}`,
-  ];
-  const terms = resolved.landscape.records;
-  if (terms.length > 0) {
-    lines.push(`  landscape              ${terms.length} term${terms.length > 1 ? 's' : ''}`);
-    for (const t of terms) {
-      const range = `${t.minimum.toPrecision(4)} .. ${t.maximum.toPrecision(4)} ${t.energyUnit}`;
-      const file = t.file !== null ? `; file ${t.file.path} (sha256 ${t.file.sha256.slice(0, 12)}...)` : '';
-      lines.push(`    [${t.index}] ${t.name} (${t.kind}): ${range}${file}`);
-      lines.push(`        ${t.method}`);
-    }
-  } else {
-    lines.push('  landscape              none');
-  }
-  for (const note of overrideNotes) lines.push(`  note: ${note}`);
   // The warnings known before solving (the laboratory model, the landscape).
-  for (const w of solveWarnings({ readingWarnings: [], resolved })) lines.push(`  warning: ${w.code}: ${w.message}`);
+  const lines = checkSummaryLines(resolved, overrideNotes, solveWarnings({ readingWarnings: [], resolved }));
   process.stdout.write(`${lines.join('\n')}\n`);
   return ExitCode.done;
 }

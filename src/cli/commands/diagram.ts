@@ -5,9 +5,9 @@
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { writeOutputFolder } from '../../output/outputFolder.js';
-import { lobesOf, writeDiagramFiles, type DiagramSettings } from '../../output/diagramOutputs.js';
-import { phaseMap } from '../../solver/phaseMap.js';
-import { clusterLobes, lobeFillings, lobeTruncation, LOBE_MAX_STATES } from '../../solver/cluster/clusterLobeSet.js';
+import { writeDiagramFiles, type DiagramSettings } from '../../output/diagramOutputs.js';
+import { checkDiagramCluster, checkDiagramTruncation, diagramMap } from '../../pipeline/diagramMap.js';
+import { diagramSummaryLines } from '../../report/diagramSummaryLines.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
 import { declare, readOptions, type RawOptions } from '../options.js';
@@ -43,15 +43,12 @@ export function parseDiagramOptions(raw: RawOptions): DiagramSettings & { out: s
   const columns = parseInteger(grid[1], '--grid (columns)', { min: 2, max: 4000 });
   const rows = parseInteger(grid[2], '--grid (rows)', { min: 2, max: 4000 });
   const nmax = o.nmax ?? 10;
-  if (muMax + 1 >= nmax) throw new InputError(`--nmax: ${nmax} is too small for mu/U up to ${muMax}; use at least ${Math.ceil(muMax) + 3}`);
+  checkDiagramTruncation(nmax, muMax);
   let cluster: number[] | null = null;
   if (o.cluster !== undefined) {
     if (!/^\d{1,2}(x\d{1,2}){0,2}$/.test(o.cluster)) throw new InputError(`--cluster: expected a cluster shape such as 2x2 or 2x2x2, got ${JSON.stringify(o.cluster)}`);
     cluster = o.cluster.split('x').map((t, d) => parseInteger(t, `--cluster (extent ${d + 1})`, { min: 1, max: 16 }));
-    if ((o.kt ?? 0) > 0) throw new InputError('--cluster: the cluster lobes are computed at T = 0; drop --kt or --cluster');
-    if (lobeTruncation(cluster, 1) === null) {
-      throw new InputError(`--cluster: a ${cluster.join('x')} cluster needs more than ${LOBE_MAX_STATES} Fock states even at nmax 2; use a smaller cluster (2x2, 2x4, 2x2x2)`);
-    }
+    checkDiagramCluster(cluster, o.kt ?? 0);
   }
   return {
     cluster,
@@ -73,22 +70,11 @@ export async function runDiagram(raw: RawOptions): Promise<number> {
   const outDir = resolve(s.out);
   const target = outputTarget(s.out, { force: s.force });
   const t0 = performance.now();
-  const result = phaseMap({ zJMax: s.zJMax, muMin: s.muMin, muMax: s.muMax, columns: s.columns, rows: s.rows, temperature: s.temperature, nmax: s.nmax, boundaryPoints: 400 });
-  const lobes =
-    s.cluster === null
-      ? null
-      : clusterLobes(s.cluster, lobeFillings(s.muMin, s.muMax), 48, (n) => process.stderr.write(`tiercake diagram: cluster ${s.cluster!.join('x')} lobe n = ${n} ...\n`));
+  const { result, lobes } = diagramMap(s, (n) => process.stderr.write(`tiercake diagram: cluster ${s.cluster!.join('x')} lobe n = ${n} ...\n`));
   const seconds = (performance.now() - t0) / 1000;
-  if (result.maxTopWeight > 1e-6) {
-    throw new InputError(`--nmax: the weight on |nmax> reaches ${result.maxTopWeight.toExponential(2)} on this map; raise --nmax`);
-  }
-  const { commit } = await writeOutputFolder(target, { command: 'diagram', scenarioHash: null }, (folder) =>
-    writeDiagramFiles(result, s, seconds, folder, lobes === null ? null : { shape: s.cluster!, lobes }),
-  );
+  const cluster = lobes === null ? null : { shape: s.cluster!, lobes };
+  const { commit } = await writeOutputFolder(target, { command: 'diagram', scenarioHash: null }, (folder) => writeDiagramFiles(result, s, seconds, folder, cluster));
   reportCommit(commit);
-  const tips = lobesOf(result).map((b) => `n=${b.filling}: zJ/U=${b.tipZJ.toFixed(5)} at mu/U=${b.tipMu.toFixed(4)}`).join('; ');
-  const clusterTips =
-    lobes === null ? '' : `\ncluster ${s.cluster!.join('x')} lobe tips ${lobes.map((b) => `n=${b.filling}: zJ/U=${b.tipZJ.toFixed(5)} at mu/U=${b.tipMu.toFixed(4)}`).join('; ')}`;
-  process.stdout.write(`phase map ${s.columns}x${s.rows} in ${seconds.toFixed(2)} s; lobe tips ${tips}${clusterTips}\nresults in ${outDir}\n`);
+  process.stdout.write(`${diagramSummaryLines(result, s, cluster, seconds, outDir).join('\n')}\n`);
   return ExitCode.done;
 }

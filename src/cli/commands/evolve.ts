@@ -6,14 +6,12 @@
 
 import type { Command } from 'commander';
 import { dirname, resolve } from 'node:path';
-import { writeOutputFolder } from '../../output/outputFolder.js';
-import { writeEvolveFiles } from '../../output/evolveOutputs.js';
-import { renderReportHtml } from '../../report/renderReport.js';
-import { buildEvolveReport } from '../../report/evolveReport.js';
+import { writeEvolveFolder } from '../../output/evolveFolder.js';
+import { evolveSummaryLines } from '../../report/evolveSummaryLines.js';
 import { prepareScenario } from '../../pipeline/prepareScenario.js';
-import { evolveScenario, type EvolveProgress } from '../../pipeline/evolveScenario.js';
+import { evolveScenario, requireEvolutionSection, type EvolveProgress } from '../../pipeline/evolveScenario.js';
+import { modulationFrequencyGrid } from '../../pipeline/evolutionPlan.js';
 import { EvolutionInterrupted } from '../../pipeline/interruptibleRunner.js';
-import { scenarioHash } from '../../scenario/scenarioHash.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
 import { declare, readOptions, type RawOptions } from '../options.js';
@@ -44,10 +42,7 @@ export function parseModulationFrequencies(text: string): number[] {
   if (parts.length !== 3) throw new InputError(`--modulation-frequencies: expected from:to:count or one frequency, got ${JSON.stringify(text)}`);
   const from = parseReal(parts[0], '--modulation-frequencies (from)', frequencyRange);
   const to = parseReal(parts[1], '--modulation-frequencies (to)', frequencyRange);
-  const count = parseInteger(parts[2], '--modulation-frequencies (count)', { min: 1, max: 2000 });
-  if (!(to >= from)) throw new InputError(`--modulation-frequencies: expected from <= to, got ${from} and ${to}`);
-  if (count === 1 && to !== from) throw new InputError('--modulation-frequencies: one frequency needs from = to (or give it alone)');
-  return Array.from({ length: count }, (_, k) => (count === 1 ? from : from + ((to - from) * k) / (count - 1)));
+  return modulationFrequencyGrid(from, to, parseInteger(parts[2], '--modulation-frequencies (count)', { min: 1, max: 2000 }));
 }
 
 function evolveObserver(progress: ProgressReporter): (p: EvolveProgress) => void {
@@ -72,9 +67,7 @@ export async function runEvolveCommand(scenarioPath: string, raw: RawOptions): P
   const threads = o.threads ?? defaultThreads();
   const modulationFrequencies = o.modulationFrequencies !== undefined ? parseModulationFrequencies(o.modulationFrequencies) : undefined;
   const prepared = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
-  if (!prepared.scenario.evolution) {
-    throw new InputError(`evolution: ${scenarioPath} has no "evolution" section; add one with at least "duration" (and "ramps"), e.g. --set 'evolution={"duration": 10}'`);
-  }
+  requireEvolutionSection(prepared, scenarioPath);
   const outDir = resolve(o.out ?? `out/${prepared.scenario.name}-evolve`);
   const target = outputTarget(o.out ?? outDir, { force: o.force ?? false, inputs: [scenarioPath] });
   const progress = progressFor(o);
@@ -102,27 +95,9 @@ export async function runEvolveCommand(scenarioPath: string, raw: RawOptions): P
     throw err;
   }
   for (const w of artifacts.warnings) process.stderr.write(`tiercake: warning: [${w.code}] ${w.message}\n`);
-  const a = artifacts;
-  const { commit } = await writeOutputFolder(target, { command: 'evolve', scenarioHash: scenarioHash(a.prepared.scenario) }, (folder) => {
-    const createdIso = new Date().toISOString();
-    writeEvolveFiles(a, folder, (images, frames) => renderReportHtml(buildEvolveReport(a, images, frames, createdIso)));
-  });
+  const { commit } = await writeEvolveFolder(target, artifacts);
   progress.done();
   reportCommit(commit);
-  const s = a.series;
-  const last = s.time.length - 1;
-  const v = a.verdict;
-  const lines = [
-    `${a.prepared.scenario.name}: evolution ${a.status === 'done' ? 'done' : 'FAILED'} to t = ${a.result.time} ${a.plan.timeUnit}: ${a.result.statistics.steps} steps, ${a.result.statistics.rejectedSteps} rejected (${a.timings.evolveSeconds.toFixed(2)} s, ${a.threadsUsed} thread${a.threadsUsed > 1 ? 's' : ''})`,
-    `  atoms ${s.atoms[0].toPrecision(8)} -> ${s.atoms[last].toPrecision(8)}, condensed ${s.condensedAtoms[0].toPrecision(5)} -> ${s.condensedAtoms[last].toPrecision(5)}, visibility ${s.visibility[0].toFixed(3)} -> ${s.visibility[last].toFixed(3)}`,
-    v
-      ? `  verdict: ${v.adiabaticOverall ? 'adiabatic' : 'NOT adiabatic'}; excess energy ${v.excessEnergyPerAtomInScale.toPrecision(3)} U per atom (threshold ${v.excessEnergyThresholdU} U); ` +
-        `excess defects per shell site ${v.shells.map((sh) => `n=${sh.filling}: ${sh.excessDefectsPerSite.toPrecision(3)}`).join(', ') || 'no shells'}`
-      : '  verdict: none (the evolution did not reach its end)',
-    ...(a.plan.quenches.length > 0 ? [`  quench at t = 0: ${a.plan.quenches.map((q) => q.path).join(', ')}`] : []),
-    ...(a.spectrum ? [`  modulation spectrum: ${a.spectrum.points.length} frequencies in spectrum.csv`] : []),
-    `  results in ${outDir}`,
-  ];
-  process.stdout.write(`${lines.join('\n')}\n`);
-  return a.trustworthy ? ExitCode.done : ExitCode.notConverged;
+  process.stdout.write(`${evolveSummaryLines(artifacts, outDir).join('\n')}\n`);
+  return artifacts.trustworthy ? ExitCode.done : ExitCode.notConverged;
 }
