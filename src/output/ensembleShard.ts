@@ -1,4 +1,5 @@
-// The self-describing partial result of one ensemble shard, and reading it back.
+// The self-describing partial result of one ensemble shard, written block by block while
+// the shard runs (EnsembleShardWriter), and reading it back.
 //
 // A shard folder holds
 //   shard.json                      header: format tag and version, tool version,

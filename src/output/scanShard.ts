@@ -1,5 +1,6 @@
-// The self-describing partial result of one scan shard, and reading it back; and which
-// scan shards `tiercake merge` may combine.
+// The self-describing partial result of one scan shard (written and committed with its
+// kept points), and reading it back; which scan shards `tiercake merge` may combine, and
+// the outcome of one scan they merge into.
 //
 // A shard folder (`<collect>/shard-k-of-K/`, the same names as ensemble shards) holds
 //   shard.json                 header: format tag and version, tool version, scenario (as

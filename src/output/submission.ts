@@ -1,6 +1,7 @@
 // The record of a `tiercake submit` in its folder, so that `tiercake progress` can tell
 // from the folder alone which shards are done and say how to resubmit the others, and a
-// resubmission (--only-shards) can check that it continues the same work.
+// resubmission (--only-shards) can check that it continues the same work. planSubmission
+// makes the record and the scripts from the work (src/pipeline/batchWork.ts).
 //
 // The submission folder holds
 //   submit.json          this record (written with the folder's marker)
