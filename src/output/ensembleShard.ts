@@ -1,4 +1,5 @@
-// The self-describing partial result of one ensemble shard, and reading it back.
+// The self-describing partial result of one ensemble shard, written block by block while
+// the shard runs (EnsembleShardWriter), and reading it back.
 //
 // A shard folder holds
 //   shard.json                      header: format tag and version, tool version,
@@ -21,7 +22,9 @@ import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import * as z from 'zod';
 import { decodeNpy, encodeNpy, NpyFormatError } from '../formats/npy.js';
-import type { OutputFolder } from './outputFolder.js';
+import { OutputFolder, type CommitReport } from './outputFolder.js';
+import type { OutputTarget } from './outputTarget.js';
+import { toolVersion } from './toolVersion.js';
 import type { BlockPlan } from '../pipeline/ensemble/blockPlan.js';
 import { phaseCount, type BlockPartial } from '../pipeline/ensemble/blockPartial.js';
 import type { HistogramBins } from '../pipeline/ensemble/histogramBins.js';
@@ -178,6 +181,50 @@ export function writeShardHeader(
     run,
   };
   folder.write(SHARD_HEADER_FILE, `${JSON.stringify(header, null, 1)}\n`);
+}
+
+/**
+ * The staging folder of a running ensemble shard at `target`: each finished block goes
+ * straight into it (so only one block is held in memory); `commit` adds the header and
+ * moves the folder into place, `discard` removes it (an error or an interruption).
+ */
+export class EnsembleShardWriter {
+  private readonly folder: OutputFolder;
+  private readonly entries: ShardBlockEntry[] = [];
+
+  constructor(
+    target: OutputTarget,
+    private readonly identity: EnsembleIdentity,
+  ) {
+    this.folder = new OutputFolder(target, { command: 'ensemble shard', scenarioHash: identity.scenarioHash });
+  }
+
+  get finalPath(): string {
+    return this.folder.finalPath;
+  }
+
+  add(partial: BlockPartial): void {
+    this.entries.push(writeShardBlock(this.folder, partial, this.identity.context.shape));
+  }
+
+  /** The records of the blocks written so far, in order. */
+  records(): RealisationRecord[] {
+    return this.entries.flatMap((e) => e.records as RealisationRecord[]);
+  }
+
+  commit(shard: { index: number; count: number }, run: ShardHeader['run']): CommitReport {
+    try {
+      writeShardHeader(this.folder, this.identity, shard, this.entries, run, toolVersion());
+      return this.folder.commit();
+    } catch (err) {
+      this.folder.discard();
+      throw err;
+    }
+  }
+
+  discard(): void {
+    this.folder.discard();
+  }
 }
 
 export interface LoadedShard {

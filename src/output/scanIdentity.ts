@@ -32,6 +32,11 @@ export function scanIdentityHash(id: ScanIdentity): string {
   return createHash('sha256').update(text).digest('hex');
 }
 
+/** The identity hash of a scan set up by src/pipeline/scan/scanSetup.ts. */
+export function scanSetupHash(s: { scenarioHash: string; plan: ScanPlan; hold: DensityHold; keepPoints: boolean }): string {
+  return scanIdentityHash({ scenarioHash: s.scenarioHash, plan: s.plan, hold: effectiveHold(s.plan, s.hold), keepPoints: s.keepPoints });
+}
+
 /** The hold that matters: the characteristic-density axis's, else null. */
 export function effectiveHold(plan: ScanPlan, hold: DensityHold): DensityHold | null {
   return plan.axes.some((a) => a.path === CHARACTERISTIC_DENSITY) ? hold : null;

@@ -1,5 +1,6 @@
-// The self-describing partial result of one scan shard, and reading it back; and which
-// scan shards `tiercake merge` may combine.
+// The self-describing partial result of one scan shard (written and committed with its
+// kept points), and reading it back; which scan shards `tiercake merge` may combine, and
+// the outcome of one scan they merge into.
 //
 // A shard folder (`<collect>/shard-k-of-K/`, the same names as ensemble shards) holds
 //   shard.json                 header: format tag and version, tool version, scenario (as
@@ -12,9 +13,13 @@
 // every chain exactly once, each with the rows of exactly its points; every refusal is an
 // InputError naming the shard (index of K, folder, scenario hash) and what to do.
 
+import { readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import * as z from 'zod';
-import type { OutputFolder } from './outputFolder.js';
+import { writeOutputFolder, type CommitReport, type OutputFolder } from './outputFolder.js';
+import type { OutputTarget } from './outputTarget.js';
+import type { ScanOutcome } from './scanOutputs.js';
+import { copyKeptPoints, shardKeptPoint } from './scanKeptPoints.js';
 import { InputError } from '../scenario/inputError.js';
 import { chainPoints, planScan, shardChains, type ScanPlan } from '../pipeline/scan/scanPlan.js';
 import type { ScanRow } from '../pipeline/scan/scanRow.js';
@@ -94,6 +99,26 @@ export function writeScanShardHeader(
     run,
   };
   folder.write(SHARD_HEADER_FILE, `${JSON.stringify(header, null, 1)}\n`);
+}
+
+/**
+ * Commit a finished scan shard at `target`: its header and, with --keep-points, the kept
+ * point folders of its rows (`keptPoint` gives where each one is now).
+ */
+export async function writeScanShard(
+  target: OutputTarget,
+  id: ScanShardIdentity,
+  shard: { index: number; count: number },
+  chains: readonly number[],
+  rows: readonly ScanRow[],
+  run: ScanShardHeader['run'],
+  keptPoint: ((point: number) => string) | null,
+): Promise<CommitReport | null> {
+  const { commit } = await writeOutputFolder(target, { command: 'scan shard', scenarioHash: id.scenarioHash }, (folder) => {
+    if (keptPoint) copyKeptPoints(folder, rows.map((r) => r.point), keptPoint);
+    writeScanShardHeader(folder, id, shard, chains, rows, run);
+  });
+  return commit;
 }
 
 export interface LoadedScanShard {
@@ -189,4 +214,60 @@ export function checkScanShardSet(shards: readonly LoadedScanShard[]): { plan: S
 function shardOwning(plan: ScanPlan, chain: number, count: number): number | null {
   for (let k = 0; k < count; k++) if (shardChains(plan, k, count).includes(chain)) return k;
   return null;
+}
+
+/**
+ * The shards as scan shards when their headers say so (null when they are ensemble
+ * shards); a mixture is refused naming the shard of the other kind.
+ */
+export function readScanShards(folders: readonly string[]): LoadedScanShard[] | null {
+  const formats = folders.map((f) => {
+    try {
+      const parsed: unknown = JSON.parse(readFileSync(join(f, SHARD_HEADER_FILE), 'utf8'));
+      return { folder: f, parsed, scan: parsed !== null && typeof parsed === 'object' && (parsed as Record<string, unknown>).format === SCAN_SHARD_FORMAT };
+    } catch {
+      return { folder: f, parsed: null, scan: false };
+    }
+  });
+  const scans = formats.filter((f) => f.scan);
+  if (scans.length === 0) return null;
+  const other = formats.find((f) => !f.scan);
+  if (other) {
+    throw new InputError(
+      `merge: ${JSON.stringify(other.folder)} is not a scan shard but ${JSON.stringify(scans[0].folder)} is; merge the shards of one scan (or of one ensemble) at a time`,
+    );
+  }
+  return scans.map((f) => parseScanShardHeader(f.folder, f.parsed));
+}
+
+/** The checked set of shards as the outcome of one scan (`provenance` lists the shards). */
+export function mergedScanOutcome(shards: readonly LoadedScanShard[]): ScanOutcome {
+  const { plan, rows } = checkScanShardSet(shards);
+  const h = shards[0].header;
+  return {
+    scenario: h.scenario as unknown as Scenario,
+    scenarioHash: h.scenarioHash,
+    scanHash: h.scanHash,
+    plan,
+    hold: h.hold,
+    energyUnit: h.energyUnit,
+    keepPoints: h.keepPoints,
+    rows,
+    provenance: {
+      kind: 'merged shards',
+      shards: shards.map((s) => ({
+        folder: s.path,
+        shard: `${s.header.shard.index}/${s.header.shard.count}`,
+        chains: s.header.chains,
+        threads: s.header.run.threads,
+        seconds: s.header.run.seconds,
+        resumedPoints: s.header.run.resumedPoints,
+      })),
+    },
+  };
+}
+
+/** Stage the kept point folders of every shard's chains into the merged `folder`. */
+export function copyShardKeptPoints(folder: OutputFolder, shards: readonly LoadedScanShard[], plan: ScanPlan): void {
+  for (const s of shards) copyKeptPoints(folder, s.header.chains.flatMap((c) => chainPoints(plan, c)), (p) => shardKeptPoint(s.path, p));
 }

@@ -22,7 +22,8 @@ import { join } from 'node:path';
 import * as z from 'zod';
 import { decodeNpy, encodeNpy, NpyFormatError } from '../formats/npy.js';
 import { InputError } from '../scenario/inputError.js';
-import type { DonePoint, WarmStart } from '../pipeline/scan/runScan.js';
+import type { DonePoint, ScanPointResult, WarmStart } from '../pipeline/scan/runScan.js';
+import { chainPoints, type ScanPlan } from '../pipeline/scan/scanPlan.js';
 import type { ScanRow } from '../pipeline/scan/scanRow.js';
 import { scanRowFromJson, scanRowToJson, ScanRowSchema } from './scanRecords.js';
 import { removeOwnedFolder, type OutputFolder } from './outputFolder.js';
@@ -50,7 +51,11 @@ export function scanWorkPath(finalPath: string): string {
   return `${finalPath}.partial`;
 }
 
-const pointName = (point: number): string => `point-${String(point).padStart(6, '0')}`;
+/** `point-000017`: the name of a point's files here, and of its kept folder in the results (`points/<name>/`). */
+export function pointFolderName(point: number): string {
+  return `point-${String(point).padStart(6, '0')}`;
+}
+const pointName = pointFolderName;
 
 export interface ScanWork {
   path: string;
@@ -213,4 +218,15 @@ export function copyFolderInto(folder: OutputFolder, source: string, prefix: str
     }
   };
   walk(source, '');
+}
+
+/**
+ * Record a point `runScan` finished, keeping its solution while the chain's next points
+ * may start from it: a point starts from the two before it, so the one two back is
+ * released, and at the end of a chain the last two are.
+ */
+export function recordScanPoint(work: ScanWork, plan: ScanPlan, r: ScanPointResult): void {
+  const points = chainPoints(plan, r.chain);
+  const release = r.lastOfChain ? points.slice(Math.max(0, r.position - 2), r.position) : r.position >= 2 ? [points[r.position - 2]] : [];
+  work.record(r.row, r.warm, r.artifacts.resolved.geometry.shape, !r.lastOfChain, release);
 }

@@ -6,7 +6,7 @@
 // axis (effectiveHold). describeScan is the one-line summary used in messages and reports.
 import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
-import { describeScan, effectiveHold, scanIdentityHash, type ScanIdentity } from '../../src/output/scanIdentity.js';
+import { describeScan, effectiveHold, scanIdentityHash, scanSetupHash, type ScanIdentity } from '../../src/output/scanIdentity.js';
 import { planScan, type ScanAxis } from '../../src/pipeline/scan/scanPlan.js';
 import { CHARACTERISTIC_DENSITY } from '../../src/pipeline/scan/scanPoint.js';
 
@@ -79,6 +79,16 @@ describe('effectiveHold', () => {
     const key = (plan: typeof plain, hold: 'trap' | 'atoms'): string => scanIdentityHash(identity({ plan, hold: effectiveHold(plan, hold) }));
     expect(key(plain, 'trap')).toBe(key(plain, 'atoms'));
     expect(key(withDensity, 'trap')).not.toBe(key(withDensity, 'atoms'));
+  });
+});
+
+describe('scanSetupHash', () => {
+  it('is the identity of a set-up scan with only the hold that matters', () => {
+    const plain = planScan([hopping], 8);
+    const withDensity = planScan([hopping, { path: CHARACTERISTIC_DENSITY, values: [1, 2], spacing: 'linear' }], 8);
+    const h = identity().scenarioHash;
+    expect(scanSetupHash({ scenarioHash: h, plan: plain, hold: 'atoms', keepPoints: true })).toBe(scanIdentityHash({ scenarioHash: h, plan: plain, hold: null, keepPoints: true }));
+    expect(scanSetupHash({ scenarioHash: h, plan: withDensity, hold: 'atoms', keepPoints: false })).toBe(scanIdentityHash({ scenarioHash: h, plan: withDensity, hold: 'atoms', keepPoints: false }));
   });
 });
 

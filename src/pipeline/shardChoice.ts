@@ -1,5 +1,6 @@
-// The `ensemble` option that needs more than a number: which shard this process is. Pure
-// (the environment is passed in), so it is tested on plain strings.
+// Which shard of a sharded `ensemble` or `scan` this process is, from the option values
+// and the environment. Pure (the environment is passed in), so it is tested on plain
+// strings; errors name the options.
 //
 // Shards count from 0. `--shard k/K` names the shard directly. `--shard-from-env [VAR]`
 // takes k from the environment variable VAR (default SLURM_ARRAY_TASK_ID, which a SLURM
@@ -7,7 +8,6 @@
 // `--shards K`, which is required with it.
 
 import { InputError } from '../scenario/inputError.js';
-import { parseInteger } from './numberText.js';
 
 export const DEFAULT_SHARD_VARIABLE = 'SLURM_ARRAY_TASK_ID';
 
@@ -34,12 +34,12 @@ export function parseShardOption(text: string): ShardChoice {
  * The shard of this process, or null for a complete run.
  * @param shard value of --shard
  * @param fromEnv value of --shard-from-env: true when given without a name
- * @param shards value of --shards
+ * @param shards value of --shards (a whole number of at least 1, as the option table reads it)
  */
 export function resolveShard(
   shard: string | undefined,
   fromEnv: string | boolean | undefined,
-  shards: string | undefined,
+  shards: number | undefined,
   env: Readonly<Record<string, string | undefined>>,
 ): ShardChoice | null {
   if (shard !== undefined && fromEnv !== undefined && fromEnv !== false) {
@@ -61,7 +61,7 @@ export function resolveShard(
     );
   }
   if (shards === undefined) throw new InputError(`--shards: required with --shard-from-env; give the number of shards K (the array size, 0..K-1)`);
-  const count = parseInteger(shards, '--shards', { min: 1, max: 1_000_000 });
+  const count = shards;
   const value = env[variable];
   if (value === undefined || value.trim() === '') {
     throw new InputError(
