@@ -10,6 +10,7 @@ import { ExitCode, InputError } from '../scenario/inputError.js';
 import { printable } from '../scenario/formatScenarioError.js';
 import { toolVersion } from '../output/toolVersion.js';
 import { commandPrefix } from './invocation.js';
+import { parseKernelChoice, setDefaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 import { registerSolve } from './commands/solve.js';
 import { registerCheck } from './commands/check.js';
 import { registerDiagram } from './commands/diagram.js';
@@ -18,11 +19,13 @@ import { registerCompare } from './commands/compare.js';
 import { registerKeys } from './commands/keys.js';
 import { registerEnsemble } from './commands/ensemble.js';
 import { registerMerge } from './commands/merge.js';
-import { parseKernelChoice, setDefaultKernelChoice } from '../solver/kernel/sweepKernels.js';
 import { registerEvolve } from './commands/evolve.js';
 import { registerScan } from './commands/scan.js';
 import { registerSubmit } from './commands/submit.js';
 import { registerProgress } from './commands/progress.js';
+
+/** Every command, in the order `--help` lists them. */
+const COMMANDS = [registerSolve, registerCheck, registerDiagram, registerHubbard, registerCompare, registerKeys, registerEnsemble, registerMerge, registerEvolve, registerScan, registerSubmit, registerProgress];
 
 /** Commands set this when they finish with a non-zero status without throwing. */
 export interface CommandContext {
@@ -40,18 +43,7 @@ export function buildProgram(context: CommandContext): Command {
     .option('--debug', 'on an internal error, print the stack trace (also: TIERCAKE_DEBUG=1)')
     .showHelpAfterError('(run with --help for usage)')
     .exitOverride();
-  registerSolve(program, context);
-  registerCheck(program, context);
-  registerDiagram(program, context);
-  registerHubbard(program, context);
-  registerCompare(program, context);
-  registerKeys(program, context);
-  registerEnsemble(program, context);
-  registerMerge(program, context);
-  registerEvolve(program, context);
-  registerScan(program, context);
-  registerSubmit(program, context);
-  registerProgress(program, context);
+  for (const register of COMMANDS) register(program, context);
   return program;
 }
 

@@ -35,6 +35,8 @@ export function scanShardLines(
   seconds: number,
   folder: string,
   collect: string,
+  /** the command as the user can type it (cli/invocation.ts), e.g. 'tiercake' or 'node dist/main.js' */
+  command: string,
 ): string[] {
   const notConverged = rows.filter((r) => !r.converged).length;
   return [
@@ -42,6 +44,6 @@ export function scanShardLines(
       (chains.length > 0 ? `${rows.length} points in chains ${chains[0]}-${chains[chains.length - 1]} of ${plan.chainCount}` : `no chains (only ${plan.chainCount} chains for ${shard.count} shards)`) +
       ` in ${seconds.toFixed(1)} s${notConverged > 0 ? `, ${notConverged} NOT CONVERGED` : ''}`,
     `  partial result in ${folder}`,
-    `  merge when every shard is done: tiercake merge ${collect} --out <folder>`,
+    `  merge when every shard is done: ${command} merge ${collect} --out <folder>`,
   ];
 }

@@ -28,11 +28,11 @@ describe('scan summary lines', () => {
 
   it('the summary of a shard, and of a shard without chains', () => {
     const shard = { index: 1, count: 2, source: 'SLURM_ARRAY_TASK_ID' };
-    expect(scanShardLines('layer', shard, plan, [1, 2], rows.slice(2), 4, '/c/shard-1-of-2', '/c')).toEqual([
+    expect(scanShardLines('layer', shard, plan, [1, 2], rows.slice(2), 4, '/c/shard-1-of-2', '/c', 'node dist/main.js')).toEqual([
       'layer: scan shard 1 of 2 (index from SLURM_ARRAY_TASK_ID): 4 points in chains 1-2 of 3 in 4.0 s, 1 NOT CONVERGED',
       '  partial result in /c/shard-1-of-2',
-      '  merge when every shard is done: tiercake merge /c --out <folder>',
+      '  merge when every shard is done: node dist/main.js merge /c --out <folder>',
     ]);
-    expect(scanShardLines('layer', { ...shard, count: 5, index: 4 }, plan, [], [], 0, '/c/s', '/c')[0]).toBe('layer: scan shard 4 of 5 (index from SLURM_ARRAY_TASK_ID): no chains (only 3 chains for 5 shards) in 0.0 s');
+    expect(scanShardLines('layer', { ...shard, count: 5, index: 4 }, plan, [], [], 0, '/c/s', '/c', 'tiercake')[0]).toBe('layer: scan shard 4 of 5 (index from SLURM_ARRAY_TASK_ID): no chains (only 3 chains for 5 shards) in 0.0 s');
   });
 });

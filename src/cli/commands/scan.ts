@@ -33,6 +33,7 @@ import { progressFor } from '../progress.js';
 import { whileInterruptible } from '../signals.js';
 import { parseVaryOptions } from '../varyOption.js';
 import { outputTarget, reportCommit } from '../outputOption.js';
+import { commandPrefix } from '../invocation.js';
 
 const OPTIONS = ['vary', 'log', 'fixed', 'chainLength', 'realisations', 'keepPoints', 'shard', 'shardFromEnv', 'shards', 'threads', 'set', 'out', 'force', 'quiet', 'jsonProgress'] as const;
 
@@ -125,7 +126,7 @@ export async function runScanCommand(scenarioPath: string, raw: RawOptions, hook
     const commit = await writeScanShard(target, id, { index: shard.index, count: shard.count }, chains, rows, runInfo, kept);
     work.remove();
     reportCommit(commit);
-    process.stdout.write(`${scanShardLines(base.scenario.name, shard, plan, chains, rows, seconds, target.path, resolve(given)).join('\n')}\n`);
+    process.stdout.write(`${scanShardLines(base.scenario.name, shard, plan, chains, rows, seconds, target.path, resolve(given), commandPrefix()).join('\n')}\n`);
     return exitCode;
   }
   const outcome: ScanOutcome = { ...id, rows, provenance: { kind: 'single run', ...runInfo } };
