@@ -20,6 +20,7 @@
 
 import { ParameterError } from '../../physics/parameterError.js';
 import { checkImage, checkMask, type PixelImage, type PixelMask } from './pixelImage.js';
+import { quadrilateralSquareOverlap } from '../squareOverlap.js';
 
 /** Rows become columns: out(x = y, y = x); the result is height x width. */
 export function transposeImage(image: PixelImage): PixelImage {
@@ -108,52 +109,6 @@ export interface RotatedImage extends PixelImage {
   lostOutside: number;
 }
 
-// Polygon clipping buffers (x, y interleaved), reused: a square clipped by four half-planes has at most 8 vertices.
-const polyA = new Float64Array(32);
-const polyB = new Float64Array(32);
-
-/** Clip the polygon in `src` (n vertices) by the half-plane sign * (coord - limit) <= 0 on axis 0 (x) or 1 (y); returns the vertex count in dst. */
-function clip(src: Float64Array, n: number, dst: Float64Array, axis: number, limit: number, sign: number): number {
-  let m = 0;
-  for (let i = 0; i < n; i++) {
-    const j = (i + 1) % n;
-    const ax = src[2 * i], ay = src[2 * i + 1];
-    const bx = src[2 * j], by = src[2 * j + 1];
-    const da = sign * ((axis === 0 ? ax : ay) - limit);
-    const db = sign * ((axis === 0 ? bx : by) - limit);
-    if (da <= 0) {
-      dst[2 * m] = ax;
-      dst[2 * m + 1] = ay;
-      m++;
-    }
-    if ((da < 0 && db > 0) || (da > 0 && db < 0)) {
-      const f = da / (da - db);
-      dst[2 * m] = ax + f * (bx - ax);
-      dst[2 * m + 1] = ay + f * (by - ay);
-      m++;
-    }
-  }
-  return m;
-}
-
-/** Area of the rotated unit square (corners in `corners`) inside the pixel [x0, x0+1] x [y0, y0+1]. */
-function overlapArea(corners: Float64Array, x0: number, y0: number): number {
-  for (let k = 0; k < 8; k++) polyA[k] = corners[k]; // no subarray view: no allocation per call
-  let n = clip(polyA, 4, polyB, 0, x0, -1); // x >= x0
-  if (n === 0) return 0;
-  n = clip(polyB, n, polyA, 0, x0 + 1, 1); // x <= x0 + 1
-  if (n === 0) return 0;
-  n = clip(polyA, n, polyB, 1, y0, -1);
-  if (n === 0) return 0;
-  n = clip(polyB, n, polyA, 1, y0 + 1, 1);
-  let area = 0;
-  for (let i = 0; i < n; i++) {
-    const j = (i + 1) % n;
-    area += polyA[2 * i] * polyA[2 * j + 1] - polyA[2 * j] * polyA[2 * i + 1];
-  }
-  return Math.abs(area) / 2;
-}
-
 /** Rotate by any angle about the frame centre, conserving the total (see the file header). */
 export function rotateImage(image: PixelImage, angleDeg: number, options: RotationOptions = {}): RotatedImage {
   checkImage('image', image);
@@ -226,7 +181,7 @@ export function rotateImage(image: PixelImage, angleDeg: number, options: Rotati
         const Y1 = Math.min(H - 1, Math.floor(maxY));
         for (let Y = Y0; Y <= Y1; Y++) {
           for (let X = X0; X <= X1; X++) {
-            const area = overlapArea(corners, X, Y);
+            const area = quadrilateralSquareOverlap(corners, X, Y);
             if (area > 0) {
               out[Y * W + X] += v * area;
               coverage[Y * W + X] += area;
