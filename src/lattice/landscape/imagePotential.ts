@@ -21,7 +21,7 @@
 //   chains are averaged along x only;
 // - auto: area when the pixel is smaller than the site along x or y, bilinear otherwise.
 
-import type { LatticeGeometry } from '../latticeGeometry.js';
+import { mapSites, type LatticeGeometry } from '../latticeGeometry.js';
 import { ParameterError } from '../../physics/parameterError.js';
 import { axisOffsets } from './axisOffsets.js';
 
@@ -137,38 +137,27 @@ export function imagePotential(geometry: LatticeGeometry, img: PotentialImage, p
   const yTable = dims >= 2 ? offsets[1] : new Float64Array(1);
   const ix = pad;
   const iy = dims >= 2 ? pad + 1 : -1;
-  const [n0, n1, n2] = geometry.inner;
-  const q = new Int32Array(3);
-  const out = new Float64Array(geometry.siteCount);
   let covered = 0;
-  let i = 0;
-  for (let a = 0; a < n0; a++) {
-    q[0] = a;
-    for (let b = 0; b < n1; b++) {
-      q[1] = b;
-      for (let c = 0; c < n2; c++) {
-        q[2] = c;
-        const x = xTable[q[ix]] - ox;
-        const y = (iy >= 0 ? yTable[q[iy]] : 0) - oy;
-        const uc = (cos * x + sin * y) * inv + colShift;
-        const vc = (-sin * x + cos * y) * inv + rowShift;
-        if (uc >= -0.5 && uc <= img.width - 0.5 && vc >= -0.5 && vc <= img.height - 0.5) covered++;
-        let value: number;
-        if (mode === 'bilinear') value = bilinear(img, uc, vc);
-        else {
-          let sum = 0;
-          for (let sy = 0; sy < ny; sy++) {
-            const dy = ny === 1 ? 0 : ((sy + 0.5) / ny - 0.5) * ay;
-            for (let sx = 0; sx < nx; sx++) {
-              const dx = ((sx + 0.5) / nx - 0.5) * ax;
-              sum += nearest(img, uc + (cos * dx + sin * dy) * inv, vc + (-sin * dx + cos * dy) * inv);
-            }
-          }
-          value = sum / (nx * ny);
+  const out = mapSites(geometry, (q) => {
+    const x = xTable[q[ix]] - ox;
+    const y = (iy >= 0 ? yTable[q[iy]] : 0) - oy;
+    const uc = (cos * x + sin * y) * inv + colShift;
+    const vc = (-sin * x + cos * y) * inv + rowShift;
+    if (uc >= -0.5 && uc <= img.width - 0.5 && vc >= -0.5 && vc <= img.height - 0.5) covered++;
+    let value: number;
+    if (mode === 'bilinear') value = bilinear(img, uc, vc);
+    else {
+      let sum = 0;
+      for (let sy = 0; sy < ny; sy++) {
+        const dy = ny === 1 ? 0 : ((sy + 0.5) / ny - 0.5) * ay;
+        for (let sx = 0; sx < nx; sx++) {
+          const dx = ((sx + 0.5) / nx - 0.5) * ax;
+          sum += nearest(img, uc + (cos * dx + sin * dy) * inv, vc + (-sin * dx + cos * dy) * inv);
         }
-        out[i++] = p.scale * value;
       }
+      value = sum / (nx * ny);
     }
-  }
+    return p.scale * value;
+  });
   return { siteEnergy: out, resampling: mode, samplesPerSite: [nx, ny], sitesCovered: covered };
 }
