@@ -140,19 +140,24 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
       shell.groundHoles += groundHoles;
     }
   }
+  // |<g_i| e^{i alpha n} |psi_i>|^2: the fidelity of site i once the global phase rotation
+  // alpha (the one the ramp leaves undetermined) is taken out
+  const siteFidelity = (i: number, alpha: number): number => {
+    let re = 0;
+    let im = 0;
+    for (let n = 0; n < S; n++) {
+      const c = Math.cos(n * alpha);
+      const s = Math.sin(n * alpha);
+      re += overlapRe[i * S + n] * c - overlapIm[i * S + n] * s;
+      im += overlapRe[i * S + n] * s + overlapIm[i * S + n] * c;
+    }
+    return re * re + im * im;
+  };
   const fidelitySum = (alpha: number): number => {
     let total = 0;
     for (let i = 0; i < siteCount; i++) {
       if (!occupied[i]) continue;
-      let re = 0;
-      let im = 0;
-      for (let n = 0; n < S; n++) {
-        const c = Math.cos(n * alpha);
-        const s = Math.sin(n * alpha);
-        re += overlapRe[i * S + n] * c - overlapIm[i * S + n] * s;
-        im += overlapRe[i * S + n] * s + overlapIm[i * S + n] * c;
-      }
-      total += re * re + im * im;
+      total += siteFidelity(i, alpha);
     }
     return total;
   };
@@ -196,15 +201,7 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
   let occupiedCount = 0;
   for (let i = 0; i < siteCount; i++) {
     if (!occupied[i]) continue;
-    let re = 0;
-    let im = 0;
-    for (let n = 0; n < S; n++) {
-      const c = Math.cos(n * alpha);
-      const s = Math.sin(n * alpha);
-      re += overlapRe[i * S + n] * c - overlapIm[i * S + n] * s;
-      im += overlapRe[i * S + n] * s + overlapIm[i * S + n] * c;
-    }
-    const inf = Math.max(0, 1 - (re * re + im * im));
+    const inf = Math.max(0, 1 - siteFidelity(i, alpha));
     infidelitySum += inf;
     if (inf > infidelityMax) infidelityMax = inf;
     occupiedCount++;
