@@ -18,6 +18,7 @@
 // The verdict "adiabatic" means excess energy per atom <= threshold; the threshold is a
 // choice (default 1% of the energy scale, normally U), not a law, and is reported.
 
+import { goldenSectionMaximum } from '../numerics/goldenSection.js';
 import type { DynamicsFrame } from './dynamicsFrame.js';
 import { createObservableWorkspace, evolutionTotals, type EvolutionTotals } from './dynamicObservables.js';
 import type { GutzwillerState } from './gutzwillerState.js';
@@ -173,29 +174,7 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
       bestAlpha = alpha;
     }
   }
-  const golden = (Math.sqrt(5) - 1) / 2;
-  let lo = bestAlpha - (2 * Math.PI) / grid;
-  let hi = bestAlpha + (2 * Math.PI) / grid;
-  let x1 = hi - golden * (hi - lo);
-  let x2 = lo + golden * (hi - lo);
-  let f1 = fidelitySum(x1);
-  let f2 = fidelitySum(x2);
-  for (let iter = 0; iter < 60; iter++) {
-    if (f1 > f2) {
-      hi = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = hi - golden * (hi - lo);
-      f1 = fidelitySum(x1);
-    } else {
-      lo = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = lo + golden * (hi - lo);
-      f2 = fidelitySum(x2);
-    }
-  }
-  const alpha = f1 > f2 ? x1 : x2;
+  const alpha = goldenSectionMaximum(fidelitySum, bestAlpha - (2 * Math.PI) / grid, bestAlpha + (2 * Math.PI) / grid, { steps: 60 }).x;
   let infidelitySum = 0;
   let infidelityMax = 0;
   let occupiedCount = 0;
