@@ -14,7 +14,7 @@
 
 import type { CameraGrid, CameraImage } from './cameraResample.js';
 import { assertPlanarField, type PlanarField } from './planarField.js';
-import { quadrilateralSquareOverlap } from './squareOverlap.js';
+import { quadrilateralSquareOverlap, touchedPixels } from './squareOverlap.js';
 
 export interface RotatedResampleOptions {
   /** Lattice spacing, length unit. */
@@ -47,6 +47,7 @@ export function resampleRotated(sites: PlanarField, options: RotatedResampleOpti
   const perArea = (pixelUm * pixelUm) / (cellUm * cellUm); // weight per unit of pixel-area overlap
   const half = cellUm / 2;
   const corners = new Float64Array(8);
+  const range = new Float64Array(4);
   const { nx, ny } = sites;
   let totalIn = 0;
   let totalOut = 0;
@@ -57,28 +58,15 @@ export function resampleRotated(sites: PlanarField, options: RotatedResampleOpti
       if (atoms === 0) continue;
       totalIn += atoms;
       const v = originUm.y + j * cellUm;
-      let minX = Infinity;
-      let maxX = -Infinity;
-      let minY = Infinity;
-      let maxY = -Infinity;
       for (let k = 0; k < 4; k++) {
         const du = k === 1 || k === 2 ? half : -half;
         const dv = k >= 2 ? half : -half;
-        const X = (c * (u + du) - s * (v + dv)) * inv + ox;
-        const Y = (s * (u + du) + c * (v + dv)) * inv + oy;
-        corners[2 * k] = X;
-        corners[2 * k + 1] = Y;
-        if (X < minX) minX = X;
-        if (X > maxX) maxX = X;
-        if (Y < minY) minY = Y;
-        if (Y > maxY) maxY = Y;
+        corners[2 * k] = (c * (u + du) - s * (v + dv)) * inv + ox;
+        corners[2 * k + 1] = (s * (u + du) + c * (v + dv)) * inv + oy;
       }
-      const k0 = Math.max(0, Math.floor(minX));
-      const k1 = Math.min(gx - 1, Math.floor(maxX));
-      const l0 = Math.max(0, Math.floor(minY));
-      const l1 = Math.min(gy - 1, Math.floor(maxY));
-      for (let k = k0; k <= k1; k++) {
-        for (let l = l0; l <= l1; l++) {
+      touchedPixels(corners, gx, gy, range);
+      for (let k = range[0]; k <= range[1]; k++) {
+        for (let l = range[2]; l <= range[3]; l++) {
           const area = quadrilateralSquareOverlap(corners, k, l);
           if (area > 0) {
             const w = atoms * area * perArea;

@@ -1,4 +1,5 @@
-// Exact overlap area of a convex quadrilateral with one unit pixel square: the core of the
+// Exact overlap area of a convex quadrilateral with one unit pixel square, and the pixels it
+// can touch: the core of the
 // two conserving resamplers, site cells onto camera pixels at an angle (rotatedResample.ts)
 // and a camera frame rotated by any angle (camera/imageGeometry.ts). The quadrilateral is
 // clipped against the four edges of the square (Sutherland & Hodgman, Commun. ACM 17, 32
@@ -58,4 +59,30 @@ export function quadrilateralSquareOverlap(corners: Float64Array, x0: number, y0
     area += polyA[2 * i] * polyA[2 * j + 1] - polyA[2 * j] * polyA[2 * i + 1];
   }
   return Math.abs(area) / 2;
+}
+
+/**
+ * The pixels a quadrilateral can touch on an nx x ny grid of unit squares (pixel k spans
+ * [k, k + 1]): writes [kFirst, kLast, lFirst, lLast] into range, clipped to the grid (empty,
+ * first > last, when the bounding box misses it). Float64 so that a far-off or non-finite
+ * corner keeps an empty range instead of wrapping as an integer. Lets the callers visit only
+ * those pixels.
+ */
+export function touchedPixels(corners: Float64Array, nx: number, ny: number, range: Float64Array): void {
+  let minX = Infinity;
+  let maxX = -Infinity;
+  let minY = Infinity;
+  let maxY = -Infinity;
+  for (let k = 0; k < 4; k++) {
+    const x = corners[2 * k];
+    const y = corners[2 * k + 1];
+    if (x < minX) minX = x;
+    if (x > maxX) maxX = x;
+    if (y < minY) minY = y;
+    if (y > maxY) maxY = y;
+  }
+  range[0] = Math.max(0, Math.floor(minX));
+  range[1] = Math.min(nx - 1, Math.floor(maxX));
+  range[2] = Math.max(0, Math.floor(minY));
+  range[3] = Math.min(ny - 1, Math.floor(maxY));
 }

@@ -20,7 +20,7 @@
 
 import { ParameterError } from '../../physics/parameterError.js';
 import { checkImage, checkMask, type PixelImage, type PixelMask } from './pixelImage.js';
-import { quadrilateralSquareOverlap } from '../squareOverlap.js';
+import { quadrilateralSquareOverlap, touchedPixels } from '../squareOverlap.js';
 
 /** Rows become columns: out(x = y, y = x); the result is height x width. */
 export function transposeImage(image: PixelImage): PixelImage {
@@ -156,31 +156,22 @@ export function rotateImage(image: PixelImage, angleDeg: number, options: Rotati
     const ox = (W - 1) / 2;
     const oy = (H - 1) / 2;
     const corners = new Float64Array(8);
+    const range = new Float64Array(4);
     // Output-pixel squares are [X - 0.5, X + 0.5]; shift by 0.5 so that pixel X spans [X, X + 1].
     for (let y = 0; y < height; y++) {
       for (let x = 0; x < width; x++) {
         const i = y * width + x;
         if (mask !== undefined && mask[i] === 0) continue;
         const v = values[i];
-        let minX = Infinity, maxX = -Infinity, minY = Infinity, maxY = -Infinity;
         for (let k = 0; k < 4; k++) {
           const du = x - cx + (k === 1 || k === 2 ? 0.5 : -0.5);
           const dv = y - cy + (k >= 2 ? 0.5 : -0.5);
-          const u = ox + du * c + dv * s + 0.5;
-          const w = oy - du * s + dv * c + 0.5;
-          corners[2 * k] = u;
-          corners[2 * k + 1] = w;
-          if (u < minX) minX = u;
-          if (u > maxX) maxX = u;
-          if (w < minY) minY = w;
-          if (w > maxY) maxY = w;
+          corners[2 * k] = ox + du * c + dv * s + 0.5;
+          corners[2 * k + 1] = oy - du * s + dv * c + 0.5;
         }
-        const X0 = Math.max(0, Math.floor(minX));
-        const X1 = Math.min(W - 1, Math.floor(maxX));
-        const Y0 = Math.max(0, Math.floor(minY));
-        const Y1 = Math.min(H - 1, Math.floor(maxY));
-        for (let Y = Y0; Y <= Y1; Y++) {
-          for (let X = X0; X <= X1; X++) {
+        touchedPixels(corners, W, H, range);
+        for (let Y = range[2]; Y <= range[3]; Y++) {
+          for (let X = range[0]; X <= range[1]; X++) {
             const area = quadrilateralSquareOverlap(corners, X, Y);
             if (area > 0) {
               out[Y * W + X] += v * area;
