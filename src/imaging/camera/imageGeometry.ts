@@ -80,14 +80,20 @@ export function rotatedPosition(geometry: RotationGeometry, x: number, y: number
   return { x: (geometry.outputWidth - 1) / 2 + dx * c + dy * s, y: (geometry.outputHeight - 1) / 2 - dx * s + dy * c };
 }
 
-/** Map a position of the rotated frame back into the input frame (inverse of rotatedPosition). */
+/**
+ * Map a position of the rotated frame back into the input frame (inverse of rotatedPosition):
+ * the rotation by the opposite angle from the output frame to the input frame. Bit for bit
+ * the direct formula, since cos and sin of -t are cos t and -sin t exactly and a + (-b) is a - b.
+ */
 export function unrotatedPosition(geometry: RotationGeometry, x: number, y: number): { x: number; y: number } {
-  const t = (geometry.angleDeg * Math.PI) / 180;
-  const c = Math.cos(t);
-  const s = Math.sin(t);
-  const dx = x - (geometry.outputWidth - 1) / 2;
-  const dy = y - (geometry.outputHeight - 1) / 2;
-  return { x: (geometry.inputWidth - 1) / 2 + dx * c - dy * s, y: (geometry.inputHeight - 1) / 2 + dx * s + dy * c };
+  const inverse: RotationGeometry = {
+    angleDeg: -geometry.angleDeg,
+    inputWidth: geometry.outputWidth,
+    inputHeight: geometry.outputHeight,
+    outputWidth: geometry.inputWidth,
+    outputHeight: geometry.inputHeight,
+  };
+  return rotatedPosition(inverse, x, y);
 }
 
 export interface RotationOptions {
