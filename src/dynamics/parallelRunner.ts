@@ -15,7 +15,7 @@
 
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from 'node:worker_threads';
 import type { DynamicsFrame } from './dynamicsFrame.js';
-import type { DynamicsRunner } from './dynamicsRunner.js';
+import { createMeanFieldArrays, type DynamicsRunner } from './dynamicsRunner.js';
 import { hamiltonianActionRange, meanFieldRange, orderParameterRange } from './equationsOfMotion.js';
 import { sharedFloat64 } from './gutzwillerState.js';
 import { combineRange, errorNormRange, scaledMaxRange } from './rungeKuttaKernels.js';
@@ -223,10 +223,8 @@ export function createParallelRunner(frame: DynamicsFrame, pool: DynamicsPool): 
   const parts = Math.min(p.workers + 1, n);
   const ranges = siteRanges(n, p.workers + 1);
   const [s0, s1] = ranges[0];
-  const phiRe = sharedFloat64(n);
-  const phiIm = sharedFloat64(n);
-  const psiRe = sharedFloat64(n);
-  const psiIm = sharedFloat64(n);
+  const fields = createMeanFieldArrays(n);
+  const { phiRe, phiIm, psiRe, psiIm } = fields;
   const work = createExponentialWorkspace(frame.nmax);
   const runnerId = ++p.runnerCount;
   const c = p.control;
@@ -288,10 +286,7 @@ export function createParallelRunner(frame: DynamicsFrame, pool: DynamicsPool): 
   return {
     threads: parts,
     frame,
-    phiRe,
-    phiIm,
-    psiRe,
-    psiIm,
+    ...fields,
     async derivative(y, out) {
       await orderParameter(y);
       prepare({ y, out });
