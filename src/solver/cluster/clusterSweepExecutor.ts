@@ -187,15 +187,15 @@ export function createClusterSweepExecutor(
   const bondExact = exactBuffers.map((b) => new Uint8Array(b));
   const targets = { ...state.measure, bondCorrelation, bondExact };
 
+  // Statistics of the last measurement (driver.statistics() only reads counters), and what
+  // the single-threaded and the parallel executor report alike.
+  let stats = driver.statistics();
+  const common = { kernel: 'js' as const, driver, bondCorrelation, bondExact, statistics: () => stats };
+
   if (workerCount === 0 || pool === null) {
-    let stats = driver.statistics();
     return {
       threads: 1,
-      kernel: 'js',
-      driver,
-      bondCorrelation,
-      bondExact,
-      statistics: () => stats,
+      ...common,
       sweep: async (colour, mu, temperature) => {
         if (colour !== 0) return 0;
         const change = driver.sweep(mu, temperature, delta);
@@ -250,14 +250,9 @@ export function createClusterSweepExecutor(
   // The loose-residual policy of the single-threaded sweep, kept here once for all threads.
   let at: [number, number] = [NaN, NaN];
   let loose = 0;
-  let stats = driver.statistics();
   return {
     threads: shares,
-    kernel: 'js',
-    driver,
-    bondCorrelation,
-    bondExact,
-    statistics: () => stats,
+    ...common,
     sweep: async (colour, mu, temperature) => {
       if (colour !== 0) return 0;
       if (mu !== at[0] || temperature !== at[1]) {
