@@ -18,6 +18,7 @@ import type { DynamicsFrame } from './dynamicsFrame.js';
 import { createMeanFieldArrays, type DynamicsRunner } from './dynamicsRunner.js';
 import { hamiltonianActionRange, meanFieldRange, orderParameterRange } from './equationsOfMotion.js';
 import { sharedFloat64 } from './gutzwillerState.js';
+import { runLocalShare } from '../solver/localShare.js';
 import { combineRange, errorNormRange, scaledMaxRange } from './rungeKuttaKernels.js';
 import { createExponentialWorkspace, propagateColourRange } from './siteExponential.js';
 import { ArrayId, Control, Op, Parameter, type FrameLayoutMessage } from './dynamicsPoolProtocol.js';
@@ -116,26 +117,21 @@ class WorkerPool implements DynamicsPool {
     c[Control.OP] = op;
     Atomics.add(c, Control.GENERATION, 1);
     Atomics.notify(c, Control.GENERATION);
-    let value = 0;
-    let localError: unknown = null;
-    try {
-      value = local();
-    } catch (err) {
-      localError = err;
-    }
-    await this.waitDone();
-    if (Atomics.load(c, Control.FAILED) !== 0) {
-      Atomics.store(c, Control.FAILED, 0);
-      const messages: string[] = [];
-      for (const port of this.ports) {
-        for (let m = receiveMessageOnPort(port); m !== undefined; m = receiveMessageOnPort(port)) {
-          const body = m.message as { type?: string; message?: string; index?: number };
-          if (body.type === 'error') messages.push(`worker ${body.index}: ${body.message}`);
+    // worker failures first, then an error of the local share (runLocalShare)
+    let { local: value } = await runLocalShare(local, async () => {
+      await this.waitDone();
+      if (Atomics.load(c, Control.FAILED) !== 0) {
+        Atomics.store(c, Control.FAILED, 0);
+        const messages: string[] = [];
+        for (const port of this.ports) {
+          for (let m = receiveMessageOnPort(port); m !== undefined; m = receiveMessageOnPort(port)) {
+            const body = m.message as { type?: string; message?: string; index?: number };
+            if (body.type === 'error') messages.push(`worker ${body.index}: ${body.message}`);
+          }
         }
+        throw new Error(`a dynamics worker thread failed: ${messages.join('; ') || 'no message'}`);
       }
-      throw new Error(`a dynamics worker thread failed: ${messages.join('; ') || 'no message'}`);
-    }
-    if (localError !== null) throw localError;
+    });
     // the same rule as inside a range (r > max), so NaN is treated alike for any split
     for (let w = 0; w < this.workers; w++) if (this.results[w] > value) value = this.results[w];
     return value;
