@@ -15,6 +15,7 @@
 // 4. back-transformation x = Z y by applying the stored reflections.
 
 import { householderReduce, qlAfterReduction } from './symmetricEigen.js';
+import { insertionSortAscending } from '../../numerics/insertionSort.js';
 
 export interface PartialEigenWorkspace {
   readonly capacity: number;
@@ -77,15 +78,7 @@ export function partialEigenvalues(ws: PartialEigenWorkspace, n: number): boolea
   }
   const ok = n === 1 ? true : qlAfterReduction(null, v, w, n);
   // Insertion sort (no allocation; O(n^2) at worst, small against the O(n^3) reduction).
-  for (let i = 1; i < n; i++) {
-    const x = v[i];
-    let j = i - 1;
-    while (j >= 0 && v[j] > x) {
-      v[j + 1] = v[j];
-      j--;
-    }
-    v[j + 1] = x;
-  }
+  insertionSortAscending(v, n);
   return ok;
 }
 
