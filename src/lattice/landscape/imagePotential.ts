@@ -63,24 +63,13 @@ function bilinear(img: PotentialImage, colF: number, rowF: number): number {
   const W = img.width;
   const H = img.height;
   if (!(colF >= -0.5 && colF <= W - 0.5 && rowF >= -0.5 && rowF <= H - 0.5)) return 0;
-  let c0 = Math.floor(colF);
-  let r0 = Math.floor(rowF);
-  let tc = colF - c0;
-  let tr = rowF - r0;
-  if (c0 < 0) {
-    c0 = 0;
-    tc = 0;
-  } else if (c0 >= W - 1) {
-    c0 = W - 1;
-    tc = 0;
-  }
-  if (r0 < 0) {
-    r0 = 0;
-    tr = 0;
-  } else if (r0 >= H - 1) {
-    r0 = H - 1;
-    tr = 0;
-  }
+  // Within half a pixel of the edge the value is held (no neighbour beyond to blend with).
+  const cf = Math.floor(colF);
+  const rf = Math.floor(rowF);
+  const c0 = cf < 0 ? 0 : cf >= W - 1 ? W - 1 : cf;
+  const r0 = rf < 0 ? 0 : rf >= H - 1 ? H - 1 : rf;
+  const tc = c0 === cf && cf < W - 1 ? colF - cf : 0;
+  const tr = r0 === rf && rf < H - 1 ? rowF - rf : 0;
   const c1 = c0 + 1 < W ? c0 + 1 : c0;
   const r1 = r0 + 1 < H ? r0 + 1 : r0;
   const v = img.values;
