@@ -16,10 +16,11 @@
 // sorted. With z (n x n row-major, the identity on entry) the rotations are accumulated so
 // that column j of z (z[k * n + j], k = 0..n-1) is the normalised eigenvector of d[j] (tql2);
 // with z = null only eigenvalues are computed (tql1, O(n^2)). With vectorsInRows the same
-// rotations act on rows instead (row j of z is the eigenvector of d[j]): the dense solver
-// (solver/cluster/symmetricEigen.ts) keeps its Householder basis transposed so that its inner
-// loops run over contiguous memory, and this keeps one QL for both layouts. The layout test
-// sits outside the k loop, so the site hot path (columns) pays one branch per rotation.
+// rotations act on rows instead (row j of z is the eigenvector of d[j], contiguous memory):
+// the site spectrum (solver/site/fullSpectrum.ts) wants its eigenvectors as rows, and the
+// dense solver (solver/cluster/symmetricEigen.ts) keeps its Householder basis transposed so
+// that its inner loops run over contiguous memory; one QL serves both layouts, the layout
+// test sitting outside the k loop (one branch per rotation).
 //
 // Hot path: the site problem of the solver calls this once per site update, so it allocates
 // nothing and returns a plain boolean instead of a result object.

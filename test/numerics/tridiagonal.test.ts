@@ -112,7 +112,7 @@ describe('implicit QL (tql1 / tql2)', () => {
     expect(Math.abs(ours[20] - ours[19])).toBeLessThan(1e-12);
   });
 
-  it('works in place on the hot-path layout: z column j is eigenvector j, d unsorted', () => {
+  it('works in place on the column layout: z column j is eigenvector j, d unsorted', () => {
     const { diag, off } = randomTridiagonal(6, 'ql/inplace');
     const n = 6;
     const d = Float64Array.from(diag);

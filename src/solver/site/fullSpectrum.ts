@@ -36,15 +36,7 @@ export function diagonalizeSite(ws: SiteWorkspace, interactionU: number, muLocal
     return;
   }
 
-  implicitQl(d, e, n, z);
-  // tql2 stores eigenvector j as column j (z[k*n + j] = component k). Transpose so that
-  // row j holds eigenvector j, then sort.
-  for (let a = 0; a < n; a++) {
-    for (let b = a + 1; b < n; b++) {
-      const t = z[a * n + b];
-      z[a * n + b] = z[b * n + a];
-      z[b * n + a] = t;
-    }
-  }
+  // rotations on the rows of z, so row j is eigenvector j without a transpose
+  implicitQl(d, e, n, z, true);
   sortEigenpairsAscending(d, z, n);
 }
