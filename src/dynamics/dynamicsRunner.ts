@@ -30,6 +30,13 @@ export function createMeanFieldArrays(siteCount: number): MeanFieldArrays {
   return { phiRe: sharedFloat64(siteCount), phiIm: sharedFloat64(siteCount), psiRe: sharedFloat64(siteCount), psiIm: sharedFloat64(siteCount) };
 }
 
+/**
+ * The arguments of a range kernel of rungeKuttaKernels.ts without its trailing component
+ * range [start, end): a runner applies the kernel to every component, split as it likes, so
+ * the pass takes exactly what the kernel takes, declared once there.
+ */
+type OverAllComponents<F> = F extends (...args: [...infer Inputs, start: number, end: number]) => unknown ? Inputs : never;
+
 /** The passes; phiRe .. psiIm hold phi_i and Psi_i of the last pass. */
 export interface DynamicsRunner extends MeanFieldArrays {
   /** compute threads in use, the calling thread included */
@@ -40,21 +47,12 @@ export interface DynamicsRunner extends MeanFieldArrays {
   derivative(y: Float64Array, out: Float64Array): Promise<void>;
   /** phi and Psi of every site (for observables) */
   meanFields(y: Float64Array): Promise<void>;
-  /** out = y + h sum_j coefficients[j] stages[j], j < count */
-  combine(out: Float64Array, y: Float64Array, h: number, coefficients: Float64Array, stages: readonly Float64Array[], count: number): Promise<void>;
-  /** scaled maximum norm of the embedded error estimate (rungeKuttaKernels.ts) */
-  errorNorm(
-    y0: Float64Array,
-    y1: Float64Array,
-    h: number,
-    errorWeights: Float64Array,
-    stages: readonly Float64Array[],
-    count: number,
-    absoluteTolerance: number,
-    relativeTolerance: number,
-  ): Promise<number>;
-  /** max |v| / (atol + rtol |y|) */
-  scaledMax(v: Float64Array, y: Float64Array, absoluteTolerance: number, relativeTolerance: number): Promise<number>;
+  /** out = y + h sum_j coefficients[j] stages[j], j < count (combineRange over every component) */
+  combine(...args: OverAllComponents<typeof combineRange>): Promise<void>;
+  /** scaled maximum norm of the embedded error estimate (errorNormRange over every component) */
+  errorNorm(...args: OverAllComponents<typeof errorNormRange>): Promise<number>;
+  /** max |v| / (atol + rtol |y|) (scaledMaxRange over every component) */
+  scaledMax(...args: OverAllComponents<typeof scaledMaxRange>): Promise<number>;
   /** sites of one colour: c_i <- exp(-i rate H_i tau) c_i with the other colour frozen */
   propagateColour(y: Float64Array, colour: number, tau: number): Promise<void>;
 }
