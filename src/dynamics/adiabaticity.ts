@@ -18,6 +18,7 @@
 // The verdict "adiabatic" means excess energy per atom <= threshold; the threshold is a
 // choice (default 1% of the energy scale, normally U), not a law, and is reported.
 
+import { goldenSectionMaximum } from '../numerics/goldenSection.js';
 import type { DynamicsFrame } from './dynamicsFrame.js';
 import { createObservableWorkspace, evolutionTotals, type EvolutionTotals } from './dynamicObservables.js';
 import type { GutzwillerState } from './gutzwillerState.js';
@@ -140,19 +141,24 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
       shell.groundHoles += groundHoles;
     }
   }
+  // |<g_i| e^{i alpha n} |psi_i>|^2: the fidelity of site i once the global phase rotation
+  // alpha (the one the ramp leaves undetermined) is taken out
+  const siteFidelity = (i: number, alpha: number): number => {
+    let re = 0;
+    let im = 0;
+    for (let n = 0; n < S; n++) {
+      const c = Math.cos(n * alpha);
+      const s = Math.sin(n * alpha);
+      re += overlapRe[i * S + n] * c - overlapIm[i * S + n] * s;
+      im += overlapRe[i * S + n] * s + overlapIm[i * S + n] * c;
+    }
+    return re * re + im * im;
+  };
   const fidelitySum = (alpha: number): number => {
     let total = 0;
     for (let i = 0; i < siteCount; i++) {
       if (!occupied[i]) continue;
-      let re = 0;
-      let im = 0;
-      for (let n = 0; n < S; n++) {
-        const c = Math.cos(n * alpha);
-        const s = Math.sin(n * alpha);
-        re += overlapRe[i * S + n] * c - overlapIm[i * S + n] * s;
-        im += overlapRe[i * S + n] * s + overlapIm[i * S + n] * c;
-      }
-      total += re * re + im * im;
+      total += siteFidelity(i, alpha);
     }
     return total;
   };
@@ -168,43 +174,13 @@ export function adiabaticityVerdict(request: AdiabaticityRequest): AdiabaticityV
       bestAlpha = alpha;
     }
   }
-  const golden = (Math.sqrt(5) - 1) / 2;
-  let lo = bestAlpha - (2 * Math.PI) / grid;
-  let hi = bestAlpha + (2 * Math.PI) / grid;
-  let x1 = hi - golden * (hi - lo);
-  let x2 = lo + golden * (hi - lo);
-  let f1 = fidelitySum(x1);
-  let f2 = fidelitySum(x2);
-  for (let iter = 0; iter < 60; iter++) {
-    if (f1 > f2) {
-      hi = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = hi - golden * (hi - lo);
-      f1 = fidelitySum(x1);
-    } else {
-      lo = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = lo + golden * (hi - lo);
-      f2 = fidelitySum(x2);
-    }
-  }
-  const alpha = f1 > f2 ? x1 : x2;
+  const alpha = goldenSectionMaximum(fidelitySum, bestAlpha - (2 * Math.PI) / grid, bestAlpha + (2 * Math.PI) / grid, { steps: 60 }).x;
   let infidelitySum = 0;
   let infidelityMax = 0;
   let occupiedCount = 0;
   for (let i = 0; i < siteCount; i++) {
     if (!occupied[i]) continue;
-    let re = 0;
-    let im = 0;
-    for (let n = 0; n < S; n++) {
-      const c = Math.cos(n * alpha);
-      const s = Math.sin(n * alpha);
-      re += overlapRe[i * S + n] * c - overlapIm[i * S + n] * s;
-      im += overlapRe[i * S + n] * s + overlapIm[i * S + n] * c;
-    }
-    const inf = Math.max(0, 1 - (re * re + im * im));
+    const inf = Math.max(0, 1 - siteFidelity(i, alpha));
     infidelitySum += inf;
     if (inf > infidelityMax) infidelityMax = inf;
     occupiedCount++;

@@ -14,35 +14,45 @@ import { sharedFloat64 } from './gutzwillerState.js';
 import { combineRange, errorNormRange, scaledMaxRange } from './rungeKuttaKernels.js';
 import { createExponentialWorkspace, propagateColourRange } from './siteExponential.js';
 
-export interface DynamicsRunner {
-  /** compute threads in use, the calling thread included */
-  readonly threads: number;
-  /** the Hamiltonian the passes read; drives write it between passes */
-  readonly frame: DynamicsFrame;
-  /** phi_i and Psi_i of the last pass (shared arrays) */
+/**
+ * phi_i and Psi_i of every site, on shared memory so that the worker threads of a parallel
+ * runner write their ranges in place and the integrators read them without a copy.
+ */
+export interface MeanFieldArrays {
   readonly phiRe: Float64Array;
   readonly phiIm: Float64Array;
   readonly psiRe: Float64Array;
   readonly psiIm: Float64Array;
+}
+
+/** Zeroed mean-field arrays for siteCount sites, on SharedArrayBuffers. */
+export function createMeanFieldArrays(siteCount: number): MeanFieldArrays {
+  return { phiRe: sharedFloat64(siteCount), phiIm: sharedFloat64(siteCount), psiRe: sharedFloat64(siteCount), psiIm: sharedFloat64(siteCount) };
+}
+
+/**
+ * The arguments of a range kernel of rungeKuttaKernels.ts without its trailing component
+ * range [start, end): a runner applies the kernel to every component, split as it likes, so
+ * the pass takes exactly what the kernel takes, declared once there.
+ */
+type OverAllComponents<F> = F extends (...args: [...infer Inputs, start: number, end: number]) => unknown ? Inputs : never;
+
+/** The passes; phiRe .. psiIm hold phi_i and Psi_i of the last pass. */
+export interface DynamicsRunner extends MeanFieldArrays {
+  /** compute threads in use, the calling thread included */
+  readonly threads: number;
+  /** the Hamiltonian the passes read; drives write it between passes */
+  readonly frame: DynamicsFrame;
   /** out = dy/dt at the frame's parameters */
   derivative(y: Float64Array, out: Float64Array): Promise<void>;
   /** phi and Psi of every site (for observables) */
   meanFields(y: Float64Array): Promise<void>;
-  /** out = y + h sum_j coefficients[j] stages[j], j < count */
-  combine(out: Float64Array, y: Float64Array, h: number, coefficients: Float64Array, stages: readonly Float64Array[], count: number): Promise<void>;
-  /** scaled maximum norm of the embedded error estimate (rungeKuttaKernels.ts) */
-  errorNorm(
-    y0: Float64Array,
-    y1: Float64Array,
-    h: number,
-    errorWeights: Float64Array,
-    stages: readonly Float64Array[],
-    count: number,
-    absoluteTolerance: number,
-    relativeTolerance: number,
-  ): Promise<number>;
-  /** max |v| / (atol + rtol |y|) */
-  scaledMax(v: Float64Array, y: Float64Array, absoluteTolerance: number, relativeTolerance: number): Promise<number>;
+  /** out = y + h sum_j coefficients[j] stages[j], j < count (combineRange over every component) */
+  combine(...args: OverAllComponents<typeof combineRange>): Promise<void>;
+  /** scaled maximum norm of the embedded error estimate (errorNormRange over every component) */
+  errorNorm(...args: OverAllComponents<typeof errorNormRange>): Promise<number>;
+  /** max |v| / (atol + rtol |y|) (scaledMaxRange over every component) */
+  scaledMax(...args: OverAllComponents<typeof scaledMaxRange>): Promise<number>;
   /** sites of one colour: c_i <- exp(-i rate H_i tau) c_i with the other colour frozen */
   propagateColour(y: Float64Array, colour: number, tau: number): Promise<void>;
 }
@@ -51,19 +61,14 @@ export interface DynamicsRunner {
 export function createSerialRunner(frame: DynamicsFrame): DynamicsRunner {
   const n = frame.siteCount;
   const width = 2 * frame.states;
-  const phiRe = sharedFloat64(n);
-  const phiIm = sharedFloat64(n);
-  const psiRe = sharedFloat64(n);
-  const psiIm = sharedFloat64(n);
+  const fields = createMeanFieldArrays(n);
+  const { phiRe, phiIm, psiRe, psiIm } = fields;
   const work = createExponentialWorkspace(frame.nmax);
   const components = n * width;
   return {
     threads: 1,
     frame,
-    phiRe,
-    phiIm,
-    psiRe,
-    psiIm,
+    ...fields,
     async derivative(y, out) {
       orderParameterRange(y, frame.states, frame.sqrtN, phiRe, phiIm, 0, n);
       meanFieldRange(frame, phiRe, phiIm, psiRe, psiIm, -1, 0, n);

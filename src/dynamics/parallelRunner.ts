@@ -15,9 +15,10 @@
 
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from 'node:worker_threads';
 import type { DynamicsFrame } from './dynamicsFrame.js';
-import type { DynamicsRunner } from './dynamicsRunner.js';
+import { createMeanFieldArrays, type DynamicsRunner } from './dynamicsRunner.js';
 import { hamiltonianActionRange, meanFieldRange, orderParameterRange } from './equationsOfMotion.js';
 import { sharedFloat64 } from './gutzwillerState.js';
+import { runLocalShare } from '../solver/localShare.js';
 import { combineRange, errorNormRange, scaledMaxRange } from './rungeKuttaKernels.js';
 import { createExponentialWorkspace, propagateColourRange } from './siteExponential.js';
 import { ArrayId, Control, Op, Parameter, type FrameLayoutMessage } from './dynamicsPoolProtocol.js';
@@ -116,26 +117,21 @@ class WorkerPool implements DynamicsPool {
     c[Control.OP] = op;
     Atomics.add(c, Control.GENERATION, 1);
     Atomics.notify(c, Control.GENERATION);
-    let value = 0;
-    let localError: unknown = null;
-    try {
-      value = local();
-    } catch (err) {
-      localError = err;
-    }
-    await this.waitDone();
-    if (Atomics.load(c, Control.FAILED) !== 0) {
-      Atomics.store(c, Control.FAILED, 0);
-      const messages: string[] = [];
-      for (const port of this.ports) {
-        for (let m = receiveMessageOnPort(port); m !== undefined; m = receiveMessageOnPort(port)) {
-          const body = m.message as { type?: string; message?: string; index?: number };
-          if (body.type === 'error') messages.push(`worker ${body.index}: ${body.message}`);
+    // worker failures first, then an error of the local share (runLocalShare)
+    let { local: value } = await runLocalShare(local, async () => {
+      await this.waitDone();
+      if (Atomics.load(c, Control.FAILED) !== 0) {
+        Atomics.store(c, Control.FAILED, 0);
+        const messages: string[] = [];
+        for (const port of this.ports) {
+          for (let m = receiveMessageOnPort(port); m !== undefined; m = receiveMessageOnPort(port)) {
+            const body = m.message as { type?: string; message?: string; index?: number };
+            if (body.type === 'error') messages.push(`worker ${body.index}: ${body.message}`);
+          }
         }
+        throw new Error(`a dynamics worker thread failed: ${messages.join('; ') || 'no message'}`);
       }
-      throw new Error(`a dynamics worker thread failed: ${messages.join('; ') || 'no message'}`);
-    }
-    if (localError !== null) throw localError;
+    });
     // the same rule as inside a range (r > max), so NaN is treated alike for any split
     for (let w = 0; w < this.workers; w++) if (this.results[w] > value) value = this.results[w];
     return value;
@@ -223,10 +219,8 @@ export function createParallelRunner(frame: DynamicsFrame, pool: DynamicsPool): 
   const parts = Math.min(p.workers + 1, n);
   const ranges = siteRanges(n, p.workers + 1);
   const [s0, s1] = ranges[0];
-  const phiRe = sharedFloat64(n);
-  const phiIm = sharedFloat64(n);
-  const psiRe = sharedFloat64(n);
-  const psiIm = sharedFloat64(n);
+  const fields = createMeanFieldArrays(n);
+  const { phiRe, phiIm, psiRe, psiIm } = fields;
   const work = createExponentialWorkspace(frame.nmax);
   const runnerId = ++p.runnerCount;
   const c = p.control;
@@ -288,10 +282,7 @@ export function createParallelRunner(frame: DynamicsFrame, pool: DynamicsPool): 
   return {
     threads: parts,
     frame,
-    phiRe,
-    phiIm,
-    psiRe,
-    psiIm,
+    ...fields,
     async derivative(y, out) {
       await orderParameter(y);
       prepare({ y, out });

@@ -16,6 +16,7 @@
 // pipeline reports it as an input error before anything is solved.
 
 import { ParameterError } from '../physics/parameterError.js';
+import { keptAxes } from '../lattice/columnProjection.js';
 import { columnDensity, type ImagingAxis } from './columnDensity.js';
 import { inSituImage } from './inSituImage.js';
 import { objectPlanePixelUm, type CameraGrid } from './cameraResample.js';
@@ -90,7 +91,7 @@ function imagingAxisOf(letter: 'x' | 'y' | 'z', dims: number): ImagingAxis {
 export function cameraOptics(cloud: CloudForImaging, camera: CameraSettings = defaultCameraSettings()): CameraOptics {
   const dims = cloud.shape.length;
   const axis = imagingAxisOf(camera.imagingAxis, dims);
-  const keptAxes: [number, number] = axis === 0 ? [1, 2] : axis === 1 ? [0, 2] : [0, 1];
+  const kept = keptAxes(axis);
   const laboratory = cloud.latticeSpacingUm !== null;
   const cellUm = cloud.latticeSpacingUm ?? 1;
   if (!laboratory && camera.cameraPixelUm !== undefined) {
@@ -127,14 +128,14 @@ export function cameraOptics(cloud: CloudForImaging, camera: CameraSettings = de
   const centre = (d: number) => (d < dims ? cloud.trapCentre[d] : 0);
   return {
     axis,
-    keptAxes,
+    keptAxes: kept,
     cellUm,
     pixelUm,
     cameraPixel: cameraPixel ?? pixelUm * camera.magnification,
     psfSigmaUm: sigma,
     psfSource,
     lengthUnit: laboratory ? micrometres : latticeSites,
-    originUm: { x: -centre(keptAxes[0]) * cellUm, y: -centre(keptAxes[1]) * cellUm },
+    originUm: { x: -centre(kept[0]) * cellUm, y: -centre(kept[1]) * cellUm },
   };
 }
 

@@ -23,6 +23,7 @@
 // (default: the lattice centre sits at 0, 0); axis 0 of the field is x.
 
 import { assertPlanarField, type PlanarField } from './planarField.js';
+import type { PixelPicture } from './pixelPicture.js';
 
 /** Pixel grid in the object plane: pixel (k, l) is centred at (firstXUm + k p, firstYUm + l p). */
 export interface CameraGrid {
@@ -45,12 +46,8 @@ export interface CameraResampleOptions {
   marginUm?: number;
 }
 
-export interface CameraImage extends PlanarField {
-  /** Atoms per pixel are in `values`; pixel size in the object plane, micrometres. */
-  pixelUm: number;
-  /** Pixel-centre coordinates along image axis 0 and 1, micrometres. */
-  xCentresUm: Float64Array;
-  yCentresUm: Float64Array;
+/** Atoms per pixel in `values`; pixel size and pixel centres in the object plane, micrometres. */
+export interface CameraImage extends PixelPicture {
   /** Atoms in cells that the pixel grid does not cover (0 for the automatic grid). */
   atomsOutside: number;
 }

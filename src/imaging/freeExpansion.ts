@@ -31,10 +31,12 @@
 // correlations <b_i^+ b_j> of Mott regions, which the product state lacks) add
 // sum_bonds c_b 2 Re[w_t*(r - r_i) w_t(r - r_j)], separable in the same way.
 
+import { columnProjection } from '../lattice/columnProjection.js';
 import { gridSizes } from '../lattice/gridShape.js';
 import type { OrderParameterField } from '../observables/momentumStructureFactor.js';
 import { hbarOverMassUm2PerMs, type SiteOrbital1d } from './siteOrbital.js';
 import type { BondCoherenceColumns } from './particleHoleCoherence.js';
+import type { PixelPicture } from './pixelPicture.js';
 
 /** Pixel grid after the flight: pixel (k, l) is centred at (firstXUm + k pixelUm, firstYUm + l pixelUm). */
 export interface FlightPixelGrid {
@@ -64,14 +66,8 @@ export interface FreeExpansionOptions {
   bondCoherence?: BondCoherenceColumns;
 }
 
-export interface FreeExpansionImage {
-  /** Atoms per pixel, index i * ny + j (axis 0 = first kept lattice axis). */
-  values: Float64Array;
-  nx: number;
-  ny: number;
-  pixelUm: number;
-  xCentresUm: Float64Array;
-  yCentresUm: Float64Array;
+/** Atoms per pixel in `values`, index i * ny + j (axis 0 = first kept lattice axis). */
+export interface FreeExpansionImage extends PixelPicture {
   /** Atoms in the picture from the coherent term, the incoherent term and the bond term. */
   coherentAtoms: number;
   incoherentAtoms: number;
@@ -247,14 +243,7 @@ export function freeExpansionImage(field: OrderParameterField, options: FreeExpa
     throw new RangeError(`freeExpansionImage: grid must have positive integer sizes and pixel size, got ${P} x ${Q}, ${pixelUm} um`);
   }
   const axis = options.imagingAxis ?? 2;
-  const kept: [number, number] = axis === 0 ? [1, 2] : axis === 1 ? [0, 2] : [0, 1];
-  const strides = [n[1] * n[2], n[2], 1];
-  const lu = n[kept[0]];
-  const lv = n[kept[1]];
-  const su = strides[kept[0]];
-  const sv = strides[kept[1]];
-  const sl = strides[axis];
-  const layers = n[axis];
+  const { lu, lv, su, sv, sl, layers } = columnProjection(n, axis);
   const [au, av] = typeof options.latticeSpacingUm === 'number' ? [options.latticeSpacingUm, options.latticeSpacingUm] : options.latticeSpacingUm;
   const origin = options.originUm ?? { x: (-(lu - 1) * au) / 2, y: (-(lv - 1) * av) / 2 };
 

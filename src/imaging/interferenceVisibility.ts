@@ -26,6 +26,7 @@
 
 import type { MomentumStructureFactor } from '../observables/momentumStructureFactor.js';
 import type { MomentumEnvelope } from './wannierEnvelope.js';
+import type { PixelPicture } from './pixelPicture.js';
 
 export interface VisibilityOptions {
   latticeSpacingUm: number;
@@ -116,29 +117,7 @@ export function interferenceVisibility(structure: MomentumStructureFactor, optio
     return coherent * cellWeight + structure.incoherentAtoms * envIntegral;
   };
 
-  let peakAtoms = 0;
-  let diagonalAtoms = 0;
-  for (let k = 0; k < 4; k++) {
-    peakAtoms += diskAtoms((k * Math.PI) / 2);
-    diagonalAtoms += diskAtoms(Math.PI / 4 + (k * Math.PI) / 2);
-  }
-  const total = peakAtoms + diagonalAtoms;
-  return {
-    visibility: total > 0 ? (peakAtoms - diagonalAtoms) / total : 0,
-    peakAtoms,
-    diagonalAtoms,
-    diskRadiusInTwoHbarKl: radius,
-  };
-}
-
-/** A picture on a regular grid whose coordinates are measured from the zero-momentum peak. */
-export interface FlightPicture {
-  values: Float64Array;
-  nx: number;
-  ny: number;
-  pixelUm: number;
-  xCentresUm: Float64Array;
-  yCentresUm: Float64Array;
+  return fourDiskVisibility(diskAtoms, radius);
 }
 
 export interface PictureVisibilityOptions {
@@ -158,9 +137,10 @@ export interface PictureVisibility extends InterferenceVisibility {
  * any camera picture): atoms in the disks of radius r x_1 around (+-x_1, 0), (0, +-x_1) and
  * around the four diagonal points at the same distance, pixels weighted by the fraction of
  * their area inside the disk (8 x 8 sub-samples at the rim). Far from the far field the disks
- * keep their far-field places, as in an experiment's analysis.
+ * keep their far-field places, as in an experiment's analysis. The picture's coordinates are
+ * measured from the zero-momentum peak.
  */
-export function pictureVisibility(picture: FlightPicture, options: PictureVisibilityOptions): PictureVisibility {
+export function pictureVisibility(picture: PixelPicture, options: PictureVisibilityOptions): PictureVisibility {
   const x1 = options.firstOrderPeakUm;
   if (!(x1 > 0) || !Number.isFinite(x1)) {
     throw new Error(`pictureVisibility: firstOrderPeakUm must be a positive number of um, got ${x1}`);
@@ -206,6 +186,17 @@ export function pictureVisibility(picture: FlightPicture, options: PictureVisibi
     }
     return sum;
   };
+  // the disks are counted first, so `outside` is complete when it is read
+  return { ...fourDiskVisibility(diskAtoms, radius), disksOutsidePicture: outside };
+}
+
+/**
+ * V = (peak - diagonal) / (peak + diagonal) from the atoms in the four disks at the
+ * first-order peaks (angles 0, 90, 180, 270 degrees) and the four diagonal disks (45 + k 90);
+ * shared by the momentum-space and the picture measurement so that both count the disks in
+ * the same order and round alike.
+ */
+function fourDiskVisibility(diskAtoms: (angle: number) => number, radius: number): InterferenceVisibility {
   let peakAtoms = 0;
   let diagonalAtoms = 0;
   for (let k = 0; k < 4; k++) {
@@ -218,6 +209,5 @@ export function pictureVisibility(picture: FlightPicture, options: PictureVisibi
     peakAtoms,
     diagonalAtoms,
     diskRadiusInTwoHbarKl: radius,
-    disksOutsidePicture: outside,
   };
 }

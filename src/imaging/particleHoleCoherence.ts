@@ -26,6 +26,7 @@
 // B(k) = sum_ij e^{i k.(r_i - r_j)} <b_i^+ b_j>, whatever its position, so only the sums per
 // axis matter (withBondCoherence). Finite flight: freeExpansion.ts uses the per-column arrays.
 
+import { columnProjection } from '../lattice/columnProjection.js';
 import { gridSizes } from '../lattice/gridShape.js';
 import type { MomentumStructureFactor } from '../observables/momentumStructureFactor.js';
 
@@ -77,10 +78,8 @@ export function particleHoleBondCoherence(input: ParticleHoleInput): BondCoheren
     throw new RangeError(`particleHoleBondCoherence: sitePotential must hold ${sites} values`);
   }
   const axis = input.imagingAxis ?? 2;
-  const kept: [number, number] = axis === 0 ? [1, 2] : axis === 1 ? [0, 2] : [0, 1];
+  const { kept, lu, lv } = columnProjection(n, axis);
   const strides = [n[1] * n[2], n[2], 1];
-  const lu = n[kept[0]];
-  const lv = n[kept[1]];
   const alongU = new Float64Array(lu * lv);
   const alongV = new Float64Array(lu * lv);
   let bondsUsed = 0;

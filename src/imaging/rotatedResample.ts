@@ -14,6 +14,7 @@
 
 import type { CameraGrid, CameraImage } from './cameraResample.js';
 import { assertPlanarField, type PlanarField } from './planarField.js';
+import { quadrilateralSquareOverlap, touchedPixels } from './squareOverlap.js';
 
 export interface RotatedResampleOptions {
   /** Lattice spacing, length unit. */
@@ -25,54 +26,6 @@ export interface RotatedResampleOptions {
   /** Turn of the lattice x axis against the picture x axis, counter-clockwise, radians. */
   angleRad: number;
   grid: CameraGrid;
-}
-
-// Clipping buffers (x, y interleaved), reused: a square clipped by four half-planes has at most 8 vertices.
-const polyA = new Float64Array(32);
-const polyB = new Float64Array(32);
-
-/** Clip `src` (n vertices) to the half-plane sign * (coordinate - limit) <= 0; returns the vertex count in dst. */
-function clip(src: Float64Array, n: number, dst: Float64Array, axis: number, limit: number, sign: number): number {
-  let m = 0;
-  for (let i = 0; i < n; i++) {
-    const j = i + 1 === n ? 0 : i + 1;
-    const ax = src[2 * i];
-    const ay = src[2 * i + 1];
-    const bx = src[2 * j];
-    const by = src[2 * j + 1];
-    const da = sign * ((axis === 0 ? ax : ay) - limit);
-    const db = sign * ((axis === 0 ? bx : by) - limit);
-    if (da <= 0) {
-      dst[2 * m] = ax;
-      dst[2 * m + 1] = ay;
-      m++;
-    }
-    if ((da < 0 && db > 0) || (da > 0 && db < 0)) {
-      const f = da / (da - db);
-      dst[2 * m] = ax + f * (bx - ax);
-      dst[2 * m + 1] = ay + f * (by - ay);
-      m++;
-    }
-  }
-  return m;
-}
-
-/** Area of the quadrilateral `corners` (pixel units) inside the unit square [x0, x0 + 1] x [y0, y0 + 1]. */
-function overlapArea(corners: Float64Array, x0: number, y0: number): number {
-  for (let k = 0; k < 8; k++) polyA[k] = corners[k];
-  let n = clip(polyA, 4, polyB, 0, x0, -1);
-  if (n === 0) return 0;
-  n = clip(polyB, n, polyA, 0, x0 + 1, 1);
-  if (n === 0) return 0;
-  n = clip(polyA, n, polyB, 1, y0, -1);
-  if (n === 0) return 0;
-  n = clip(polyB, n, polyA, 1, y0 + 1, 1);
-  let area = 0;
-  for (let i = 0; i < n; i++) {
-    const j = i + 1 === n ? 0 : i + 1;
-    area += polyA[2 * i] * polyA[2 * j + 1] - polyA[2 * j] * polyA[2 * i + 1];
-  }
-  return Math.abs(area) / 2;
 }
 
 /** Resample a site field (atoms per site) onto a pixel grid turned by angleRad (see the file header). */
@@ -94,6 +47,7 @@ export function resampleRotated(sites: PlanarField, options: RotatedResampleOpti
   const perArea = (pixelUm * pixelUm) / (cellUm * cellUm); // weight per unit of pixel-area overlap
   const half = cellUm / 2;
   const corners = new Float64Array(8);
+  const range = new Float64Array(4);
   const { nx, ny } = sites;
   let totalIn = 0;
   let totalOut = 0;
@@ -104,29 +58,16 @@ export function resampleRotated(sites: PlanarField, options: RotatedResampleOpti
       if (atoms === 0) continue;
       totalIn += atoms;
       const v = originUm.y + j * cellUm;
-      let minX = Infinity;
-      let maxX = -Infinity;
-      let minY = Infinity;
-      let maxY = -Infinity;
       for (let k = 0; k < 4; k++) {
         const du = k === 1 || k === 2 ? half : -half;
         const dv = k >= 2 ? half : -half;
-        const X = (c * (u + du) - s * (v + dv)) * inv + ox;
-        const Y = (s * (u + du) + c * (v + dv)) * inv + oy;
-        corners[2 * k] = X;
-        corners[2 * k + 1] = Y;
-        if (X < minX) minX = X;
-        if (X > maxX) maxX = X;
-        if (Y < minY) minY = Y;
-        if (Y > maxY) maxY = Y;
+        corners[2 * k] = (c * (u + du) - s * (v + dv)) * inv + ox;
+        corners[2 * k + 1] = (s * (u + du) + c * (v + dv)) * inv + oy;
       }
-      const k0 = Math.max(0, Math.floor(minX));
-      const k1 = Math.min(gx - 1, Math.floor(maxX));
-      const l0 = Math.max(0, Math.floor(minY));
-      const l1 = Math.min(gy - 1, Math.floor(maxY));
-      for (let k = k0; k <= k1; k++) {
-        for (let l = l0; l <= l1; l++) {
-          const area = overlapArea(corners, k, l);
+      touchedPixels(corners, gx, gy, range);
+      for (let k = range[0]; k <= range[1]; k++) {
+        for (let l = range[2]; l <= range[3]; l++) {
+          const area = quadrilateralSquareOverlap(corners, k, l);
           if (area > 0) {
             const w = atoms * area * perArea;
             values[k * gy + l] += w;

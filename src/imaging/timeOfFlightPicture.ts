@@ -22,6 +22,7 @@ import { cloudRadiusUm, farFieldCheck, timeOfFlightScales, type FarFieldCheck, t
 import { orbitalEnvelope } from './wannierEnvelope.js';
 import { withBondCoherence, type BondCoherenceColumns } from './particleHoleCoherence.js';
 import type { SiteOrbital1d } from './siteOrbital.js';
+import type { PixelPicture } from './pixelPicture.js';
 import { momentumStructureFactor, type OrderParameterField } from '../observables/momentumStructureFactor.js';
 
 export interface TimeOfFlightPictureInput {
@@ -52,15 +53,9 @@ export interface TimeOfFlightPictureInput {
   subSamplesPerPixel?: number;
 }
 
-export interface TimeOfFlightPicture {
+/** Atoms per pixel in `values`, index i * ny + j, with pixel centres (um after the flight). */
+export interface TimeOfFlightPicture extends PixelPicture {
   model: TimeOfFlightModel;
-  /** Atoms per pixel, index i * ny + j, with pixel centres (um after the flight). */
-  values: Float64Array;
-  nx: number;
-  ny: number;
-  pixelUm: number;
-  xCentresUm: Float64Array;
-  yCentresUm: Float64Array;
   /** Title suffix and sidecar description, naming the model (and 'far-field approximation' when it is one). */
   label: string;
   description: string;

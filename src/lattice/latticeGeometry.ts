@@ -77,3 +77,28 @@ export function siteCoordinates(geometry: LatticeGeometry, index: number, out: n
   out.length = geometry.dims;
   return out;
 }
+
+/**
+ * One value per site, in flat C order, from valueAt(q) with q = [a, b, c] the internal
+ * coordinates of the site (leading axes of length 1 for a chain or a plane). For the
+ * landscape terms that are not a sum of one table per axis (box walls, a projected image):
+ * they read their coordinates from q instead of each writing the triple loop. q is one
+ * buffer reused for every site: read it, do not keep it.
+ */
+export function mapSites(geometry: LatticeGeometry, valueAt: (q: Int32Array) => number): Float64Array {
+  const [n0, n1, n2] = geometry.inner;
+  const q = new Int32Array(3);
+  const out = new Float64Array(geometry.siteCount);
+  let i = 0;
+  for (let a = 0; a < n0; a++) {
+    q[0] = a;
+    for (let b = 0; b < n1; b++) {
+      q[1] = b;
+      for (let c = 0; c < n2; c++) {
+        q[2] = c;
+        out[i++] = valueAt(q);
+      }
+    }
+  }
+  return out;
+}

@@ -63,28 +63,25 @@ function factor(
     const c = off[k];
     const a = diag[k + 1] - lambda;
     const b = k + 1 < n - 1 ? off[k + 1] : 0;
-    if (Math.abs(c) > Math.abs(p)) {
-      u0[k] = c;
-      u1[k] = a;
-      u2[k] = b;
-      const m = p / c;
-      multiplier[k] = m;
-      swapped[k] = 1;
-      p = q - m * a;
-      q = r - m * b;
-      r = 0;
-    } else {
-      if (p === 0) p = tiny;
-      u0[k] = p;
-      u1[k] = q;
-      u2[k] = r;
-      const m = c / p;
-      multiplier[k] = m;
-      swapped[k] = 0;
-      p = a - m * q;
-      q = b - m * r;
-      r = 0;
-    }
+    // The pending row (p, q, r) and the next row (c, a, b): the one with the larger leading
+    // entry becomes row k of U, the other is eliminated against it and stays pending.
+    const swap = Math.abs(c) > Math.abs(p);
+    if (!swap && p === 0) p = tiny;
+    const pivot0 = swap ? c : p;
+    const pivot1 = swap ? a : q;
+    const pivot2 = swap ? b : r;
+    const rest0 = swap ? p : c;
+    const rest1 = swap ? q : a;
+    const rest2 = swap ? r : b;
+    u0[k] = pivot0;
+    u1[k] = pivot1;
+    u2[k] = pivot2;
+    const m = rest0 / pivot0;
+    multiplier[k] = m;
+    swapped[k] = swap ? 1 : 0;
+    p = rest1 - m * pivot1;
+    q = rest2 - m * pivot2;
+    r = 0;
   }
   u0[n - 1] = p === 0 ? tiny : p;
   u1[n - 1] = 0;

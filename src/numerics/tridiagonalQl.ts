@@ -15,7 +15,12 @@
 // to 0 on return). Everything happens in place: on return d holds the eigenvalues, NOT
 // sorted. With z (n x n row-major, the identity on entry) the rotations are accumulated so
 // that column j of z (z[k * n + j], k = 0..n-1) is the normalised eigenvector of d[j] (tql2);
-// with z = null only eigenvalues are computed (tql1, O(n^2)).
+// with z = null only eigenvalues are computed (tql1, O(n^2)). With vectorsInRows the same
+// rotations act on rows instead (row j of z is the eigenvector of d[j], contiguous memory):
+// the site spectrum (solver/site/fullSpectrum.ts) wants its eigenvectors as rows, and the
+// dense solver (solver/cluster/symmetricEigen.ts) keeps its Householder basis transposed so
+// that its inner loops run over contiguous memory; one QL serves both layouts, the layout
+// test sitting outside the k loop (one branch per rotation).
 //
 // Hot path: the site problem of the solver calls this once per site update, so it allocates
 // nothing and returns a plain boolean instead of a result object.
@@ -25,10 +30,18 @@ export const qlIterationLimit = 60;
 
 /**
  * Implicit QL with Wilkinson shifts on d, e (length >= n) in place; see the file header.
+ * z (n x n, the starting basis) receives the rotations on its columns, or on its rows when
+ * vectorsInRows is true.
  * Returns false when an eigenvalue needed more than qlIterationLimit iterations (d, e, z
  * then hold a partial result and must not be used).
  */
-export function tridiagonalQl(d: Float64Array, e: Float64Array, n: number, z: Float64Array | null): boolean {
+export function tridiagonalQl(
+  d: Float64Array,
+  e: Float64Array,
+  n: number,
+  z: Float64Array | null,
+  vectorsInRows = false,
+): boolean {
   const eps = 2.220446049250313e-16;
   let f = 0;
   let tst1 = 0;
@@ -73,12 +86,23 @@ export function tridiagonalQl(d: Float64Array, e: Float64Array, n: number, z: Fl
           p = c * d[i] - sn * g;
           d[i + 1] = h + sn * (c * g + sn * d[i]);
           if (z !== null) {
-            // accumulate the rotation on columns i and i + 1 of every row k
-            for (let k = 0; k < n; k++) {
-              const zk = k * n;
-              h = z[zk + i + 1];
-              z[zk + i + 1] = sn * z[zk + i] + c * h;
-              z[zk + i] = c * z[zk + i] - sn * h;
+            if (vectorsInRows) {
+              // the same rotation on rows i and i + 1 (contiguous memory)
+              const ri = i * n;
+              const rj = ri + n;
+              for (let k = 0; k < n; k++) {
+                h = z[rj + k];
+                z[rj + k] = sn * z[ri + k] + c * h;
+                z[ri + k] = c * z[ri + k] - sn * h;
+              }
+            } else {
+              // accumulate the rotation on columns i and i + 1 of every row k
+              for (let k = 0; k < n; k++) {
+                const zk = k * n;
+                h = z[zk + i + 1];
+                z[zk + i + 1] = sn * z[zk + i] + c * h;
+                z[zk + i] = c * z[zk + i] - sn * h;
+              }
             }
           }
         }

@@ -30,6 +30,7 @@
 // above with x = phi. Discrete Parseval: sum over the M^2 samples of B = M^2 N exactly.
 
 import { ComplexFft2d, isPowerOfTwo, nextPowerOfTwo } from '../numerics/fft.js';
+import { columnProjection } from '../lattice/columnProjection.js';
 import { gridSizes } from '../lattice/gridShape.js';
 
 export interface OrderParameterField {
@@ -79,14 +80,7 @@ export function momentumStructureFactor(
   if (axis !== 0 && axis !== 1 && axis !== 2) {
     throw new Error(`momentumStructureFactor: imaging axis must be 0, 1 or 2, got ${String(axis)}`);
   }
-  const kept: [number, number] = axis === 0 ? [1, 2] : axis === 1 ? [0, 2] : [0, 1];
-  const strides = [n[1] * n[2], n[2], 1];
-  const lu = n[kept[0]];
-  const lv = n[kept[1]];
-  const su = strides[kept[0]];
-  const sv = strides[kept[1]];
-  const sl = strides[axis];
-  const layers = n[axis];
+  const { kept, lu, lv, su, sv, sl, layers } = columnProjection(n, axis);
 
   const m = options.samplesPerZone ?? nextPowerOfTwo(Math.max(64, lu, lv));
   if (!isPowerOfTwo(m) || m < Math.max(lu, lv)) {

@@ -112,7 +112,7 @@ describe('implicit QL (tql1 / tql2)', () => {
     expect(Math.abs(ours[20] - ours[19])).toBeLessThan(1e-12);
   });
 
-  it('works in place on the hot-path layout: z column j is eigenvector j, d unsorted', () => {
+  it('works in place on the column layout: z column j is eigenvector j, d unsorted', () => {
     const { diag, off } = randomTridiagonal(6, 'ql/inplace');
     const n = 6;
     const d = Float64Array.from(diag);
@@ -130,6 +130,32 @@ describe('implicit QL (tql1 / tql2)', () => {
       }
     }
     expect(qlIterationLimit).toBeGreaterThanOrEqual(30); // EISPACK's limit
+  });
+
+  it('with vectorsInRows gives the transpose of the column layout, bit for bit', () => {
+    // the same rotations on rows instead of columns: T v = lambda v checked directly on the rows
+    const { diag, off } = randomTridiagonal(7, 'ql/rows');
+    const n = 7;
+    const run = (rows: boolean) => {
+      const d = Float64Array.from(diag);
+      const e = new Float64Array(n);
+      e.set(off);
+      const z = new Float64Array(n * n);
+      for (let i = 0; i < n; i++) z[i * n + i] = 1;
+      expect(tridiagonalQl(d, e, n, z, rows)).toBe(true);
+      return { d, z };
+    };
+    const cols = run(false);
+    const rows = run(true);
+    expect(Array.from(rows.d)).toEqual(Array.from(cols.d));
+    for (let j = 0; j < n; j++) {
+      for (let k = 0; k < n; k++) expect(rows.z[j * n + k]).toBe(cols.z[k * n + j]);
+      const row = (k: number) => rows.z[j * n + k];
+      for (let i = 0; i < n; i++) {
+        const tv = diag[i] * row(i) + (i > 0 ? off[i - 1] * row(i - 1) : 0) + (i < n - 1 ? off[i] * row(i + 1) : 0);
+        expect(Math.abs(tv - rows.d[j] * row(i))).toBeLessThan(1e-13);
+      }
+    }
   });
 
   it('names the bad argument', () => {

@@ -36,6 +36,7 @@
 
 import { ParameterError, requirePositive } from '../../physics/parameterError.js';
 import { checkImage, checkMask, checkSameSize, type CameraWarning, type PixelImage, type PixelMask } from './pixelImage.js';
+import { cameraNoise, type CameraNoiseSettings } from './cameraNoise.js';
 
 export interface AbsorptionFrames {
   /** Raw counts with the cloud in the probe beam. */
@@ -46,7 +47,7 @@ export interface AbsorptionFrames {
   dark?: PixelImage;
 }
 
-export interface AbsorptionSettings {
+export interface AbsorptionSettings extends CameraNoiseSettings {
   /** Resonant cross-section sigma0, um^2. */
   crossSectionUm2: number;
   /** Object-plane area of one pixel, um^2. */
@@ -59,10 +60,6 @@ export interface AbsorptionSettings {
   minimumProbeCounts?: number;
   /** Largest measured OD = ln(I0/I) a pixel may have; default 4. */
   maximumOpticalDepth?: number;
-  /** Camera counts per photoelectron (gain), for the noise estimate; default 1. */
-  countsPerPhotoelectron?: number;
-  /** Read noise per pixel, counts (rms), for the noise estimate; default 0. */
-  readNoiseCounts?: number;
   /** Region to use (1 = use); default: every pixel. */
   region?: PixelMask;
 }
@@ -125,10 +122,7 @@ export function absorptionImage(frames: AbsorptionFrames, settings: AbsorptionSe
   }
   const maximumOpticalDepth = settings.maximumOpticalDepth ?? 4;
   requirePositive('maximumOpticalDepth', maximumOpticalDepth, '(largest usable measured OD, e.g. 4)');
-  const gain = settings.countsPerPhotoelectron ?? 1;
-  requirePositive('countsPerPhotoelectron', gain, '(camera counts per photoelectron)');
-  const readNoise = settings.readNoiseCounts ?? 0;
-  if (!(readNoise >= 0) || !Number.isFinite(readNoise)) throw new ParameterError('readNoiseCounts', `expected a read noise >= 0 counts rms, got ${readNoise}`);
+  const { gain, readNoise } = cameraNoise(settings);
   const { width, height } = withAtoms;
   const count = width * height;
   if (settings.region !== undefined) checkMask('region', settings.region, width, height);

@@ -9,14 +9,11 @@
 
 import { requirePositive } from '../../physics/parameterError.js';
 import { checkImage, checkMask, checkSameSize, type PixelImage, type PixelMask } from './pixelImage.js';
+import { cameraNoise, type CameraNoiseSettings } from './cameraNoise.js';
 
-export interface FluorescenceSettings {
+export interface FluorescenceSettings extends CameraNoiseSettings {
   /** Camera counts per atom in the exposure (> 0). */
   countsPerAtom: number;
-  /** Camera counts per photoelectron, for the noise estimate; default 1. */
-  countsPerPhotoelectron?: number;
-  /** Read noise, counts rms, for the noise estimate; default 0. */
-  readNoiseCounts?: number;
   /** Region to use (1 = use); default every pixel. */
   region?: PixelMask;
 }
@@ -40,9 +37,7 @@ export function fluorescenceImage(signal: PixelImage, background: PixelImage | u
     checkSameSize('background', signal, background);
   }
   requirePositive('countsPerAtom', settings.countsPerAtom, '(camera counts per atom in the exposure)');
-  const gain = settings.countsPerPhotoelectron ?? 1;
-  requirePositive('countsPerPhotoelectron', gain, '(camera counts per photoelectron)');
-  const readNoise = settings.readNoiseCounts ?? 0;
+  const { gain, readNoise } = cameraNoise(settings);
   const { width, height } = signal;
   const n = width * height;
   if (settings.region !== undefined) checkMask('region', settings.region, width, height);

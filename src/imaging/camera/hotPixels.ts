@@ -11,6 +11,7 @@
 
 import { ParameterError } from '../../physics/parameterError.js';
 import { checkImage, type PixelImage } from './pixelImage.js';
+import { insertionSortAscending } from '../../numerics/insertionSort.js';
 
 export interface HotPixelOptions {
   /** Threshold in units of the MAD of the residuals; default 10. */
@@ -32,16 +33,7 @@ export interface HotPixelResult {
 }
 
 function medianOf(buffer: Float64Array, n: number): number {
-  // Insertion sort of at most 8 values: no allocation.
-  for (let i = 1; i < n; i++) {
-    const v = buffer[i];
-    let j = i - 1;
-    while (j >= 0 && buffer[j] > v) {
-      buffer[j + 1] = buffer[j];
-      j--;
-    }
-    buffer[j + 1] = v;
-  }
+  insertionSortAscending(buffer, n); // at most 8 values: no allocation
   return n % 2 === 1 ? buffer[n >> 1] : 0.5 * (buffer[n / 2 - 1] + buffer[n / 2]);
 }
 

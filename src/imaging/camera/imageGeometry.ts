@@ -20,6 +20,7 @@
 
 import { ParameterError } from '../../physics/parameterError.js';
 import { checkImage, checkMask, type PixelImage, type PixelMask } from './pixelImage.js';
+import { quadrilateralSquareOverlap, touchedPixels } from '../squareOverlap.js';
 
 /** Rows become columns: out(x = y, y = x); the result is height x width. */
 export function transposeImage(image: PixelImage): PixelImage {
@@ -79,14 +80,20 @@ export function rotatedPosition(geometry: RotationGeometry, x: number, y: number
   return { x: (geometry.outputWidth - 1) / 2 + dx * c + dy * s, y: (geometry.outputHeight - 1) / 2 - dx * s + dy * c };
 }
 
-/** Map a position of the rotated frame back into the input frame (inverse of rotatedPosition). */
+/**
+ * Map a position of the rotated frame back into the input frame (inverse of rotatedPosition):
+ * the rotation by the opposite angle from the output frame to the input frame. Bit for bit
+ * the direct formula, since cos and sin of -t are cos t and -sin t exactly and a + (-b) is a - b.
+ */
 export function unrotatedPosition(geometry: RotationGeometry, x: number, y: number): { x: number; y: number } {
-  const t = (geometry.angleDeg * Math.PI) / 180;
-  const c = Math.cos(t);
-  const s = Math.sin(t);
-  const dx = x - (geometry.outputWidth - 1) / 2;
-  const dy = y - (geometry.outputHeight - 1) / 2;
-  return { x: (geometry.inputWidth - 1) / 2 + dx * c - dy * s, y: (geometry.inputHeight - 1) / 2 + dx * s + dy * c };
+  const inverse: RotationGeometry = {
+    angleDeg: -geometry.angleDeg,
+    inputWidth: geometry.outputWidth,
+    inputHeight: geometry.outputHeight,
+    outputWidth: geometry.inputWidth,
+    outputHeight: geometry.inputHeight,
+  };
+  return rotatedPosition(inverse, x, y);
 }
 
 export interface RotationOptions {
@@ -106,52 +113,6 @@ export interface RotatedImage extends PixelImage {
   totalOut: number;
   /** Part of totalIn that fell outside the output frame. */
   lostOutside: number;
-}
-
-// Polygon clipping buffers (x, y interleaved), reused: a square clipped by four half-planes has at most 8 vertices.
-const polyA = new Float64Array(32);
-const polyB = new Float64Array(32);
-
-/** Clip the polygon in `src` (n vertices) by the half-plane sign * (coord - limit) <= 0 on axis 0 (x) or 1 (y); returns the vertex count in dst. */
-function clip(src: Float64Array, n: number, dst: Float64Array, axis: number, limit: number, sign: number): number {
-  let m = 0;
-  for (let i = 0; i < n; i++) {
-    const j = (i + 1) % n;
-    const ax = src[2 * i], ay = src[2 * i + 1];
-    const bx = src[2 * j], by = src[2 * j + 1];
-    const da = sign * ((axis === 0 ? ax : ay) - limit);
-    const db = sign * ((axis === 0 ? bx : by) - limit);
-    if (da <= 0) {
-      dst[2 * m] = ax;
-      dst[2 * m + 1] = ay;
-      m++;
-    }
-    if ((da < 0 && db > 0) || (da > 0 && db < 0)) {
-      const f = da / (da - db);
-      dst[2 * m] = ax + f * (bx - ax);
-      dst[2 * m + 1] = ay + f * (by - ay);
-      m++;
-    }
-  }
-  return m;
-}
-
-/** Area of the rotated unit square (corners in `corners`) inside the pixel [x0, x0+1] x [y0, y0+1]. */
-function overlapArea(corners: Float64Array, x0: number, y0: number): number {
-  for (let k = 0; k < 8; k++) polyA[k] = corners[k]; // no subarray view: no allocation per call
-  let n = clip(polyA, 4, polyB, 0, x0, -1); // x >= x0
-  if (n === 0) return 0;
-  n = clip(polyB, n, polyA, 0, x0 + 1, 1); // x <= x0 + 1
-  if (n === 0) return 0;
-  n = clip(polyA, n, polyB, 1, y0, -1);
-  if (n === 0) return 0;
-  n = clip(polyB, n, polyA, 1, y0 + 1, 1);
-  let area = 0;
-  for (let i = 0; i < n; i++) {
-    const j = (i + 1) % n;
-    area += polyA[2 * i] * polyA[2 * j + 1] - polyA[2 * j] * polyA[2 * i + 1];
-  }
-  return Math.abs(area) / 2;
 }
 
 /** Rotate by any angle about the frame centre, conserving the total (see the file header). */
@@ -201,32 +162,23 @@ export function rotateImage(image: PixelImage, angleDeg: number, options: Rotati
     const ox = (W - 1) / 2;
     const oy = (H - 1) / 2;
     const corners = new Float64Array(8);
+    const range = new Float64Array(4);
     // Output-pixel squares are [X - 0.5, X + 0.5]; shift by 0.5 so that pixel X spans [X, X + 1].
     for (let y = 0; y < height; y++) {
       for (let x = 0; x < width; x++) {
         const i = y * width + x;
         if (mask !== undefined && mask[i] === 0) continue;
         const v = values[i];
-        let minX = Infinity, maxX = -Infinity, minY = Infinity, maxY = -Infinity;
         for (let k = 0; k < 4; k++) {
           const du = x - cx + (k === 1 || k === 2 ? 0.5 : -0.5);
           const dv = y - cy + (k >= 2 ? 0.5 : -0.5);
-          const u = ox + du * c + dv * s + 0.5;
-          const w = oy - du * s + dv * c + 0.5;
-          corners[2 * k] = u;
-          corners[2 * k + 1] = w;
-          if (u < minX) minX = u;
-          if (u > maxX) maxX = u;
-          if (w < minY) minY = w;
-          if (w > maxY) maxY = w;
+          corners[2 * k] = ox + du * c + dv * s + 0.5;
+          corners[2 * k + 1] = oy - du * s + dv * c + 0.5;
         }
-        const X0 = Math.max(0, Math.floor(minX));
-        const X1 = Math.min(W - 1, Math.floor(maxX));
-        const Y0 = Math.max(0, Math.floor(minY));
-        const Y1 = Math.min(H - 1, Math.floor(maxY));
-        for (let Y = Y0; Y <= Y1; Y++) {
-          for (let X = X0; X <= X1; X++) {
-            const area = overlapArea(corners, X, Y);
+        touchedPixels(corners, W, H, range);
+        for (let Y = range[2]; Y <= range[3]; Y++) {
+          for (let X = range[0]; X <= range[1]; X++) {
+            const area = quadrilateralSquareOverlap(corners, X, Y);
             if (area > 0) {
               out[Y * W + X] += v * area;
               coverage[Y * W + X] += area;

@@ -13,7 +13,7 @@
 // step, with H / 2 at a site lying exactly on the boundary (the limit of the smooth profile).
 // 3D lattices: disc and ring are cylinders along z; the rectangle has a size per axis.
 
-import type { LatticeGeometry } from '../latticeGeometry.js';
+import { mapSites, type LatticeGeometry } from '../latticeGeometry.js';
 import { ParameterError } from '../../physics/parameterError.js';
 import { normalCdf } from '../../numerics/errorFunction.js';
 import { axisOffsets } from './axisOffsets.js';
@@ -92,32 +92,20 @@ export function boxPotential(geometry: LatticeGeometry, term: BoxTerm): Float64A
   const cos = s.kind === 'rectangle' ? Math.cos(s.angleRad) : 1;
   const sin = s.kind === 'rectangle' ? Math.sin(s.angleRad) : 0;
   const half = s.kind === 'rectangle' ? s.size.map((w) => w / 2) : [];
-  const [n0, n1, n2] = geometry.inner;
-  const q = new Int32Array(3);
-  const out = new Float64Array(geometry.siteCount);
-  let i = 0;
-  for (let a = 0; a < n0; a++) {
-    q[0] = a;
-    for (let b = 0; b < n1; b++) {
-      q[1] = b;
-      for (let c = 0; c < n2; c++) {
-        q[2] = c;
-        const x = rel[ix][q[ix]];
-        const y = iy >= 0 ? rel[iy][q[iy]] : 0;
-        let inside: number;
-        if (s.kind === 'rectangle') {
-          const u = cos * x + sin * y;
-          const v = -sin * x + cos * y;
-          inside = slab(u, -half[0], half[0], sigma);
-          if (dims >= 2) inside *= slab(v, -half[1], half[1], sigma);
-          if (iz >= 0) inside *= slab(rel[iz][q[iz]], -half[2], half[2], sigma);
-        } else {
-          const rho = Math.sqrt(x * x + y * y);
-          inside = s.kind === 'disc' ? slab(rho, -Infinity, s.radius, sigma) : slab(rho, s.innerRadius, s.outerRadius, sigma);
-        }
-        out[i++] = H * (1 - inside);
-      }
+  return mapSites(geometry, (q) => {
+    const x = rel[ix][q[ix]];
+    const y = iy >= 0 ? rel[iy][q[iy]] : 0;
+    let inside: number;
+    if (s.kind === 'rectangle') {
+      const u = cos * x + sin * y;
+      const v = -sin * x + cos * y;
+      inside = slab(u, -half[0], half[0], sigma);
+      if (dims >= 2) inside *= slab(v, -half[1], half[1], sigma);
+      if (iz >= 0) inside *= slab(rel[iz][q[iz]], -half[2], half[2], sigma);
+    } else {
+      const rho = Math.sqrt(x * x + y * y);
+      inside = s.kind === 'disc' ? slab(rho, -Infinity, s.radius, sigma) : slab(rho, s.innerRadius, s.outerRadius, sigma);
     }
-  }
-  return out;
+    return H * (1 - inside);
+  });
 }

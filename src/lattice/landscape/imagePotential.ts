@@ -21,7 +21,7 @@
 //   chains are averaged along x only;
 // - auto: area when the pixel is smaller than the site along x or y, bilinear otherwise.
 
-import type { LatticeGeometry } from '../latticeGeometry.js';
+import { mapSites, type LatticeGeometry } from '../latticeGeometry.js';
 import { ParameterError } from '../../physics/parameterError.js';
 import { axisOffsets } from './axisOffsets.js';
 
@@ -63,24 +63,13 @@ function bilinear(img: PotentialImage, colF: number, rowF: number): number {
   const W = img.width;
   const H = img.height;
   if (!(colF >= -0.5 && colF <= W - 0.5 && rowF >= -0.5 && rowF <= H - 0.5)) return 0;
-  let c0 = Math.floor(colF);
-  let r0 = Math.floor(rowF);
-  let tc = colF - c0;
-  let tr = rowF - r0;
-  if (c0 < 0) {
-    c0 = 0;
-    tc = 0;
-  } else if (c0 >= W - 1) {
-    c0 = W - 1;
-    tc = 0;
-  }
-  if (r0 < 0) {
-    r0 = 0;
-    tr = 0;
-  } else if (r0 >= H - 1) {
-    r0 = H - 1;
-    tr = 0;
-  }
+  // Within half a pixel of the edge the value is held (no neighbour beyond to blend with).
+  const cf = Math.floor(colF);
+  const rf = Math.floor(rowF);
+  const c0 = cf < 0 ? 0 : cf >= W - 1 ? W - 1 : cf;
+  const r0 = rf < 0 ? 0 : rf >= H - 1 ? H - 1 : rf;
+  const tc = c0 === cf && cf < W - 1 ? colF - cf : 0;
+  const tr = r0 === rf && rf < H - 1 ? rowF - rf : 0;
   const c1 = c0 + 1 < W ? c0 + 1 : c0;
   const r1 = r0 + 1 < H ? r0 + 1 : r0;
   const v = img.values;
@@ -137,38 +126,27 @@ export function imagePotential(geometry: LatticeGeometry, img: PotentialImage, p
   const yTable = dims >= 2 ? offsets[1] : new Float64Array(1);
   const ix = pad;
   const iy = dims >= 2 ? pad + 1 : -1;
-  const [n0, n1, n2] = geometry.inner;
-  const q = new Int32Array(3);
-  const out = new Float64Array(geometry.siteCount);
   let covered = 0;
-  let i = 0;
-  for (let a = 0; a < n0; a++) {
-    q[0] = a;
-    for (let b = 0; b < n1; b++) {
-      q[1] = b;
-      for (let c = 0; c < n2; c++) {
-        q[2] = c;
-        const x = xTable[q[ix]] - ox;
-        const y = (iy >= 0 ? yTable[q[iy]] : 0) - oy;
-        const uc = (cos * x + sin * y) * inv + colShift;
-        const vc = (-sin * x + cos * y) * inv + rowShift;
-        if (uc >= -0.5 && uc <= img.width - 0.5 && vc >= -0.5 && vc <= img.height - 0.5) covered++;
-        let value: number;
-        if (mode === 'bilinear') value = bilinear(img, uc, vc);
-        else {
-          let sum = 0;
-          for (let sy = 0; sy < ny; sy++) {
-            const dy = ny === 1 ? 0 : ((sy + 0.5) / ny - 0.5) * ay;
-            for (let sx = 0; sx < nx; sx++) {
-              const dx = ((sx + 0.5) / nx - 0.5) * ax;
-              sum += nearest(img, uc + (cos * dx + sin * dy) * inv, vc + (-sin * dx + cos * dy) * inv);
-            }
-          }
-          value = sum / (nx * ny);
+  const out = mapSites(geometry, (q) => {
+    const x = xTable[q[ix]] - ox;
+    const y = (iy >= 0 ? yTable[q[iy]] : 0) - oy;
+    const uc = (cos * x + sin * y) * inv + colShift;
+    const vc = (-sin * x + cos * y) * inv + rowShift;
+    if (uc >= -0.5 && uc <= img.width - 0.5 && vc >= -0.5 && vc <= img.height - 0.5) covered++;
+    let value: number;
+    if (mode === 'bilinear') value = bilinear(img, uc, vc);
+    else {
+      let sum = 0;
+      for (let sy = 0; sy < ny; sy++) {
+        const dy = ny === 1 ? 0 : ((sy + 0.5) / ny - 0.5) * ay;
+        for (let sx = 0; sx < nx; sx++) {
+          const dx = ((sx + 0.5) / nx - 0.5) * ax;
+          sum += nearest(img, uc + (cos * dx + sin * dy) * inv, vc + (-sin * dx + cos * dy) * inv);
         }
-        out[i++] = p.scale * value;
       }
+      value = sum / (nx * ny);
     }
-  }
+    return p.scale * value;
+  });
   return { siteEnergy: out, resampling: mode, samplesPerSite: [nx, ny], sitesCovered: covered };
 }

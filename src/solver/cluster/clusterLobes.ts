@@ -19,6 +19,7 @@
 
 import { ParameterError } from '../../physics/parameterError.js';
 import { brentRoot } from '../../numerics/brentRoot.js';
+import { goldenSectionMaximum } from '../../numerics/goldenSection.js';
 import { createClusterSolver, solveClusterThermal, type ClusterSolver } from './clusterSolver.js';
 import { createMottResponseWorkspace, mottResponse, type MottResponseWorkspace } from './mottResponse.js';
 
@@ -178,9 +179,6 @@ export interface LobeTip {
 /** The tip of the Mott lobe of filling ws.filling at T = 0 (largest J_c over mu). */
 export function clusterLobeTip(ws: LobeWorkspace, muTolerance = 1e-6): LobeTip {
   const n = ws.filling;
-  const golden = (Math.sqrt(5) - 1) / 2;
-  let a = n - 1 + 1e-3;
-  let b = n - 1e-3;
   let evaluations = 0;
   let converged = true;
   let guess = NaN;
@@ -191,27 +189,7 @@ export function clusterLobeTip(ws: LobeWorkspace, muTolerance = 1e-6): LobeTip {
     guess = r.hoppingOverU;
     return r.hoppingOverU;
   };
-  let c = b - golden * (b - a);
-  let d = a + golden * (b - a);
-  let fc = jc(c);
-  let fd = jc(d);
-  while (b - a > muTolerance) {
-    if (fc > fd) {
-      b = d;
-      d = c;
-      fd = fc;
-      c = b - golden * (b - a);
-      fc = jc(c);
-    } else {
-      a = c;
-      c = d;
-      fc = fd;
-      d = a + golden * (b - a);
-      fd = jc(d);
-    }
-  }
-  const mu = fc > fd ? c : d;
-  const j = Math.max(fc, fd);
+  const { x: mu, value: j } = goldenSectionMaximum(jc, n - 1 + 1e-3, n - 1e-3, { width: muTolerance });
   return {
     muOverU: mu,
     hoppingOverU: j,

@@ -25,6 +25,7 @@ import type { SolverState } from '../solverState.js';
 import type { SweepExecutor } from '../sweepExecutor.js';
 import type { ExecutorFactory } from '../runLattice.js';
 import { createClusterDriver, type ClusterDriver, type ClusterDriverOptions } from './clusterLattice.js';
+import { runLocalShare } from '../localShare.js';
 
 /** Lets signals and timers run between sweeps (a macrotask turn). */
 const yieldToEventLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
@@ -187,15 +188,15 @@ export function createClusterSweepExecutor(
   const bondExact = exactBuffers.map((b) => new Uint8Array(b));
   const targets = { ...state.measure, bondCorrelation, bondExact };
 
+  // Statistics of the last measurement (driver.statistics() only reads counters), and what
+  // the single-threaded and the parallel executor report alike.
+  let stats = driver.statistics();
+  const common = { kernel: 'js' as const, driver, bondCorrelation, bondExact, statistics: () => stats };
+
   if (workerCount === 0 || pool === null) {
-    let stats = driver.statistics();
     return {
       threads: 1,
-      kernel: 'js',
-      driver,
-      bondCorrelation,
-      bondExact,
-      statistics: () => stats,
+      ...common,
       sweep: async (colour, mu, temperature) => {
         if (colour !== 0) return 0;
         const change = driver.sweep(mu, temperature, delta);
@@ -235,29 +236,18 @@ export function createClusterSweepExecutor(
   const everywhere = async (message: ClusterCommand, local: () => number): Promise<number> => {
     for (const r of await attached) valueOf(r);
     const replies = Array.from({ length: workerCount }, (_, w) => pool.call(w, message));
-    let value = 0;
-    let localError: unknown = null;
-    try {
-      value = local();
-    } catch (err) {
-      localError = err;
-    }
-    const values = (await Promise.all(replies)).map(valueOf);
-    if (localError !== null) throw localError;
-    for (const v of values) value = v !== v || value !== value ? NaN : Math.max(value, v);
+    // worker failures (valueOf throws) first, then an error of the local share
+    const results = await runLocalShare(local, async () => (await Promise.all(replies)).map(valueOf));
+    let value = results.local;
+    for (const v of results.workers) value = v !== v || value !== value ? NaN : Math.max(value, v);
     return value;
   };
   // The loose-residual policy of the single-threaded sweep, kept here once for all threads.
   let at: [number, number] = [NaN, NaN];
   let loose = 0;
-  let stats = driver.statistics();
   return {
     threads: shares,
-    kernel: 'js',
-    driver,
-    bondCorrelation,
-    bondExact,
-    statistics: () => stats,
+    ...common,
     sweep: async (colour, mu, temperature) => {
       if (colour !== 0) return 0;
       if (mu !== at[0] || temperature !== at[1]) {

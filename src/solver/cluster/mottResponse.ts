@@ -165,12 +165,12 @@ export function mottResponse(ws: MottResponseWorkspace, hopping: number, interac
   // Lowest states of N +- 1, started from b^+ and b applied to |0> (positive vectors).
   const sitesOnes = ws.scratchIn;
   sitesOnes.fill(1);
-  raise(ws, sitesOnes, ws.sourcePlus);
+  applyLadder(ws, sitesOnes, ws.sourcePlus, 1);
   converged = lowestState(plus as SectorProblem, ws.sourcePlus, tol) && converged;
   const particleGap = (plus as SectorProblem).energy - e0;
   let holeGap = Infinity;
   if (minus !== null) {
-    lower(ws, sitesOnes, ws.sourceMinus);
+    applyLadder(ws, sitesOnes, ws.sourceMinus, -1);
     converged = lowestState(minus, ws.sourceMinus, tol) && converged;
     holeGap = minus.energy - e0;
   }
@@ -233,39 +233,27 @@ function oneHot(p: SectorProblem, fullIndex: number): Float64Array | null {
   return v;
 }
 
-/** out = sum_k w_k b_k^+ |0> in sector N + 1. */
-function raise(ws: MottResponseWorkspace, w: Float64Array, out: Float64Array): void {
+/**
+ * out = sum_k w_k b_k^+ |0> in sector N + 1 (step +1) or sum_k w_k b_k |0> in sector N - 1
+ * (step -1). One loop for both ladders: b^+ meets a full site (n = nmax) and reads
+ * sqrt(n + 1), b meets an empty one (n = 0) and reads sqrt(n); the state index moves by
+ * +-stride[k].
+ */
+function applyLadder(ws: MottResponseWorkspace, w: Float64Array, out: Float64Array, step: 1 | -1): void {
   const { basis, centre } = ws;
-  const plus = ws.plus as SectorProblem;
+  const target = (step === 1 ? ws.plus : ws.minus) as SectorProblem;
   const g = centre.vector;
   const occ = basis.occupation;
   const sites = basis.sites;
-  const nmax = basis.nmax;
+  const edge = step === 1 ? basis.nmax : 0; // occupations run over 0 .. nmax
+  const shift = step === 1 ? 1 : 0;
   const root = centre.hamiltonian.sqrtInteger;
   out.fill(0);
   for (let r = 0; r < centre.sector.dim; r++) {
     const s = centre.sector.states[r];
     for (let k = 0; k < sites; k++) {
       const n = occ[s * sites + k];
-      if (n < nmax) out[plus.sector.position[s + basis.stride[k]]] += w[k] * root[n + 1] * g[r];
-    }
-  }
-}
-
-/** out = sum_k w_k b_k |0> in sector N - 1. */
-function lower(ws: MottResponseWorkspace, w: Float64Array, out: Float64Array): void {
-  const { basis, centre } = ws;
-  const minus = ws.minus as SectorProblem;
-  const g = centre.vector;
-  const occ = basis.occupation;
-  const sites = basis.sites;
-  const root = centre.hamiltonian.sqrtInteger;
-  out.fill(0);
-  for (let r = 0; r < centre.sector.dim; r++) {
-    const s = centre.sector.states[r];
-    for (let k = 0; k < sites; k++) {
-      const n = occ[s * sites + k];
-      if (n > 0) out[minus.sector.position[s - basis.stride[k]]] += w[k] * root[n] * g[r];
+      if (n !== edge) out[target.sector.position[s + step * basis.stride[k]]] += w[k] * root[n + shift] * g[r];
     }
   }
 }
@@ -280,11 +268,11 @@ function applyChi(ws: MottResponseWorkspace, g: Float64Array, e0: number, v: Flo
   const sites = basis.sites;
   const nmax = basis.nmax;
   const root = centre.hamiltonian.sqrtInteger;
-  raise(ws, v, ws.sourcePlus);
+  applyLadder(ws, v, ws.sourcePlus, 1);
   conjugateGradient(cgPlus, plus.hamiltonian.matrix, e0, ws.sourcePlus, 1e-13, 50_000);
   let ok = cgPlus.converged;
   if (minus !== null) {
-    lower(ws, v, ws.sourceMinus);
+    applyLadder(ws, v, ws.sourceMinus, -1);
     const cgMinus = ws.cgMinus as ConjugateGradientWorkspace;
     conjugateGradient(cgMinus, minus.hamiltonian.matrix, e0, ws.sourceMinus, 1e-13, 50_000);
     ok = ok && cgMinus.converged;

@@ -14,7 +14,8 @@
 //    also spans degenerate eigenspaces, which symmetric clusters have;
 // 4. back-transformation x = Z y by applying the stored reflections.
 
-import { householderReduce, tridiagonalQl } from './symmetricEigen.js';
+import { householderReduce, qlAfterReduction } from './symmetricEigen.js';
+import { insertionSortAscending } from '../../numerics/insertionSort.js';
 
 export interface PartialEigenWorkspace {
   readonly capacity: number;
@@ -75,17 +76,9 @@ export function partialEigenvalues(ws: PartialEigenWorkspace, n: number): boolea
     v[i] = d[i];
     w[i] = e[i];
   }
-  const ok = n === 1 ? true : tridiagonalQl(null, v, w, n);
+  const ok = n === 1 ? true : qlAfterReduction(null, v, w, n);
   // Insertion sort (no allocation; O(n^2) at worst, small against the O(n^3) reduction).
-  for (let i = 1; i < n; i++) {
-    const x = v[i];
-    let j = i - 1;
-    while (j >= 0 && v[j] > x) {
-      v[j + 1] = v[j];
-      j--;
-    }
-    v[j + 1] = x;
-  }
+  insertionSortAscending(v, n);
   return ok;
 }
 

@@ -14,6 +14,9 @@
 // Used for the cluster problem at small Fock dimension and for the Rayleigh-Ritz step of
 // the Lanczos solver (projected matrices of varying size n <= capacity).
 
+import { sortEigenpairsAscending } from '../../numerics/sortEigenpairs.js';
+import { tridiagonalQl } from '../../numerics/tridiagonalQl.js';
+
 export interface SymmetricEigenWorkspace {
   /** largest n accepted */
   readonly capacity: number;
@@ -52,27 +55,9 @@ export function symmetricEigen(ws: SymmetricEigenWorkspace, n: number): boolean 
     return true;
   }
   householderTridiagonal(a, d, e, n);
-  const ok = tridiagonalQl(a, d, e, n);
+  const ok = qlAfterReduction(a, d, e, n);
   // Rows hold the eigenvectors; sort ascending.
-  for (let i = 0; i < n - 1; i++) {
-    let k = i;
-    let p = d[i];
-    for (let j = i + 1; j < n; j++) {
-      if (d[j] < p) {
-        k = j;
-        p = d[j];
-      }
-    }
-    if (k !== i) {
-      d[k] = d[i];
-      d[i] = p;
-      for (let c = 0; c < n; c++) {
-        const t = a[i * n + c];
-        a[i * n + c] = a[k * n + c];
-        a[k * n + c] = t;
-      }
-    }
-  }
+  sortEigenpairsAscending(d, a, n);
   return ok;
 }
 
@@ -173,73 +158,13 @@ function accumulateReflections(a: Float64Array, d: Float64Array, e: Float64Array
 }
 
 /**
- * tql2 on (d, e) with e[i] the subdiagonal element between i-1 and i; rotates the rows of
- * a (the columns of Z). With a = null only the eigenvalues are computed (tql1), unsorted.
+ * tql2 on the output of householderReduce / accumulateReflections, where e[i] couples rows
+ * i-1 and i: shift e to the convention of tridiagonalQl (e[i] couples i and i+1) and rotate
+ * the rows of a (the columns of Z, stored transposed). With a = null only the eigenvalues
+ * are computed (tql1), unsorted. Returns false when an eigenvalue did not converge.
  */
-export function tridiagonalQl(a: Float64Array | null, d: Float64Array, e: Float64Array, n: number): boolean {
+export function qlAfterReduction(a: Float64Array | null, d: Float64Array, e: Float64Array, n: number): boolean {
   for (let i = 1; i < n; i++) e[i - 1] = e[i];
   e[n - 1] = 0;
-  const eps = 2.220446049250313e-16;
-  let f = 0;
-  let tst1 = 0;
-  let ok = true;
-  for (let l = 0; l < n; l++) {
-    const t = Math.abs(d[l]) + Math.abs(e[l]);
-    if (t > tst1) tst1 = t;
-    let m = l;
-    while (m < n - 1 && Math.abs(e[m]) > eps * tst1) m++;
-    if (m > l) {
-      let iter = 0;
-      do {
-        if (++iter > 60) {
-          ok = false;
-          break;
-        }
-        let g = d[l];
-        let p = (d[l + 1] - g) / (2 * e[l]);
-        let r = Math.sqrt(p * p + 1);
-        if (p < 0) r = -r;
-        d[l] = e[l] / (p + r);
-        d[l + 1] = e[l] * (p + r);
-        const dl1 = d[l + 1];
-        let h = g - d[l];
-        for (let i = l + 2; i < n; i++) d[i] -= h;
-        f += h;
-        p = d[m];
-        let c = 1;
-        let c2 = c;
-        let c3 = c;
-        const el1 = e[l + 1];
-        let s = 0;
-        let s2 = 0;
-        for (let i = m - 1; i >= l; i--) {
-          c3 = c2;
-          c2 = c;
-          s2 = s;
-          g = c * e[i];
-          h = c * p;
-          r = Math.sqrt(p * p + e[i] * e[i]); // no overflow at Hamiltonian scales
-          e[i + 1] = s * r;
-          s = e[i] / r;
-          c = p / r;
-          p = c * d[i] - s * g;
-          d[i + 1] = h + s * (c * g + s * d[i]);
-          if (a === null) continue;
-          const ri = i * n;
-          const rj = ri + n;
-          for (let k = 0; k < n; k++) {
-            h = a[rj + k];
-            a[rj + k] = s * a[ri + k] + c * h;
-            a[ri + k] = c * a[ri + k] - s * h;
-          }
-        }
-        p = (-s * s2 * c3 * el1 * e[l]) / dl1;
-        e[l] = s * p;
-        d[l] = c * p;
-      } while (Math.abs(e[l]) > eps * tst1);
-    }
-    d[l] += f;
-    e[l] = 0;
-  }
-  return ok;
+  return tridiagonalQl(d, e, n, a, true);
 }

@@ -2,6 +2,7 @@
 // shifts and accumulated rotations (tql2; implicitQl.ts): every eigenvalue and eigenvector,
 // for the thermal observables and for measurements.
 
+import { sortEigenpairsAscending } from '../../numerics/sortEigenpairs.js';
 import { implicitQl } from './implicitQl.js';
 import type { SiteWorkspace } from './siteWorkspace.js';
 
@@ -31,45 +32,11 @@ export function diagonalizeSite(ws: SiteWorkspace, interactionU: number, muLocal
   z.fill(0);
   for (let i = 0; i < n; i++) z[i * n + i] = 1;
   if (psi === 0) {
-    sortEigen(ws);
+    sortEigenpairsAscending(d, z, n);
     return;
   }
 
-  implicitQl(d, e, n, z);
-  // tql2 stores eigenvector j as column j (z[k*n + j] = component k). Transpose so that
-  // row j holds eigenvector j, then sort.
-  for (let a = 0; a < n; a++) {
-    for (let b = a + 1; b < n; b++) {
-      const t = z[a * n + b];
-      z[a * n + b] = z[b * n + a];
-      z[b * n + a] = t;
-    }
-  }
-  sortEigen(ws);
-}
-
-/** Ascending eigenvalues with their eigenvector rows (selection sort: n is tiny). */
-function sortEigen(ws: SiteWorkspace): void {
-  const n = ws.states;
-  const d = ws.eigenvalues;
-  const z = ws.eigenvectors;
-  for (let i = 0; i < n - 1; i++) {
-    let k = i;
-    let p = d[i];
-    for (let j = i + 1; j < n; j++) {
-      if (d[j] < p) {
-        k = j;
-        p = d[j];
-      }
-    }
-    if (k !== i) {
-      d[k] = d[i];
-      d[i] = p;
-      for (let c = 0; c < n; c++) {
-        const t = z[i * n + c];
-        z[i * n + c] = z[k * n + c];
-        z[k * n + c] = t;
-      }
-    }
-  }
+  // rotations on the rows of z, so row j is eigenvector j without a transpose
+  implicitQl(d, e, n, z, true);
+  sortEigenpairsAscending(d, z, n);
 }
