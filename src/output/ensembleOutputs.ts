@@ -19,7 +19,6 @@ import { inAllUnits, outputEnergyUnit } from '../scenario/resolveScenario.js';
 import type { EnsembleAccumulation } from '../pipeline/ensemble/blockPartial.js';
 import { binEdges } from '../pipeline/ensemble/histogramBins.js';
 import type { EnsembleStatistics } from '../pipeline/ensemble/ensembleStatistics.js';
-import type { EnsembleContext } from '../pipeline/ensemble/solveRealisation.js';
 import { centralPlane, figureImage, jsonReplacer, type WrittenImage } from './solveOutputs.js';
 import { seedRuleText, type EnsembleIdentity } from './ensembleShard.js';
 import { toolVersion } from './toolVersion.js';

@@ -23,7 +23,6 @@ import { copyKeptPoints, shardKeptPoint } from './scanKeptPoints.js';
 import { InputError } from '../scenario/inputError.js';
 import { chainPoints, planScan, shardChains, type ScanPlan } from '../pipeline/scan/scanPlan.js';
 import type { ScanRow } from '../pipeline/scan/scanRow.js';
-import type { DensityHold } from '../pipeline/scan/scanPoint.js';
 import { blockCoverage, formatBlockList } from '../pipeline/ensemble/blockPlan.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
 import { ScanAxisSchema, ScanRowSchema, scanRowFromJson, scanRowToJson } from './scanRecords.js';
@@ -58,16 +57,8 @@ export const ScanShardHeaderSchema = z.strictObject({
 
 export type ScanShardHeader = z.infer<typeof ScanShardHeaderSchema>;
 
-/** What a scan shard records about the scan it belongs to. */
-export interface ScanShardIdentity {
-  scenario: Scenario;
-  scenarioHash: string;
-  scanHash: string;
-  plan: ScanPlan;
-  hold: DensityHold | null;
-  energyUnit: string;
-  keepPoints: boolean;
-}
+/** What a scan shard records about the scan it belongs to: the outcome without its rows and provenance. */
+export type ScanShardIdentity = Omit<ScanOutcome, 'rows' | 'provenance'>;
 
 export function writeScanShardHeader(
   folder: OutputFolder,

@@ -18,23 +18,17 @@ import { createObservableWorkspace, evolutionTotals, type EvolutionTotals } from
 import type { DynamicsFrame } from '../dynamics/dynamicsFrame.js';
 import type { DynamicsRunner } from '../dynamics/dynamicsRunner.js';
 import { evolve, type EvolveResult, type IntegratorOptions } from '../dynamics/evolve.js';
+import type { ModulationPoint } from '../dynamics/modulationSpectrum.js';
 import { copyState, type GutzwillerState } from '../dynamics/gutzwillerState.js';
 import type { LatticeGeometry } from '../lattice/latticeGeometry.js';
 import type { EvolutionPlan } from './evolutionPlan.js';
 import { scenarioDrive } from './scenarioDrive.js';
 
-export interface SpectrumPoint {
-  /** h f in the energy unit */
+/** A point of the spectrum as the evolve command reports it (energies in the internal unit). */
+export interface SpectrumPoint extends Omit<ModulationPoint, 'frequency'> {
+  /** h f in the energy unit (ModulationPoint.frequency is cycles per time unit) */
   frequency: number;
   cyclesPerTimeUnit: number;
-  /** internal energy unit */
-  energyAbsorbed: number;
-  energyAbsorbedPerAtom: number;
-  doublonsCreated: number;
-  multiplyOccupiedCreated: number;
-  condensedAtomsChange: number;
-  status: EvolveResult['status'];
-  message: string;
   steps: number;
   rejectedSteps: number;
 }
