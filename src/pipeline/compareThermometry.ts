@@ -5,14 +5,17 @@
 // in src/imaging/camera/fluctuationThermometry.ts, which holds the estimator and its errors).
 // Here: the shots of the compare fit, each with its own border background subtracted (a
 // shifting offset would add P_b^2 var(offset) to every bin), the imaging-noise variance per
-// pixel subtracted from the shot-to-shot variance, bins in the trap-scaled radius about the
+// pixel subtracted from the shot-to-shot variance, and the noise of that border median too:
+// the median of n border pixels of noise variance s^2 scatters by var = pi s^2 / (2 n) (the
+// large-n variance of a sample median, 1 / (4 n f(m)^2), for Gaussian noise; common
+// statistics), which adds P_b^2 var to a bin of P_b pixels and would read wide outer bins hot; bins in the trap-scaled radius about the
 // fitted centre (sites), and the potential V = f^2 k_ref r^2 of the scenario's trap with the
 // fitted frequency factor f. The result is in the scenario's energy unit.
 
 import { fluctuationThermometry, type FluctuationThermometry } from '../imaging/camera/fluctuationThermometry.js';
 import type { CameraWarning } from '../imaging/camera/pixelImage.js';
 import { planarMaskToCamera, planarToCamera } from '../imaging/cameraConvention.js';
-import { borderBackground } from './compareFitNoise.js';
+import { borderBackground, borderPixels } from './compareFitNoise.js';
 import type { CompareFit } from './compareFit.js';
 
 export interface ThermometryInput {
@@ -62,6 +65,8 @@ export function stackThermometry(c: CompareFit, input: ThermometryInput): Thermo
   const { nx, ny, mask } = c.measured;
   const pixelSites = c.measured.pixelUm / optics.cellUm;
   const binSites = input.binSites ?? Math.max(1, (3 * c.picture.psfSigmaUm) / optics.cellUm);
+  const borderVariances = borderPixels({ values: input.imagingVariance, nx, ny }, mask);
+  const offsetVariance = borderVariances.length > 0 ? (Math.PI / 2) * (borderVariances.reduce((a, v) => a + v, 0) / borderVariances.length) / borderVariances.length : 0;
   const shots = input.shots.map((shot) => {
     const b = borderBackground({ values: shot, nx, ny }, mask).background;
     return planarToCamera({ values: Float64Array.from(shot, (v) => v - b), nx, ny });
@@ -83,6 +88,7 @@ export function stackThermometry(c: CompareFit, input: ThermometryInput): Thermo
       binWidth: binSites,
       harmonicHzPerUm2: kRef,
       imagingVariance: planarToCamera({ values: input.imagingVariance, nx, ny }).values,
+      offsetVariance,
     });
   } catch (err) {
     return { available: false, reason: (err as Error).message };
@@ -115,6 +121,7 @@ export function stackThermometry(c: CompareFit, input: ThermometryInput): Thermo
     warnings,
     method:
       'kT = sum_b (<dN_b^2> - imaging noise_b) / sum_b d<N_b>/dmu over radial bins, d<N_b>/dmu from the mean profile in the local density approximation: ' +
-      'the fluctuation-dissipation theorem <dN^2> = kT d<N>/dmu (Zhou & Ho, Phys. Rev. Lett. 106, 225301 (2011))',
+      'the fluctuation-dissipation theorem <dN^2> = kT d<N>/dmu (Zhou & Ho, Phys. Rev. Lett. 106, 225301 (2011)); imaging noise and the scatter of each shot\'s border median ' +
+      '(pi s^2 / 2n per pixel, for n border pixels of noise variance s^2) subtracted from the variance',
   };
 }

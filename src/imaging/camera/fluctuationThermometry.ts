@@ -52,6 +52,12 @@ export interface FluctuationThermometryInput {
   harmonicHzPerUm2: number;
   /** Mean imaging (photon + read) noise variance per pixel, atoms^2, to subtract. */
   imagingVariance?: Float64Array;
+  /**
+   * Variance of an offset estimated in every shot and subtracted from all its pixels (atoms^2
+   * per pixel), e.g. the scatter of a border median: it adds P_b^2 offsetVariance to the shot-to-shot
+   * variance of a bin of P_b pixels, which is subtracted with the imaging noise. Default 0.
+   */
+  offsetVariance?: number;
   /** Bins with fewer pixels are not used; default 8. */
   minimumPixelsPerBin?: number;
 }
@@ -144,6 +150,9 @@ export function fluctuationThermometry(input: FluctuationThermometryInput): Fluc
       if (input.imagingVariance !== undefined) noise[b] += input.imagingVariance[i];
     }
   }
+  const offsetVariance = input.offsetVariance ?? 0;
+  if (!(offsetVariance >= 0) || !Number.isFinite(offsetVariance)) throw new ParameterError('offsetVariance', `expected a finite variance >= 0, got ${offsetVariance}`);
+  for (let b = 0; b < B; b++) noise[b] += profile.pixelCount[b] * profile.pixelCount[b] * offsetVariance;
   // Per-shot bin sums, mean and variance over shots (Welford).
   const mean = new Float64Array(B);
   const m2 = new Float64Array(B);
