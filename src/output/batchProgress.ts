@@ -5,13 +5,11 @@
 // subfolder), the state of the shards of every shard count K its names show, compared
 // with the first complete shard's scenario.
 
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { InputError } from '../scenario/inputError.js';
-import { SHARD_HEADER_FILE } from './ensembleShard.js';
 import { readMarker } from './outputMarker.js';
-import { shardCountsIn, shardStates, type ShardState } from './shardProgress.js';
-import { shardFolderName } from './shardSet.js';
+import { firstShardExpectation, shardCountsIn, shardStates, type ShardState } from './shardProgress.js';
 import { readJobRecords, readSubmission, type JobRecord, type Submission } from './submission.js';
 
 export type BatchProgress =
@@ -44,18 +42,5 @@ export function readBatchProgress(dirGiven: string): BatchProgress {
   const shardDir = shardCountsIn(dir).length > 0 ? dir : join(dir, 'shards');
   const counts = shardCountsIn(shardDir);
   if (counts.length === 0) throw new InputError(`progress ${dirGiven}: holds no submission (submit.json) and no shard folders (shard-k-of-K); is this the right folder?`);
-  return { kind: 'shards', shardDir, sets: counts.map((count) => ({ count, states: shardStates(shardDir, count, { scenarioHash: firstHash(shardDir, count), scanHash: null, ensemble: null }) })) };
-}
-
-/** Scenario hash of the first complete shard of K shards (what the others are compared with), or null. */
-function firstHash(shardDir: string, count: number): string | null {
-  for (let k = 0; k < count; k++) {
-    const file = join(shardDir, shardFolderName({ index: k, count }), SHARD_HEADER_FILE);
-    try {
-      return String((JSON.parse(readFileSync(file, 'utf8')) as { scenarioHash: string }).scenarioHash);
-    } catch {
-      continue;
-    }
-  }
-  return null;
+  return { kind: 'shards', shardDir, sets: counts.map((count) => ({ count, states: shardStates(shardDir, count, firstShardExpectation(shardDir, count)) })) };
 }

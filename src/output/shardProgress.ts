@@ -27,6 +27,25 @@ export interface ShardExpectation {
   ensemble: { realisations: number; blockSize: number } | null;
 }
 
+/**
+ * What the shards of a bare collecting folder are compared with: the identity of the first
+ * complete shard of K (its scenario hash, and its scan setup or realisations and block size),
+ * so a shard of other work in the same folder reads "foreign", not "done"; all null when none.
+ */
+export function firstShardExpectation(shardDir: string, count: number): ShardExpectation {
+  for (let k = 0; k < count; k++) {
+    const folder = join(shardDir, shardFolderName({ index: k, count }));
+    const header = existsSync(join(folder, SHARD_HEADER_FILE)) ? readHeader(folder) : null;
+    if (header === null) continue;
+    return {
+      scenarioHash: header.scenarioHash,
+      scanHash: header.format === SCAN_SHARD_FORMAT ? (header.scanHash ?? null) : null,
+      ensemble: header.format === SHARD_FORMAT ? { realisations: header.realisations as number, blockSize: header.blockSize as number } : null,
+    };
+  }
+  return { scenarioHash: null, scanHash: null, ensemble: null };
+}
+
 export type ShardState =
   | { index: number; kind: 'done'; folder: string; notConverged: number; seconds: number }
   | { index: number; kind: 'foreign'; folder: string; reason: string }

@@ -13,6 +13,7 @@ import { writeOutputFolder } from '../../src/output/outputFolder.js';
 import { checkOutputTarget } from '../../src/output/outputTarget.js';
 import { readMarker } from '../../src/output/outputMarker.js';
 import { SHARD_FORMAT } from '../../src/output/ensembleShard.js';
+import { SCAN_SHARD_FORMAT } from '../../src/output/scanShard.js';
 import { planBlocks } from '../../src/pipeline/ensemble/blockPlan.js';
 import type { BatchWork } from '../../src/pipeline/batchWork.js';
 
@@ -79,6 +80,27 @@ describe('readBatchProgress', () => {
     const above = join(dir, 'above');
     shard(join(above, 'shards', 'shard-0-of-1'), hash);
     expect(readBatchProgress(above)).toMatchObject({ kind: 'shards', shardDir: join(above, 'shards') });
+  });
+
+  it('a collecting folder: a shard of the same scenario but other work (scan setup, realisations) is foreign, not done', () => {
+    const d = join(dir, 'collect-mixed');
+    const scanShard = (folder: string, scanHash: string): void => {
+      mkdirSync(folder, { recursive: true });
+      writeFileSync(join(folder, 'shard.json'), JSON.stringify({ format: SCAN_SHARD_FORMAT, scenarioHash: hash, scanHash, rows: [], run: { seconds: 1 } }));
+    };
+    scanShard(join(d, 'shard-0-of-3'), 'c'.repeat(64));
+    scanShard(join(d, 'shard-1-of-3'), 'd'.repeat(64)); // other --vary of the same scenario
+    shard(join(d, 'shard-2-of-3'), hash); // an ensemble shard of the same scenario
+    const p = readBatchProgress(d);
+    if (p.kind !== 'shards') throw new Error('not read as shards');
+    expect(p.sets[0].states.map((s) => s.kind)).toEqual(['done', 'foreign', 'foreign']);
+    const ensembles = join(dir, 'collect-ensembles');
+    shard(join(ensembles, 'shard-0-of-2'), hash);
+    mkdirSync(join(ensembles, 'shard-1-of-2'), { recursive: true });
+    writeFileSync(join(ensembles, 'shard-1-of-2', 'shard.json'), JSON.stringify({ format: SHARD_FORMAT, scenarioHash: hash, realisations: 8, blockSize: 2, blocks: [], run: { seconds: 1 } }));
+    const q = readBatchProgress(ensembles);
+    if (q.kind !== 'shards') throw new Error('not read as shards');
+    expect(q.sets[0].states.map((s) => s.kind)).toEqual(['done', 'foreign']);
   });
 
   it('refuses a missing folder and one with neither a submission nor shards', () => {
