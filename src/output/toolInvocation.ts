@@ -32,7 +32,7 @@ export function toolInvocation(): string[] {
   const root = packageRoot();
   const main = root === null ? null : join(root, 'dist', 'main.js');
   if (main === null || !existsSync(main)) {
-    throw new InputError(`submit: ${main ?? 'dist/main.js'} is missing; build tiercake first (npm ci && npm run build) so that the batch jobs can run it`);
+    throw new InputError(`${main ?? 'dist/main.js'} is missing; build tiercake first (npm ci && npm run build) so that the batch jobs can run it`);
   }
   return [realpathSync(process.execPath), realpathSync(main)];
 }

@@ -28,7 +28,7 @@ export function registerMerge(program: Command, context: CommandContext): void {
     .command('merge')
     .description('combine ensemble or scan shards into the result a single run gives (bit for bit)')
     .argument('<shards...>', 'shard folders, or folders that collect them (e.g. the --out folder of the shards)');
-  declare(command, OPTIONS, { out: { help: 'output folder (default out/<name>-ensemble)' }, quiet: { help: 'no summary on stdout' } }).action(
+  declare(command, OPTIONS, { out: { help: 'output folder (default out/<name>-ensemble for ensemble shards, out/<name>-scan for scan shards)' }, quiet: { help: 'no summary on stdout' } }).action(
     async (shards: string[], options: RawOptions) => {
       context.exitCode = await runMergeCommand(shards, options);
     },
