@@ -31,3 +31,20 @@ export function shellRadiusNote(frame: RadialFrame): string {
   }
   return 'There is no trap and every axis is periodic, so the lattice has no centre: shells are regions, not rings, and no radii are given (see the site-phase map).';
 }
+
+/**
+ * The frame of a scenario as written (for readers that have no resolved model, such as a
+ * merged scan): trapped when a trap coefficient or frequency is positive on some axis or a
+ * beam waist gives the envelope's harmonic confinement; periodic per axis from the boundary.
+ */
+export function scenarioRadialFrame(scenario: {
+  lattice: { shape: readonly number[]; boundary?: 'open' | 'periodic' | readonly ('open' | 'periodic')[] };
+  trap?: { coefficient?: number | readonly number[]; frequencyHz?: number | readonly number[] };
+  laboratory?: { beamWaistUm?: number | readonly number[] };
+}): RadialFrame {
+  const positive = (v: number | readonly number[] | undefined): boolean => (v === undefined ? false : typeof v === 'number' ? v > 0 : v.some((x) => x > 0));
+  const trapped = positive(scenario.trap?.coefficient) || positive(scenario.trap?.frequencyHz) || scenario.laboratory?.beamWaistUm !== undefined;
+  const b = scenario.lattice.boundary ?? 'open';
+  const periodic = scenario.lattice.shape.map((_, d) => (typeof b === 'string' ? b : (b[d] ?? b[0])) === 'periodic');
+  return radialFrame(trapped ? [1] : scenario.lattice.shape.map(() => 0), periodic);
+}

@@ -2,6 +2,7 @@
 // starts), the figures, one row per point, cautions (mean field; warm starts near
 // transitions) and the scenario.
 
+import { scenarioRadialFrame } from '../observables/radialFrame.js';
 import { MOTT_COMPRESSIBILITY_MAX, SUPERFLUID_FRACTION_MIN } from '../pipeline/scan/stiffnessPhase.js';
 import type { KeyValueRow, ReportDocument, StatusLine, CellValue } from './reportModel.js';
 import { cautionsFor } from './cautions.js';
@@ -58,6 +59,7 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
     if (r.realisations <= 1 || r.phaseShares === null) return title;
     return `${title} (${Math.round(Math.max(...r.phaseShares) * r.realisations)}/${r.realisations})`;
   };
+  const frame = scenarioRadialFrame(o.scenario);
   const columns = [
     ...o.plan.axes.map((a) => ({ header: a.path })),
     { header: 'converged' },
@@ -72,7 +74,7 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
     { header: 'central phase' },
     { header: 'superfluid', unit: 'sites' },
     { header: 'Bose glass', unit: 'sites' },
-    ...fillings.map((f) => ({ header: `n = ${f} shell`, unit: 'sites (radius)' })),
+    ...fillings.map((f) => ({ header: `n = ${f} shell`, unit: frame === 'none' ? 'sites in the shell' : 'radius in sites' })),
     { header: 'sweeps' },
   ];
   const table: CellValue[][] = rows.slice(0, MAX_REPORT_ROWS).map((r) => [
@@ -91,7 +93,8 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
     r.phaseSites[phaseNames.indexOf('boseGlass')],
     ...fillings.map((f) => {
       const s = r.shells.find((x) => x.filling === f);
-      return s ? `${fmt(s.innerRadius)} – ${fmt(s.outerRadius)}` : '—';
+      if (!s) return '—';
+      return frame === 'none' ? s.sites : `${fmt(s.innerRadius)} – ${fmt(s.outerRadius)}`;
     }),
     r.sweeps,
   ]);
@@ -109,8 +112,13 @@ export function buildScanReport(o: ScanOutcome, images: WrittenImage[], createdI
           {
             kind: 'paragraph',
             text:
-              'Shell radii are trap-scaled radii in sites (each axis scaled by the square root of its trap curvature relative to the first trapped axis): a shell edge is where half ' +
-              'the sites of a radial bin belong to the shell; a central shell starts at 0. Phases are the site labels of `tiercake solve`.' +
+              (frame === 'trap'
+                ? 'Shell radii are trap-scaled radii in sites (each axis scaled by the square root of its trap curvature relative to the first trapped axis): a shell edge is where half ' +
+                  'the sites of a radial bin belong to the shell; a central shell starts at 0.'
+                : frame === 'latticeCentre'
+                  ? 'There is no trap: shell radii are distances in sites from the lattice centre (a shell edge is where half the sites of a radial bin belong to the shell), not trap radii.'
+                  : 'There is no trap and every axis is periodic, so the lattice has no centre: a shell is a region, not a ring, and the table gives the sites it holds instead of radii.') +
+              ' Phases are the site labels of `tiercake solve`.' +
               (o.plan.axes.some((a) => a.path === CHARACTERISTIC_DENSITY)
                 ? ' At fixed U/J, clouds with the same characteristic density have (in the local-density approximation) the same central density and the same phases at the same radius in units of sqrt(J/V), whatever N and V are.'
                 : ''),
