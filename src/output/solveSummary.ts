@@ -10,6 +10,7 @@
 
 import { inAllUnits, outputEnergyUnit } from '../scenario/resolveScenario.js';
 import { phaseNames } from '../observables/phaseCodes.js';
+import { radialFrame } from '../observables/radialFrame.js';
 import { fractionOfAtoms } from '../observables/readingWarnings.js';
 import { PARALLEL_MIN_SITES, type SolveArtifacts } from '../pipeline/solveScenario.js';
 import type { RunWarning } from '../pipeline/runWarnings.js';
@@ -153,6 +154,10 @@ export function buildSummary(a: SolveArtifacts, files: string[], extras: Summary
               rule: "the phase of the homogeneous lattice (same mean field, temperature and thresholds) at each site's local mu - eps_i, U_i and zJ_i",
             },
     },
+    // What the shell radii measure (radialFrame.ts): 'trap' (trap-scaled radius), 'latticeCentre'
+    // (no trap: distance from the lattice centre) or 'none' (untrapped and periodic: no centre,
+    // the radii only say where the lattice was cut).
+    shellRadiusFrame: radialFrame(resolved.trapCoefficient, resolved.geometry.periodic),
     shells: shells.shells.map((s) => ({
       ...s,
       innerRadiusUm: spacing !== null ? s.innerRadius * spacing : null,

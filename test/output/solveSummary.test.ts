@@ -37,6 +37,7 @@ describe('buildSummary', () => {
     expect(s.convergence.converged).toBe(a.outcome.converged);
     expect(s.convergence.totalSweeps).toBe(a.outcome.totalSweeps);
     expect(s.shells.map((x: { filling: number }) => x.filling)).toEqual(a.shells.shells.map((x) => x.filling));
+    expect(s.shellRadiusFrame).toBe('trap'); // the tiny layer has a harmonic trap
     expect(s.warnings).toEqual(a.readingWarnings.map((w) => ({ code: w.code, message: w.message })));
     expect(s.energyUnit).toBe('U');
     expect(s.files).toEqual(['x.npy']);
@@ -74,6 +75,7 @@ describe('buildSummary', () => {
     expect(block.perAxis[0].curvature).toBe(a.stiffness!.axes[0].curvature); // energy unit U = internal unit
     for (const x of block.perAxis) expect(Math.abs(x.value - s.results.condensateFraction)).toBeLessThan(1e-6);
     expect(block.converged).toBe(true);
+    expect(s.shellRadiusFrame).toBe('none'); // periodic, no trap: no centre to measure radii from
   });
 
   it('thread notes', () => {
