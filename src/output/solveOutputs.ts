@@ -2,6 +2,7 @@
 // report.html, all staged in an OutputFolder and committed together. Writers take the
 // plain results of src/pipeline/solveScenario.ts and compute no physics.
 
+import { radialFrame } from '../observables/radialFrame.js';
 import { encodeNpy } from '../formats/npy.js';
 import { csvTable, type CsvColumnSpec, type CsvTable } from '../formats/csvTable.js';
 import type { OutputFolder } from './outputFolder.js';
@@ -72,10 +73,13 @@ export function profilesCsv(a: SolveArtifacts): CsvTable {
   const localMu = p.localChemicalPotential ?? missing;
   const scaled = (values: ArrayLike<number>, factor: number | null): Float64Array =>
     factor === null ? missing : Float64Array.from(values, (v) => v * factor);
+  // Without a trap the radius is the plain distance from the lattice centre (radialFrame.ts).
+  const trapped = radialFrame(a.resolved.trapCoefficient, a.resolved.geometry.periodic) === 'trap';
+  const radiusText = trapped ? 'trap-scaled radius' : 'distance from the lattice centre (no trap)';
   const columns: CsvColumnSpec[] = [
-    { name: 'radius_sites', values: p.meanRadius, unit: 'lattice spacings', description: 'mean trap-scaled distance from the trap centre of the sites in the bin' },
+    { name: 'radius_sites', values: p.meanRadius, unit: 'lattice spacings', description: trapped ? 'mean trap-scaled distance from the trap centre of the sites in the bin' : 'mean distance from the lattice centre of the sites in the bin (no trap)' },
     { name: 'radius_um', values: scaled(p.meanRadius, spacing), unit: 'um', description: 'the same in micrometres (laboratory mode; nan in dimensionless mode)' },
-    { name: 'bin_inner_sites', values: p.binInner, unit: 'lattice spacings', description: 'inner edge of the annular bin (trap-scaled radius)' },
+    { name: 'bin_inner_sites', values: p.binInner, unit: 'lattice spacings', description: `inner edge of the annular bin (${radiusText})` },
     { name: 'sites', values: p.count, unit: '', datatype: 'integer', description: 'sites in the bin' },
     { name: 'density_mean', values: f.density.mean, unit: 'atoms per site', description: 'mean density n over the bin' },
     { name: 'density_std', values: f.density.std, unit: 'atoms per site', description: 'standard deviation of n over the sites of the bin' },
@@ -96,10 +100,10 @@ export function profilesCsv(a: SolveArtifacts): CsvTable {
   return csvTable('profiles.csv', columns, {
     title: `radial profiles of scenario ${a.scenario.name}`,
     description:
-      `Radial profiles in annular bins of the trap-scaled radius (${a.scenario.profiles.binWidthSites} sites wide) about the trap centre: ` +
+      `Radial profiles in annular bins of the ${radiusText} (${a.scenario.profiles.binWidthSites} sites wide)${trapped ? ' about the trap centre' : ''}: ` +
       'per bin, the mean and standard deviation over the sites in it; empty bins hold nan.',
     creator: `tiercake ${toolVersion()}`,
-    notes: ['trap-scaled radius: sqrt(sum_d s_d^2 (x_d - c_d)^2) with s_d = sqrt(k_d / k_x), so the trap is round in these units'],
+    notes: [trapped ? 'trap-scaled radius: sqrt(sum_d s_d^2 (x_d - c_d)^2) with s_d = sqrt(k_d / k_x), so the trap is round in these units' : 'no trap: the radius is sqrt(sum_d (x_d - c_d)^2) about the lattice centre c'],
   });
 }
 
