@@ -11,7 +11,11 @@ export type RadialFrame = 'trap' | 'latticeCentre' | 'none';
 
 /** trapCoefficient: k_d per axis (0 where untrapped); periodic: per axis. */
 export function radialFrame(trapCoefficient: readonly number[], periodic: readonly boolean[]): RadialFrame {
-  if (trapCoefficient.some((k) => k > 0)) return 'trap';
+  return frameOf(trapCoefficient.some((k) => k > 0), periodic);
+}
+
+function frameOf(trapped: boolean, periodic: readonly boolean[]): RadialFrame {
+  if (trapped) return 'trap';
   if (periodic.length > 0 && periodic.every((p) => p)) return 'none';
   return 'latticeCentre';
 }
@@ -46,5 +50,5 @@ export function scenarioRadialFrame(scenario: {
   const trapped = positive(scenario.trap?.coefficient) || positive(scenario.trap?.frequencyHz) || scenario.laboratory?.beamWaistUm !== undefined;
   const b = scenario.lattice.boundary ?? 'open';
   const periodic = scenario.lattice.shape.map((_, d) => (typeof b === 'string' ? b : (b[d] ?? b[0])) === 'periodic');
-  return radialFrame(trapped ? [1] : scenario.lattice.shape.map(() => 0), periodic);
+  return frameOf(trapped, periodic);
 }

@@ -26,7 +26,7 @@ import { equationOfState } from '../../pipeline/compareEquationOfState.js';
 import { stackThermometry } from '../../pipeline/compareThermometry.js';
 import { toOrientedFrame } from '../../imaging/camera/frameOrientation.js';
 import { readSidecar } from '../../imaging/camera/pictureSidecar.js';
-import { parseFrameAddress } from '../../imaging/camera/frameAddress.js';
+import { sourceAddresses } from '../../imaging/camera/frameAddress.js';
 import type { PixelRectangle } from '../../imaging/camera/regionOfInterest.js';
 import { landscapeFileHashes, scenarioHash } from '../../scenario/scenarioHash.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
@@ -93,8 +93,7 @@ function parseCentre(text: string): { x: number; y: number } {
 
 /** Files named by a source text (for the inputs of the run): the file of a dataset address, folders as they are. */
 function inputPaths(text: string | undefined): string[] {
-  if (text === undefined) return [];
-  return text.split(',').map((s) => parseFrameAddress(s.trim()).file).filter((s) => s.length > 0);
+  return text === undefined ? [] : sourceAddresses(text).map((a) => a.file).filter((f) => f.length > 0);
 }
 
 export async function runCompareCommand(scenarioPath: string, raw: RawOptions): Promise<number> {

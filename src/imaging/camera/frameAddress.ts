@@ -21,21 +21,28 @@ export function parseFrameAddress(text: string): FrameAddress {
   return dataset.length > 1 ? { file: text.slice(0, cut), dataset } : { file: text.slice(0, cut) };
 }
 
-/**
- * The short name of a measured source as given (--image, --absorption-frames or --shots):
- * the base name of each comma-separated item, in order, so raw absorption frames read
- * "atoms.npy, probe.npy" (the frames with atoms first) rather than the last path's name.
- */
-export function sourceShortName(text: string): string {
+/** The frame addresses of a source text as given: its comma-separated items, empty ones left out. */
+export function sourceAddresses(text: string): FrameAddress[] {
   return text
     .split(',')
     .map((item) => item.trim())
     .filter((item) => item.length > 0)
-    .map((item) => {
-      const parts = item.split(/[\\/]/);
+    .map(parseFrameAddress);
+}
+
+/**
+ * The short name of a measured source as given (--image, --absorption-frames or --shots):
+ * each item's file base name (with its HDF5 dataset path), in order, so raw absorption frames
+ * read "atoms.npy, probe.npy" (the frames with atoms first) rather than the last path's name.
+ */
+export function sourceShortName(text: string): string {
+  return sourceAddresses(text)
+    .map(({ file, dataset }) => {
+      const parts = file.split(/[\\/]/);
       const last = parts[parts.length - 1];
       // A folder given with a trailing slash keeps its own name.
-      return last !== undefined && last.length > 0 ? last : (parts[parts.length - 2] ?? item);
+      const name = last !== undefined && last.length > 0 ? last : (parts[parts.length - 2] ?? file);
+      return dataset !== undefined ? `${name}:${dataset}` : name;
     })
     .join(', ');
 }
