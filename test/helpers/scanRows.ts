@@ -2,6 +2,8 @@
 // that every column can be told apart, the point's axis values taken from the plan.
 import { pointValues, type ScanPlan } from '../../src/pipeline/scan/scanPlan.js';
 import type { ScanRow } from '../../src/pipeline/scan/scanRow.js';
+import type { ScanOutcome } from '../../src/output/scanOutputs.js';
+import type { Scenario } from '../../src/scenario/scenarioSchema.js';
 
 export function madeUpRow(plan: ScanPlan, point: number, overrides: Partial<ScanRow> = {}): ScanRow {
   return {
@@ -33,5 +35,21 @@ export function madeUpRow(plan: ScanPlan, point: number, overrides: Partial<Scan
     superfluidFractionSpread: NaN,
     phaseShares: null,
     ...overrides,
+  };
+}
+
+/** A made-up scan outcome around `rows` (fixed hashes, energy unit U); `over` replaces any field. */
+export function madeUpOutcome(plan: ScanPlan, rows: ScanRow[], over: Partial<ScanOutcome> = {}): ScanOutcome {
+  return {
+    scenario: { name: 'layer' } as unknown as Scenario,
+    scenarioHash: '1'.repeat(64),
+    scanHash: '2'.repeat(64),
+    plan,
+    hold: null,
+    energyUnit: 'U',
+    keepPoints: false,
+    rows,
+    provenance: { kind: 'single run', threads: 1, seconds: 1.5, resumedPoints: 0 },
+    ...over,
   };
 }

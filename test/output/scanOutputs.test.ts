@@ -12,8 +12,7 @@ import { scanColumns, scanCsv, scanFillings, scanSummary, writeScanFiles, type S
 import { OutputFolder } from '../../src/output/outputFolder.js';
 import { checkOutputTarget } from '../../src/output/outputTarget.js';
 import { planScan } from '../../src/pipeline/scan/scanPlan.js';
-import type { Scenario } from '../../src/scenario/scenarioSchema.js';
-import { madeUpRow } from '../helpers/scanRows.js';
+import { madeUpOutcome, madeUpRow } from '../helpers/scanRows.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tiercake-scanoutputs-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -24,17 +23,7 @@ const rows = [
   madeUpRow(plan, 1),
   madeUpRow(plan, 2, { converged: false, shells: [{ filling: 1, innerRadius: 2, outerRadius: 4, sites: 30, radiusFrom: 'annulus' }, { filling: 2, innerRadius: 0, outerRadius: 2, sites: 12, radiusFrom: 'sites' }] }),
 ];
-const outcome: ScanOutcome = {
-  scenario: { name: 'layer' } as unknown as Scenario,
-  scenarioHash: '1'.repeat(64),
-  scanHash: '2'.repeat(64),
-  plan,
-  hold: null,
-  energyUnit: 'U',
-  keepPoints: false,
-  rows,
-  provenance: { kind: 'single run', threads: 1, seconds: 1.5, resumedPoints: 0 },
-};
+const outcome: ScanOutcome = madeUpOutcome(plan, rows);
 
 describe('scan.csv', () => {
   const lines = scanCsv(outcome).trimEnd().split('\n');

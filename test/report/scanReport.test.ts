@@ -8,21 +8,11 @@ import type { ScanOutcome } from '../../src/output/scanOutputs.js';
 import { planScan } from '../../src/pipeline/scan/scanPlan.js';
 import type { Scenario } from '../../src/scenario/scenarioSchema.js';
 import type { ParagraphBlock, TableBlock } from '../../src/report/reportModel.js';
-import { madeUpRow } from '../helpers/scanRows.js';
+import { madeUpOutcome, madeUpRow } from '../helpers/scanRows.js';
 
 const plan = planScan([{ path: 'hubbard.hopping', values: [0.01, 0.02], spacing: 'list' }], 2);
 const rows = [madeUpRow(plan, 0), madeUpRow(plan, 1)];
-const outcomeOf = (scenario: Partial<Scenario>): ScanOutcome => ({
-  scenario: { name: 'layer', ...scenario } as unknown as Scenario,
-  scenarioHash: '1'.repeat(64),
-  scanHash: '2'.repeat(64),
-  plan,
-  hold: null,
-  energyUnit: 'U',
-  keepPoints: false,
-  rows,
-  provenance: { kind: 'single run', threads: 1, seconds: 1, resumedPoints: 0 },
-});
+const outcomeOf = (scenario: Partial<Scenario>): ScanOutcome => madeUpOutcome(plan, rows, { scenario: { name: 'layer', ...scenario } as unknown as Scenario });
 
 function shellCells(o: ScanOutcome): { header: string; unit: string | undefined; cells: unknown[]; text: string } {
   const doc = buildScanReport(o, [], '2026-01-01T00:00:00Z', []);
