@@ -6,19 +6,20 @@ import type { CommandContext } from '../main.js';
 import { prepareScenario } from '../../pipeline/prepareScenario.js';
 import { checkSummaryLines } from '../../report/checkSummaryLines.js';
 import { ExitCode } from '../../scenario/inputError.js';
-import { declare, readOptions, type RawOptions } from '../options.js';
+import { readOptions, type RawOptions } from '../options.js';
+import { registerScenarioCommand } from '../scenarioCommand.js';
 import { memoryLimitBytes } from '../machine.js';
 import { solveWarnings } from '../../pipeline/runWarnings.js';
 
 const OPTIONS = ['set'] as const;
 
 export function registerCheck(program: Command, context: CommandContext): void {
-  const command = program
-    .command('check')
-    .description('validate a scenario and print the resolved parameters (nothing is solved or written)')
-    .argument('<scenario>', 'scenario file (JSON)');
-  declare(command, OPTIONS).action((scenarioPath: string, options: RawOptions) => {
-    context.exitCode = runCheck(scenarioPath, options);
+  registerScenarioCommand(program, context, {
+    name: 'check',
+    description: 'validate a scenario and print the resolved parameters (nothing is solved or written)',
+    scenarioHelp: 'scenario file (JSON)',
+    options: OPTIONS,
+    run: runCheck,
   });
 }
 

@@ -31,7 +31,8 @@ import type { PixelRectangle } from '../../imaging/camera/regionOfInterest.js';
 import { landscapeFileHashes, scenarioHash } from '../../scenario/scenarioHash.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
-import { declare, readOptions, type RawOptions } from '../options.js';
+import { readOptions, type RawOptions } from '../options.js';
+import { registerScenarioCommand } from '../scenarioCommand.js';
 import { parseInteger, parseReal } from '../numberText.js';
 import { defaultThreads, memoryLimitBytes } from '../machine.js';
 import { outputTarget, reportCommit } from '../outputOption.js';
@@ -43,15 +44,15 @@ const OPTIONS = [
 ] as const;
 
 export function registerCompare(program: Command, context: CommandContext): void {
-  const command = program
-    .command('compare')
-    .description(
+  registerScenarioCommand(program, context, {
+    name: 'compare',
+    description:
       'compare measured camera data (a picture with its counts per atom, or raw absorption frames) with the scenario: fit N, T, centre and more, ' +
-        'residuals, profiles, equation of state, fluctuation thermometry of a stack',
-    )
-    .argument('<scenario>', 'scenario file (JSON)');
-  declare(command, OPTIONS, { out: { required: true }, fit: { default: 'atoms' } }).action(async (scenarioPath: string, options: RawOptions) => {
-    context.exitCode = await runCompareCommand(scenarioPath, options);
+      'residuals, profiles, equation of state, fluctuation thermometry of a stack',
+    scenarioHelp: 'scenario file (JSON)',
+    options: OPTIONS,
+    overrides: { out: { required: true }, fit: { default: 'atoms' } },
+    run: runCompareCommand,
   });
 }
 

@@ -6,23 +6,21 @@
 // did not converge, results written and flagged; 130 interrupted, nothing written).
 
 import type { Command } from 'commander';
-import { dirname, join, resolve } from 'node:path';
-import { writeEnsembleResult } from '../../output/batchResults.js';
-import { absorbBlock, createEnsembleTotal, type BlockPartial } from '../../pipeline/ensemble/blockPartial.js';
-import { ensembleStatistics } from '../../pipeline/ensemble/ensembleStatistics.js';
+import { dirname, resolve } from 'node:path';
 import { DEFAULT_BINS_PER_ATOM } from '../../pipeline/ensemble/histogramBins.js';
 import { runEnsembleBlocks, type ParallelMode, type WorkerModule } from '../../pipeline/ensemble/runEnsemble.js';
 import { blocksCompleted, DEFAULT_BLOCK_SIZE, ensembleSetup } from '../../pipeline/ensemble/ensembleSetup.js';
 import { prepareScenario } from '../../pipeline/prepareScenario.js';
 import { PARALLEL_MIN_SITES } from '../../pipeline/solveScenario.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
-import { EnsembleShardWriter } from '../../output/ensembleShard.js';
-import { shardFolderName } from '../../output/shardSet.js';
+import { defaultOutputFolder, runOutputFolder } from '../../output/defaultOutputFolders.js';
+import { ensembleRunSink } from '../../output/ensembleRunSink.js';
 import { resolveShard } from '../../pipeline/shardChoice.js';
-import { ensembleWarnings, type EnsembleOutcome } from '../../output/ensembleOutputs.js';
+import { ensembleWarnings } from '../../output/ensembleOutputs.js';
 import { ensembleDoneLines, ensembleShardLines, ensembleThreadNote } from '../../report/ensembleSummaryLines.js';
 import type { CommandContext } from '../main.js';
-import { declare, readOptions, type RawOptions } from '../options.js';
+import { readOptions, type RawOptions } from '../options.js';
+import { registerScenarioCommand } from '../scenarioCommand.js';
 import { defaultThreads, memoryLimitBytes } from '../machine.js';
 import { progressFor } from '../progress.js';
 import { whileInterruptible } from '../signals.js';
@@ -39,15 +37,16 @@ export interface EnsembleHooks {
 }
 
 export function registerEnsemble(program: Command, context: CommandContext): void {
-  const command = program
-    .command('ensemble')
-    .description('average a disorder scenario over many realisations (optionally one shard of a cluster job array)')
-    .argument('<scenario>', 'scenario file (JSON) with a disorder block; example: configs/speckle-layer-ensemble.json');
-  declare(command, OPTIONS, {
-    out: { help: 'output folder (default out/<name>-ensemble; for shards the folder that collects them, default out/<name>-shards)' },
-    parallelOver: { help: `auto | realisations | lattice (auto: realisations side by side below ${PARALLEL_MIN_SITES} sites, else one at a time on all threads)` },
-  }).action(async (scenarioPath: string, options: RawOptions) => {
-    context.exitCode = await runEnsembleCommand(scenarioPath, options);
+  registerScenarioCommand(program, context, {
+    name: 'ensemble',
+    description: 'average a disorder scenario over many realisations (optionally one shard of a cluster job array)',
+    scenarioHelp: 'scenario file (JSON) with a disorder block; example: configs/speckle-layer-ensemble.json',
+    options: OPTIONS,
+    overrides: {
+      out: { help: 'output folder (default out/<name>-ensemble; for shards the folder that collects them, default out/<name>-shards)' },
+      parallelOver: { help: `auto | realisations | lattice (auto: realisations side by side below ${PARALLEL_MIN_SITES} sites, else one at a time on all threads)` },
+    },
+    run: runEnsembleCommand,
   });
 }
 
@@ -68,18 +67,13 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
   });
   const { identity, blocks, toRun } = setup;
   const { plan, scenario } = identity;
-  const given = o.out ?? `out/${scenario.name}-${shard ? 'shards' : 'ensemble'}`;
-  const target = outputTarget(shard ? join(given, shardFolderName(shard)) : given, { force: o.force ?? false, inputs: [scenarioPath] });
+  const given = o.out ?? defaultOutputFolder(shard ? 'ensemble shards' : 'ensemble', scenario.name);
+  const target = outputTarget(runOutputFolder(given, shard), { force: o.force ?? false, inputs: [scenarioPath] });
 
   const progress = progressFor(o);
   // Finished blocks go into the running total (complete run), or straight into the
   // shard's staging folder (shard), so that only one block is held in memory.
-  const total = shard ? null : createEnsembleTotal(setup.siteCount, identity.bins);
-  const shardWriter = shard ? new EnsembleShardWriter(target, identity) : null;
-  const onBlock = (partial: BlockPartial): void => {
-    if (shardWriter) shardWriter.add(partial);
-    else if (total) absorbBlock(total, partial);
-  };
+  const sink = ensembleRunSink(target, identity, setup.siteCount, shard);
   let sweeps = 0;
   let run;
   // Progress: realisations done of those this process runs, the blocks completed, and, while
@@ -89,7 +83,7 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
   try {
     run = await whileInterruptible((interrupted) =>
       runEnsembleBlocks({
-        onBlock,
+        onBlock: (partial) => sink.add(partial),
         raw: prepared.raw,
         baseSeed: identity.baseSeed,
         plan,
@@ -114,32 +108,29 @@ export async function runEnsembleCommand(scenarioPath: string, raw: RawOptions, 
       }),
     );
   } catch (err) {
-    shardWriter?.discard();
+    sink.discard();
     throw err;
   }
   progress.done();
   if (run.stopped) {
-    shardWriter?.discard();
+    sink.discard();
     process.stderr.write('tiercake: ensemble interrupted; nothing written\n');
     return ExitCode.interrupted;
   }
   const seconds = (performance.now() - started) / 1000;
-  const records = total ? total.records : (shardWriter?.records() ?? []);
+  const records = sink.records();
   const notConverged = records.filter((r) => !r.converged).length;
   const exitCode = notConverged > 0 ? ExitCode.notConverged : ExitCode.done;
   const threadNote = ensembleThreadNote(run.threadsUsed, threads, toRun, run.parallelOver);
+  const committed = await sink.commit({ threads: run.threadsUsed, parallelOver: run.parallelOver, seconds }, `one run, ${threadNote}, ${seconds.toFixed(1)} s`);
+  reportCommit(committed.commit);
 
-  if (shard && shardWriter) {
-    reportCommit(shardWriter.commit({ index: shard.index, count: shard.count }, { threads: run.threadsUsed, parallelOver: run.parallelOver, seconds }));
-    const lines = ensembleShardLines(scenario.name, shard, plan, blocks, records.length, notConverged, seconds, threadNote, shardWriter.finalPath, resolve(given), commandPrefix());
+  if (committed.kind === 'shard') {
+    const lines = ensembleShardLines(scenario.name, committed.shard, plan, blocks, records.length, notConverged, seconds, threadNote, committed.folder, resolve(given), commandPrefix());
     process.stdout.write(`${lines.join('\n')}\n`);
     return exitCode;
   }
-  if (!total) throw new Error('ensemble: no total for a complete run');
-  const stats = ensembleStatistics(total);
-  const outcome: EnsembleOutcome = { ...identity, total, stats, provenance: { kind: 'single run', threads: run.threadsUsed, parallelOver: run.parallelOver, seconds } };
-  reportCommit(await writeEnsembleResult(target, 'ensemble', outcome, `one run, ${threadNote}, ${seconds.toFixed(1)} s`));
-  for (const w of ensembleWarnings(outcome)) process.stderr.write(`tiercake: warning: ${w.code}: ${w.message}\n`);
-  process.stdout.write(`${ensembleDoneLines(scenario.name, stats, seconds, threadNote, notConverged, resolve(given)).join('\n')}\n`);
+  for (const w of ensembleWarnings(committed.outcome)) process.stderr.write(`tiercake: warning: ${w.code}: ${w.message}\n`);
+  process.stdout.write(`${ensembleDoneLines(scenario.name, committed.outcome.stats, seconds, threadNote, notConverged, resolve(given)).join('\n')}\n`);
   return exitCode;
 }

@@ -7,6 +7,7 @@
 import type { Command } from 'commander';
 import { dirname, resolve } from 'node:path';
 import { writeEvolveFolder } from '../../output/evolveFolder.js';
+import { defaultOutputFolder } from '../../output/defaultOutputFolders.js';
 import { evolveSummaryLines } from '../../report/evolveSummaryLines.js';
 import { prepareScenario } from '../../pipeline/prepareScenario.js';
 import { evolveScenario, requireEvolutionSection, type EvolveProgress } from '../../pipeline/evolveScenario.js';
@@ -14,7 +15,8 @@ import { modulationFrequencyGrid } from '../../pipeline/evolutionPlan.js';
 import { EvolutionInterrupted } from '../../pipeline/interruptibleRunner.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
-import { declare, readOptions, type RawOptions } from '../options.js';
+import { readOptions, type RawOptions } from '../options.js';
+import { registerScenarioCommand } from '../scenarioCommand.js';
 import { parseInteger, parseReal } from '../numberText.js';
 import { defaultThreads, memoryLimitBytes } from '../machine.js';
 import { progressFor, type ProgressReporter } from '../progress.js';
@@ -24,12 +26,13 @@ import { outputTarget, reportCommit } from '../outputOption.js';
 const OPTIONS = ['out', 'force', 'set', 'threads', 'quiet', 'jsonProgress', 'modulationFrequencies'] as const;
 
 export function registerEvolve(program: Command, context: CommandContext): void {
-  const command = program
-    .command('evolve')
-    .description('evolve the ground state under the ramps and modulation of the scenario\'s "evolution" section; write evolution.csv, snapshots, a verdict and report.html')
-    .argument('<scenario>', 'scenario file (JSON) with an "evolution" section');
-  declare(command, OPTIONS, { out: { help: 'output folder (default: out/<scenario name>-evolve)' } }).action(async (scenarioPath: string, options: RawOptions) => {
-    context.exitCode = await runEvolveCommand(scenarioPath, options);
+  registerScenarioCommand(program, context, {
+    name: 'evolve',
+    description: 'evolve the ground state under the ramps and modulation of the scenario\'s "evolution" section; write evolution.csv, snapshots, a verdict and report.html',
+    scenarioHelp: 'scenario file (JSON) with an "evolution" section',
+    options: OPTIONS,
+    overrides: { out: { help: 'output folder (default: out/<scenario name>-evolve)' } },
+    run: runEvolveCommand,
   });
 }
 
@@ -68,7 +71,7 @@ export async function runEvolveCommand(scenarioPath: string, raw: RawOptions): P
   const modulationFrequencies = o.modulationFrequencies !== undefined ? parseModulationFrequencies(o.modulationFrequencies) : undefined;
   const prepared = prepareScenario(scenarioPath, o.set ?? [], { memoryLimitBytes: memoryLimitBytes() });
   requireEvolutionSection(prepared, scenarioPath);
-  const outDir = resolve(o.out ?? `out/${prepared.scenario.name}-evolve`);
+  const outDir = resolve(o.out ?? defaultOutputFolder('evolve', prepared.scenario.name));
   const target = outputTarget(o.out ?? outDir, { force: o.force ?? false, inputs: [scenarioPath] });
   const progress = progressFor(o);
   for (const w of prepared.resolved.laboratory?.warnings ?? []) process.stderr.write(`tiercake: warning: ${w}\n`);

@@ -8,9 +8,7 @@
 // written and flagged), 130 interrupted (the points done are kept).
 
 import type { Command } from 'commander';
-import { join, resolve } from 'node:path';
-import type { OutputFolder } from '../../output/outputFolder.js';
-import { writeScanResult } from '../../output/batchResults.js';
+import { resolve } from 'node:path';
 import { scanDoneLines, scanPointLine, scanShardLines } from '../../report/scanSummaryLines.js';
 import { PARALLEL_MIN_SITES, type WorkerModule } from '../../pipeline/solveScenario.js';
 import { chainPoints, shardChains } from '../../pipeline/scan/scanPlan.js';
@@ -19,15 +17,14 @@ import { scanSetup } from '../../pipeline/scan/scanSetup.js';
 import { scanEnergyUnit } from '../../pipeline/scan/scanRow.js';
 import { createSweepPool, type SweepPool } from '../../solver/sweepExecutor.js';
 import { ExitCode } from '../../scenario/inputError.js';
-import { shardFolderName } from '../../output/shardSet.js';
+import { defaultOutputFolder, runOutputFolder } from '../../output/defaultOutputFolders.js';
 import { resolveShard } from '../../pipeline/shardChoice.js';
-import { openScanWork, recordScanPoint, scanWorkPath } from '../../output/scanWork.js';
-import { describeScan, effectiveHold, scanSetupHash } from '../../output/scanIdentity.js';
-import { writeScanShard } from '../../output/scanShard.js';
-import { copyKeptPoints, writeKeptPoint } from '../../output/scanKeptPoints.js';
-import type { ScanOutcome } from '../../output/scanOutputs.js';
+import { openScanWork, scanWorkPath } from '../../output/scanWork.js';
+import { describeScan } from '../../output/scanIdentity.js';
+import { commitScanRun, keepScanPoint, scanRunIdentity, scanRunRows } from '../../output/scanRunResult.js';
 import type { CommandContext } from '../main.js';
-import { declare, readOptions, type RawOptions } from '../options.js';
+import { readOptions, type RawOptions } from '../options.js';
+import { registerScenarioCommand } from '../scenarioCommand.js';
 import { defaultThreads, memoryLimitBytes } from '../machine.js';
 import { progressFor } from '../progress.js';
 import { whileInterruptible } from '../signals.js';
@@ -46,17 +43,18 @@ export interface ScanHooks {
 }
 
 export function registerScan(program: Command, context: CommandContext): void {
-  const command = program
-    .command('scan')
-    .description('solve a scenario over a range of one or two of its values (warm-started), with a table, figures and a report; shardable')
-    .argument('<scenario>', 'scenario file (JSON); examples in configs/');
-  declare(command, OPTIONS, {
-    out: { help: 'output folder (default out/<name>-scan; for shards the folder that collects them, default out/<name>-scan-shards)' },
-    realisations: {
-      help: 'disorder realisations per point (realisation r uses the seed "<disorder.seed>/r", solved cold): rows hold their means, the spread of the superfluid fraction and the share of each phase (default 1)',
+  registerScenarioCommand(program, context, {
+    name: 'scan',
+    description: 'solve a scenario over a range of one or two of its values (warm-started), with a table, figures and a report; shardable',
+    scenarioHelp: 'scenario file (JSON); examples in configs/',
+    options: OPTIONS,
+    overrides: {
+      out: { help: 'output folder (default out/<name>-scan; for shards the folder that collects them, default out/<name>-scan-shards)' },
+      realisations: {
+        help: 'disorder realisations per point (realisation r uses the seed "<disorder.seed>/r", solved cold): rows hold their means, the spread of the superfluid fraction and the share of each phase (default 1)',
+      },
     },
-  }).action(async (scenarioPath: string, options: RawOptions) => {
-    context.exitCode = await runScanCommand(scenarioPath, options);
+    run: runScanCommand,
   });
 }
 
@@ -65,14 +63,14 @@ export async function runScanCommand(scenarioPath: string, raw: RawOptions, hook
   const o = readOptions(raw, OPTIONS);
   const setup = scanSetup(scenarioPath, parseVaryOptions(o.vary, o.log ?? false), o, memoryLimitBytes());
   const { plan, base } = setup;
-  const scanHash = scanSetupHash(setup);
+  const unit = scanEnergyUnit(base.resolved).name;
+  const id = scanRunIdentity(setup, unit);
   const shard = resolveShard(o.shard, o.shardFromEnv, o.shards, hooks.env ?? process.env);
   const threads = o.threads ?? defaultThreads();
-  const given = o.out ?? `out/${base.scenario.name}-${shard ? 'scan-shards' : 'scan'}`;
-  const target = outputTarget(shard ? join(given, shardFolderName(shard)) : given, { force: o.force ?? false, inputs: [scenarioPath] });
+  const given = o.out ?? defaultOutputFolder(shard ? 'scan shards' : 'scan', base.scenario.name);
+  const target = outputTarget(runOutputFolder(given, shard), { force: o.force ?? false, inputs: [scenarioPath] });
   const chains = shard ? shardChains(plan, shard.index, shard.count) : Array.from({ length: plan.chainCount }, (_, c) => c);
-  const work = openScanWork(scanWorkPath(target.path), scanHash, describeScan(plan), plan.pointCount);
-  const unit = scanEnergyUnit(base.resolved).name;
+  const work = openScanWork(scanWorkPath(target.path), id.scanHash, describeScan(plan), plan.pointCount);
   const total = chains.reduce((n, c) => n + chainPoints(plan, c).length, 0);
   const quiet = o.quiet ?? false;
   const progress = progressFor(o);
@@ -82,8 +80,7 @@ export async function runScanCommand(scenarioPath: string, raw: RawOptions, hook
   if (threads > 1 && base.resolved.geometry.siteCount >= PARALLEL_MIN_SITES) pool = createSweepPool({ workers: threads - 1, ...(hooks.sweepWorker ?? {}) });
   let finished = work.resumedPoints;
   const onPoint = async (r: ScanPointResult): Promise<void> => {
-    if (setup.keepPoints) await writeKeptPoint(work.pointFolder(r.point), r.artifacts);
-    recordScanPoint(work, plan, r);
+    await keepScanPoint(work, id, r);
     finished++;
     if (o.jsonProgress) process.stderr.write(`${JSON.stringify({ stage: 'point', done: finished, total, point: r.point, values: r.row.values, converged: r.row.converged, sweeps: r.row.sweeps, warmStart: r.row.warmStart })}\n`);
     else if (!quiet) process.stderr.write(`${process.stderr.isTTY ? '\r\x1b[K' : ''}${scanPointLine(plan, r, finished, total, unit)}\n`);
@@ -113,27 +110,16 @@ export async function runScanCommand(scenarioPath: string, raw: RawOptions, hook
     process.stderr.write(`tiercake: scan interrupted; ${finished} of ${total} points are done and kept in ${work.path}\n  continue with the same command\n`);
     return ExitCode.interrupted;
   }
-  const wanted = new Set(chains.flatMap((c) => chainPoints(plan, c)));
-  const rows = work.rows().filter((r) => wanted.has(r.point));
-  if (rows.length !== wanted.size) throw new Error(`scan: ${rows.length} rows for ${wanted.size} points`);
+  const rows = scanRunRows(work, id, chains);
   const seconds = (performance.now() - started) / 1000;
   const exitCode = rows.some((r) => !r.converged) ? ExitCode.notConverged : ExitCode.done;
-  const kept = setup.keepPoints ? (p: number): string => work.pointFolder(p) : null;
-  const id = { scenario: base.scenario, scenarioHash: setup.scenarioHash, scanHash, plan, hold: effectiveHold(plan, setup.hold), energyUnit: unit, keepPoints: setup.keepPoints };
-  const runInfo = { threads, seconds, resumedPoints: work.resumedPoints };
+  const committed = await commitScanRun(target, work, id, { chains, rows, shard, threads, seconds }, `one run, ${seconds.toFixed(1)} s`);
+  reportCommit(committed.commit);
 
-  if (shard) {
-    const commit = await writeScanShard(target, id, { index: shard.index, count: shard.count }, chains, rows, runInfo, kept);
-    work.remove();
-    reportCommit(commit);
-    process.stdout.write(`${scanShardLines(base.scenario.name, shard, plan, chains, rows, seconds, target.path, resolve(given), commandPrefix()).join('\n')}\n`);
+  if (committed.kind === 'shard') {
+    process.stdout.write(`${scanShardLines(base.scenario.name, committed.shard, plan, chains, rows, seconds, target.path, resolve(given), commandPrefix()).join('\n')}\n`);
     return exitCode;
   }
-  const outcome: ScanOutcome = { ...id, rows, provenance: { kind: 'single run', ...runInfo } };
-  const points = kept ? (folder: OutputFolder): void => copyKeptPoints(folder, rows.map((r) => r.point), kept) : null;
-  const commit = await writeScanResult(target, 'scan', outcome, `one run, ${seconds.toFixed(1)} s`, points);
-  work.remove();
-  reportCommit(commit);
-  process.stdout.write(`${scanDoneLines(outcome, seconds).join('\n')}\n  results in ${resolve(given)}\n`);
+  process.stdout.write(`${scanDoneLines(committed.outcome, seconds).join('\n')}\n  results in ${resolve(given)}\n`);
   return exitCode;
 }

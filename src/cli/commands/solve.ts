@@ -15,7 +15,8 @@ import { landscapeFileHashes } from '../../scenario/scenarioHash.js';
 import { commandPrefix } from '../invocation.js';
 import { ExitCode } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
-import { declare, readOptions, type RawOptions } from '../options.js';
+import { readOptions, type RawOptions } from '../options.js';
+import { registerScenarioCommand } from '../scenarioCommand.js';
 import { defaultThreads, memoryLimitBytes } from '../machine.js';
 import { progressFor, solveObserver } from '../progress.js';
 import { whileInterruptible } from '../signals.js';
@@ -24,12 +25,13 @@ import { outputTarget, reportCommit } from '../outputOption.js';
 const OPTIONS = ['out', 'force', 'set', 'threads', 'quiet', 'jsonProgress', 'resume'] as const;
 
 export function registerSolve(program: Command, context: CommandContext): void {
-  const command = program
-    .command('solve')
-    .description('solve a scenario and write fields, images, profiles, summary.json and report.html')
-    .argument('<scenario>', 'scenario file (JSON); examples in configs/');
-  declare(command, OPTIONS, { out: { help: 'output folder (default: out/<scenario name>)' } }).action(async (scenarioPath: string, options: RawOptions) => {
-    context.exitCode = await runSolveCommand(scenarioPath, options);
+  registerScenarioCommand(program, context, {
+    name: 'solve',
+    description: 'solve a scenario and write fields, images, profiles, summary.json and report.html',
+    scenarioHelp: 'scenario file (JSON); examples in configs/',
+    options: OPTIONS,
+    overrides: { out: { help: 'output folder (default: out/<scenario name>)' } },
+    run: runSolveCommand,
   });
 }
 

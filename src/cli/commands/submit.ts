@@ -14,16 +14,18 @@
 
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
-import { isSlurmTime } from '../../output/batchScripts.js';
-import { appendJobRecord, checkResubmission, planSubmission, writeSubmission } from '../../output/submission.js';
-import { indexList } from '../../output/shardProgress.js';
-import { runSbatch } from '../../output/sbatchRun.js';
+import { checkSbatchChoices } from '../../output/sbatchChoices.js';
+import { checkResubmission, planSubmission, writeSubmission } from '../../output/submission.js';
+import { arrayJobArguments, submitJobs } from '../../output/submitJobs.js';
+import { defaultOutputFolder } from '../../output/defaultOutputFolders.js';
 import { toolInvocation } from '../../output/toolInvocation.js';
 import { batchWork } from '../../pipeline/batchWork.js';
 import { dryRunLines, submittedLines } from '../../report/submitSummaryLines.js';
+import { submitNotes } from '../../report/submitNotes.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
-import { declare, readOptions, type OptionValues, type RawOptions } from '../options.js';
+import { readOptions, type RawOptions } from '../options.js';
+import { registerScenarioCommand } from '../scenarioCommand.js';
 import { memoryLimitBytes } from '../machine.js';
 import { outputTarget, reportCommit } from '../outputOption.js';
 import { parseInteger } from '../numberText.js';
@@ -35,16 +37,17 @@ const OPTIONS = [
 ] as const;
 
 export function registerSubmit(program: Command, context: CommandContext): void {
-  const command = program
-    .command('submit')
-    .description('submit a sharded ensemble or scan to SLURM: a job array of shard tasks and a merge job that waits for all of them')
-    .argument('<scenario>', 'scenario file (JSON)');
-  declare(command, OPTIONS, {
-    shards: { help: 'number of shard tasks in the job array (required)' },
-    out: { help: 'submission folder: scripts, logs, shards and the merged result (default out/<name>-cluster)' },
-    force: { help: 'if the submission folder exists and holds other files, move it aside to <name>.replaced-<time> (nothing is deleted)' },
-  }).action(async (scenarioPath: string, options: RawOptions) => {
-    context.exitCode = await runSubmitCommand(scenarioPath, options);
+  registerScenarioCommand(program, context, {
+    name: 'submit',
+    description: 'submit a sharded ensemble or scan to SLURM: a job array of shard tasks and a merge job that waits for all of them',
+    scenarioHelp: 'scenario file (JSON)',
+    options: OPTIONS,
+    overrides: {
+      shards: { help: 'number of shard tasks in the job array (required)' },
+      out: { help: 'submission folder: scripts, logs, shards and the merged result (default out/<name>-cluster)' },
+      force: { help: 'if the submission folder exists and holds other files, move it aside to <name>.replaced-<time> (nothing is deleted)' },
+    },
+    run: runSubmitCommand,
   });
 }
 
@@ -61,34 +64,20 @@ export function parseShardList(text: string, count: number): number[] {
   return [...out].sort((x, y) => x - y);
 }
 
-function checkSettings(o: OptionValues<(typeof OPTIONS)[number]>): void {
-  if (o.time !== undefined && !isSlurmTime(o.time)) throw new InputError(`--time: expected a SLURM time limit such as 30 (minutes), 02:00:00 or 1-00:00:00, got ${JSON.stringify(o.time)}`);
-  if (o.partition !== undefined && !/^[A-Za-z0-9_.,-]+$/.test(o.partition)) throw new InputError(`--partition: expected a partition name (letters, digits, '_', '-', '.', ','), got ${JSON.stringify(o.partition)}`);
-  for (const extra of o.sbatchOption ?? []) {
-    if (!/^--?[A-Za-z][A-Za-z0-9-]*(=\S+)?$/.test(extra)) {
-      throw new InputError(`--sbatch-option: expected one sbatch option such as --account=lab42 or --mem-per-cpu=2G, got ${JSON.stringify(extra)}`);
-    }
-    if (/^--(array|output|error|dependency|cpus-per-task|job-name|parsable|wrap)\b/.test(extra)) {
-      throw new InputError(`--sbatch-option ${extra}: submit sets this one itself; use its own option (--cpus-per-task, --hold) or leave it out`);
-    }
-  }
-}
-
 export async function runSubmitCommand(scenarioPath: string, raw: RawOptions): Promise<number> {
   const o = readOptions(raw, OPTIONS);
-  checkSettings(o);
+  checkSbatchChoices({ time: o.time, partition: o.partition, sbatchOptions: o.sbatchOption });
   if (o.shards === undefined) throw new InputError('--shards: required; give the number of shard tasks of the job array, e.g. --shards 8');
   const count = o.shards;
   const cpus = o.cpusPerTask ?? 1;
   const scenarioAbs = resolve(scenarioPath);
   const work = batchWork(scenarioAbs, o, () => parseVaryOptions(o.vary, o.log ?? false), memoryLimitBytes());
-  const dir = resolve(o.out ?? `out/${work.scenarioName}-cluster`);
+  const dir = resolve(o.out ?? defaultOutputFolder('submission', work.scenarioName));
   const plan = planSubmission(work, { dir, scenarioPath: scenarioAbs, shards: count, tool: toolInvocation(), partition: o.partition, time: o.time, cpusPerTask: cpus, sbatchOptions: o.sbatchOption ?? [] });
   const sbatchCommand = o.sbatch ?? 'sbatch';
   const only = o.onlyShards !== undefined ? parseShardList(o.onlyShards, count) : null;
-  const notes: string[] = [];
-  if (count > work.units) notes.push(`note: ${count} shards for ${work.units} ${work.unitName}: shards ${work.units}-${count - 1} get no work (use fewer shards${work.kind === 'scan' ? ' or a shorter --chain-length' : ' or a smaller --block-size'})`);
-  const arrayArgs = [...(o.hold ? ['--hold'] : []), ...(only ? [`--array=${indexList(only)}`] : []), plan.record.arrayScript];
+  const notes = submitNotes(count, work);
+  const arrayArgs = arrayJobArguments(plan, o.hold ?? false, only);
   if (o.dryRun) {
     process.stdout.write(dryRunLines(plan, notes, sbatchCommand, arrayArgs).join('\n'));
     return ExitCode.done;
@@ -97,14 +86,8 @@ export async function runSubmitCommand(scenarioPath: string, raw: RawOptions): P
   let earlierMerges: string[] = [];
   if (only !== null) earlierMerges = checkResubmission(dir, plan.record, only);
   else reportCommit(await writeSubmission(outputTarget(dir, { force: o.force ?? false, inputs: [scenarioPath] }), plan));
-  const arrayJob = runSbatch(sbatchCommand, arrayArgs);
-  let mergeJob: string | null = null;
-  try {
-    mergeJob = runSbatch(sbatchCommand, [`--dependency=afterok:${arrayJob}`, plan.record.mergeScript]);
-  } finally {
-    appendJobRecord(dir, { arrayJob, mergeJob, shards: only ?? Array.from({ length: count }, (_, k) => k), submittedIso: new Date().toISOString(), held: o.hold ?? false });
-  }
-  const jobs = { arrayJob, mergeJob, tasks: only ? indexList(only) : `0-${count - 1}`, held: o.hold ?? false, earlierMerges };
+  const ids = submitJobs(sbatchCommand, dir, plan, arrayArgs, { count, only, held: o.hold ?? false });
+  const jobs = { ...ids, held: o.hold ?? false, earlierMerges };
   process.stdout.write(`${submittedLines(plan.record, jobs, notes, cpus, dir).join('\n')}\n`);
   return ExitCode.done;
 }
