@@ -11,24 +11,18 @@
 // Exit codes: 0 done; 2 bad input; 3 the solve at the best values did not converge.
 
 import type { Command } from 'commander';
-import { writeOutputFolder } from '../../output/outputFolder.js';
-import { writeCompareFiles, type CompareProvenance } from '../../output/compareOutputs.js';
-import { toolVersion } from '../../output/toolVersion.js';
-import { renderReportHtml } from '../../report/renderReport.js';
-import { buildCompareReport } from '../../report/compareReport.js';
+import type { CompareProvenance } from '../../output/compareOutputs.js';
+import { writeCompareFolder } from '../../output/compareFolder.js';
 import { compareSummaryLines } from '../../report/compareSummaryLines.js';
 import { prepareScenario } from '../../pipeline/prepareScenario.js';
 import { runCompareFit } from '../../pipeline/compareFit.js';
 import { FIT_PARAMETER_NAMES, type FitParameterName, type FitParameterRequest } from '../../pipeline/compareFitParameters.js';
 import { checkCompareInputs, resolveCompareMeasurement } from '../../pipeline/compareMeasurement.js';
+import { compareInputFiles } from '../../pipeline/compareInputFiles.js';
 import { readCompareShots } from '../../pipeline/compareShotFiles.js';
-import { equationOfState } from '../../pipeline/compareEquationOfState.js';
-import { stackThermometry } from '../../pipeline/compareThermometry.js';
-import { toOrientedFrame } from '../../imaging/camera/frameOrientation.js';
+import { compareReadings, fixedCentreInGrid, isShotStack } from '../../pipeline/compareReadings.js';
 import { readSidecar } from '../../imaging/camera/pictureSidecar.js';
-import { sourceAddresses } from '../../imaging/camera/frameAddress.js';
 import type { PixelRectangle } from '../../imaging/camera/regionOfInterest.js';
-import { landscapeFileHashes, scenarioHash } from '../../scenario/scenarioHash.js';
 import { ExitCode, InputError } from '../../scenario/inputError.js';
 import type { CommandContext } from '../main.js';
 import { readOptions, type RawOptions } from '../options.js';
@@ -92,19 +86,13 @@ function parseCentre(text: string): { x: number; y: number } {
   return { x, y };
 }
 
-/** Files named by a source text (for the inputs of the run): the file of a dataset address, folders as they are. */
-function inputPaths(text: string | undefined): string[] {
-  return text === undefined ? [] : sourceAddresses(text).map((a) => a.file).filter((f) => f.length > 0);
-}
-
 export async function runCompareCommand(scenarioPath: string, raw: RawOptions): Promise<number> {
   const o = readOptions(raw, OPTIONS);
   checkCompareInputs(o);
   const fit = parseFitList(o.fit ?? 'atoms');
   const region = o.region !== undefined ? parseRegion(o.region) : undefined;
   const centreGiven = o.centrePixels !== undefined ? parseCentre(o.centrePixels) : undefined;
-  const inputs = [scenarioPath, ...(o.shots !== undefined ? inputPaths(o.shots) : [...inputPaths(o.image), ...inputPaths(o.absorptionFrames), ...inputPaths(o.backgroundFrame)]), ...inputPaths(o.regionMask)];
-  const target = outputTarget(o.out as string, { force: o.force ?? false, inputs });
+  const target = outputTarget(o.out as string, { force: o.force ?? false, inputs: compareInputFiles(scenarioPath, o) });
   const overrides = o.set ?? [];
   const prepared = prepareScenario(scenarioPath, overrides, { memoryLimitBytes: memoryLimitBytes() });
   const quiet = o.quiet ?? false;
@@ -124,12 +112,8 @@ export async function runCompareCommand(scenarioPath: string, raw: RawOptions): 
     orientation,
   });
   say(`${shots.perShot.length} shot(s), ${shots.measured.nx} x ${shots.measured.ny} pixels after orientation, ${shots.measured.usedPixels} used; ${shots.method}`);
-  let fixedCentre: { x: number; y: number } | undefined;
-  if (centreGiven !== undefined) {
-    const p = toOrientedFrame(shots.map, centreGiven.x, centreGiven.y);
-    fixedCentre = { x: p.col, y: shots.measured.ny - 1 - p.row };
-  }
-  const stack = shots.perShot.length >= 2;
+  const fixedCentre = centreGiven !== undefined ? fixedCentreInGrid(shots, centreGiven) : undefined;
+  const stack = isShotStack(shots);
   const result = await runCompareFit({
     prepared,
     measured: shots.measured,
@@ -148,19 +132,10 @@ export async function runCompareCommand(scenarioPath: string, raw: RawOptions): 
     },
   });
   say('equation of state and thermometry');
-  const eos = equationOfState(result, o.eosBinSites !== undefined ? { binSites: o.eosBinSites } : {});
-  const thermometry = stack
-    ? stackThermometry(result, { shots: shots.shots, imagingVariance: shots.imagingVariance, ...(o.thermometryBinSites !== undefined ? { binSites: o.thermometryBinSites } : {}) })
-    : { available: false as const, reason: 'a single shot: fluctuation thermometry needs a stack of shots' };
-  const warnings = [...shots.warnings, ...result.warnings, ...(thermometry.available ? thermometry.warnings : [])];
+  const { eos, thermometry, warnings } = compareReadings(result, shots, o);
   const imagePath = o.shots ?? o.image ?? (o.absorptionFrames as string);
   const provenance: CompareProvenance = { scenarioPath, overrides, imagePath, inputs: frameInputs, format, scaleFrom, measurement, preparation, shots, warnings };
-  const createdIso = new Date().toISOString();
-  const { commit } = await writeOutputFolder(target, { command: 'compare', scenarioHash: scenarioHash(prepared.scenario, 'whole', landscapeFileHashes(prepared.resolved)) }, (folder) =>
-    writeCompareFiles(result, provenance, { eos, thermometry }, folder, (images) =>
-      renderReportHtml(buildCompareReport(result, { imagePath, images, createdIso, toolVersion: toolVersion(), provenance, eos, thermometry })),
-    ),
-  );
+  const commit = await writeCompareFolder(target, result, provenance, { eos, thermometry });
   reportCommit(commit);
   for (const w of warnings) process.stderr.write(`tiercake: warning: ${w.code}: ${w.message}\n`);
   if (!quiet) {
