@@ -5,9 +5,7 @@
 // here without the sink); two shard sinks, merged, give the same statistics value for value,
 // the merged folder gets the ensemble's default name out/<name>-ensemble; the records are
 // in block order; a discarded sink leaves nothing behind; provenance says how it ran.
-// Mutations tried: absorbing each block twice in the complete sink (the realisation count
-// and the statistics fail); passing `seconds` as `threads` to the shard header (the schema
-// refuses the header when merging).
+// Mutation tried: absorbing each block twice in the complete sink: the statistics fail.
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
