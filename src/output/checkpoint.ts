@@ -14,14 +14,14 @@ import { checkOutputTarget } from './outputTarget.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
 import { scenarioHash } from '../scenario/scenarioHash.js';
 import { InputError } from '../scenario/inputError.js';
-import { toolVersion } from './toolVersion.js';
+import { Sha256HexSchema, ToolStampSchema, toolStamp } from './recordFields.js';
 
 export const CHECKPOINT_FILE = 'checkpoint.json';
 export const CHECKPOINT_FIELD_FILE = 'order_parameter.npy';
 
 export const CheckpointHeaderSchema = z.strictObject({
-  tool: z.strictObject({ name: z.literal('tiercake'), version: z.string() }),
-  scenarioHash: z.string().regex(/^[0-9a-f]{64}$/),
+  tool: ToolStampSchema,
+  scenarioHash: Sha256HexSchema,
   mu: z.number(),
   temperature: z.number().min(0),
   nmax: z.int().min(1).max(1000),
@@ -56,7 +56,7 @@ export async function writeCheckpoint(path: string, c: Checkpoint, inputs: reado
   await writeOutputFolder(target, { command: 'solve checkpoint', scenarioHash: null }, (folder) => {
     folder.write(CHECKPOINT_FIELD_FILE, encodeNpy(c.phi, c.shape));
     const header: z.infer<typeof CheckpointHeaderSchema> = {
-      tool: { name: 'tiercake', version: toolVersion() },
+      tool: toolStamp(),
       scenarioHash: c.scenarioHash,
       mu: c.mu,
       temperature: c.temperature,

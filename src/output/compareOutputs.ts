@@ -26,7 +26,7 @@ import type { OutputFolder } from './outputFolder.js';
 import { colourPictureFigure, PICTURE_ARRAY_ORDER, pictureFiles, toPngRowOrder, type PictureFiles } from './pictureFiles.js';
 import { figureImage, jsonReplacer, type WrittenImage } from './solveOutputs.js';
 import { equationOfStateTable, fitTable, profileTable, shotsTable, thermometryTable, type WrittenTable } from './compareTables.js';
-import { toolVersion } from './toolVersion.js';
+import { toolStamp } from './recordFields.js';
 
 /** Where the inputs came from and how they were turned into atoms, for the files. */
 export interface CompareProvenance {
@@ -202,7 +202,7 @@ export function comparisonSummary(c: CompareFit, provenance: CompareProvenance, 
   const m = provenance.measurement;
   const warnings = provenance.warnings ?? c.warnings;
   return {
-    tool: { name: 'tiercake', version: toolVersion() },
+    tool: toolStamp(),
     scenario: { file: provenance.scenarioPath, name: c.prepared.scenario.name, overrides: provenance.overrides },
     warnings,
     image: {

@@ -22,6 +22,7 @@ import type { EnsembleStatistics } from '../pipeline/ensemble/ensembleStatistics
 import { centralPlane, figureImage, jsonReplacer, type WrittenImage } from './solveOutputs.js';
 import { seedRuleText, type EnsembleIdentity } from './ensembleShard.js';
 import { toolVersion } from './toolVersion.js';
+import { toolStamp } from './recordFields.js';
 import { readingWarnings } from '../observables/readingWarnings.js';
 
 /** Everything the final files are made from. */
@@ -295,7 +296,7 @@ export function buildEnsembleSummary(o: EnsembleOutcome, files: string[]): Recor
   const energy = (x: number): Record<string, number> => inAllUnits(x, units);
   const t = histogramTable(o);
   return {
-    tool: { name: 'tiercake', version: toolVersion() },
+    tool: toolStamp(),
     kind: 'disorder ensemble',
     warnings: ensembleWarnings(o),
     scenario: o.scenario,

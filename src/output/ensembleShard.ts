@@ -25,6 +25,7 @@ import { decodeNpy, encodeNpy, NpyFormatError } from '../formats/npy.js';
 import { OutputFolder, type CommitReport } from './outputFolder.js';
 import type { OutputTarget } from './outputTarget.js';
 import { toolVersion } from './toolVersion.js';
+import { Sha256HexSchema, ToolStampSchema, toolStamp } from './recordFields.js';
 import type { BlockPlan } from '../pipeline/ensemble/blockPlan.js';
 import { phaseCount, type BlockPartial } from '../pipeline/ensemble/blockPartial.js';
 import type { HistogramBins } from '../pipeline/ensemble/histogramBins.js';
@@ -76,9 +77,9 @@ const UnitsSchema = z.strictObject({
 export const ShardHeaderSchema = z.strictObject({
   format: z.literal(SHARD_FORMAT),
   formatVersion: z.literal(SHARD_FORMAT_VERSION),
-  tool: z.strictObject({ name: z.literal('tiercake'), version: z.string() }),
+  tool: ToolStampSchema,
   scenarioName: z.string(),
-  scenarioHash: z.string().regex(/^[0-9a-f]{64}$/),
+  scenarioHash: Sha256HexSchema,
   scenario: z.record(z.string(), z.unknown()),
   baseSeed: z.string(),
   seedRule: z.string(),
@@ -165,7 +166,7 @@ export function writeShardHeader(
   const header: ShardHeader = {
     format: SHARD_FORMAT,
     formatVersion: SHARD_FORMAT_VERSION,
-    tool: { name: 'tiercake', version: toolVersion },
+    tool: toolStamp(toolVersion),
     scenarioName: identity.scenario.name,
     scenarioHash: identity.scenarioHash,
     scenario: identity.scenario as unknown as Record<string, unknown>,

@@ -21,6 +21,7 @@ import type { OutputFolder } from './outputFolder.js';
 import { pictureFiles } from './pictureFiles.js';
 import { figureImage, jsonReplacer, type WrittenImage } from './solveOutputs.js';
 import { toolVersion } from './toolVersion.js';
+import { toolStamp } from './recordFields.js';
 
 /** Energy unit of the outputs: the internal unit (h·Hz in laboratory mode). */
 export function energyUnitOf(a: EvolveArtifacts): string {
@@ -337,7 +338,7 @@ export function buildEvolveSummary(a: EvolveArtifacts, files: string[]): Record<
   const { plan, start, reference, verdict, result } = a;
   const resolved = a.prepared.resolved;
   return {
-    tool: { name: 'tiercake', version: toolVersion() },
+    tool: toolStamp(),
     command: 'evolve',
     scenario: a.prepared.scenario,
     mode: resolved.mode,

@@ -8,7 +8,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import * as z from 'zod';
-import { toolVersion } from './toolVersion.js';
+import { Sha256HexSchema, ToolStampSchema, toolStamp } from './recordFields.js';
 
 export const OUTPUT_MARKER = '.tiercake-output.json';
 export const OUTPUT_MARKER_FORMAT = 'tiercake-output-folder';
@@ -24,9 +24,9 @@ const RelativeFile = z
 export const OutputMarkerSchema = z.strictObject({
   format: z.literal(OUTPUT_MARKER_FORMAT),
   formatVersion: z.literal(OUTPUT_MARKER_VERSION),
-  tool: z.strictObject({ name: z.literal('tiercake'), version: z.string() }),
+  tool: ToolStampSchema,
   command: z.string().min(1).max(100),
-  scenarioHash: z.string().regex(/^[0-9a-f]{64}$/).nullable(),
+  scenarioHash: Sha256HexSchema.nullable(),
   createdIso: z.string(),
   files: z.array(RelativeFile).max(1_000_000),
   note: z.string(),
@@ -50,7 +50,7 @@ export function markerText(identity: OutputIdentity, files: readonly string[], c
   const marker: OutputMarker = {
     format: OUTPUT_MARKER_FORMAT,
     formatVersion: OUTPUT_MARKER_VERSION,
-    tool: { name: 'tiercake', version: toolVersion() },
+    tool: toolStamp(),
     command: identity.command,
     scenarioHash: identity.scenarioHash,
     createdIso,

@@ -25,7 +25,7 @@ import type { ScanRow } from '../pipeline/scan/scanRow.js';
 import type { DensityHold } from '../pipeline/scan/scanPoint.js';
 import { CHARACTERISTIC_DENSITY } from '../pipeline/scan/scanPoint.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
-import { toolVersion } from './toolVersion.js';
+import { toolStamp } from './recordFields.js';
 
 export interface ScanOutcome {
   scenario: Scenario;
@@ -158,7 +158,7 @@ export function scanSummary(o: ScanOutcome): Record<string, unknown> {
   return {
     format: 'tiercake-scan',
     formatVersion: 1,
-    tool: { name: 'tiercake', version: toolVersion() },
+    tool: toolStamp(),
     scenarioName: o.scenario.name,
     scenarioHash: o.scenarioHash,
     scanHash: o.scanHash,

@@ -28,7 +28,7 @@ import type { Scenario } from '../scenario/scenarioSchema.js';
 import { ScanAxisSchema, ScanRowSchema, scanRowFromJson, scanRowToJson } from './scanRecords.js';
 import { shardFolderName } from './shardSet.js';
 import { SHARD_HEADER_FILE } from './ensembleShard.js';
-import { toolVersion } from './toolVersion.js';
+import { Sha256HexSchema, ToolStampSchema, toolStamp } from './recordFields.js';
 
 export const SCAN_SHARD_FORMAT = 'tiercake-scan-shard';
 export const SCAN_SHARD_FORMAT_VERSION = 1;
@@ -36,10 +36,10 @@ export const SCAN_SHARD_FORMAT_VERSION = 1;
 export const ScanShardHeaderSchema = z.strictObject({
   format: z.literal(SCAN_SHARD_FORMAT),
   formatVersion: z.literal(SCAN_SHARD_FORMAT_VERSION),
-  tool: z.strictObject({ name: z.literal('tiercake'), version: z.string() }),
+  tool: ToolStampSchema,
   scenarioName: z.string(),
-  scenarioHash: z.string().regex(/^[0-9a-f]{64}$/),
-  scanHash: z.string().regex(/^[0-9a-f]{64}$/),
+  scenarioHash: Sha256HexSchema,
+  scanHash: Sha256HexSchema,
   scenario: z.record(z.string(), z.unknown()),
   axes: z.array(ScanAxisSchema).min(1).max(2),
   hold: z.enum(['trap', 'atoms']).nullable(),
@@ -71,7 +71,7 @@ export function writeScanShardHeader(
   const header: ScanShardHeader = {
     format: SCAN_SHARD_FORMAT,
     formatVersion: SCAN_SHARD_FORMAT_VERSION,
-    tool: { name: 'tiercake', version: toolVersion() },
+    tool: toolStamp(),
     scenarioName: id.scenario.name,
     scenarioHash: id.scenarioHash,
     scanHash: id.scanHash,

@@ -27,7 +27,7 @@ import { chainPoints, type ScanPlan } from '../pipeline/scan/scanPlan.js';
 import type { ScanRow } from '../pipeline/scan/scanRow.js';
 import { scanRowFromJson, scanRowToJson, ScanRowSchema } from './scanRecords.js';
 import { removeOwnedFolder, type OutputFolder } from './outputFolder.js';
-import { toolVersion } from './toolVersion.js';
+import { Sha256HexSchema, ToolStampSchema, toolStamp } from './recordFields.js';
 
 export const SCAN_WORK_FORMAT = 'tiercake-scan-work';
 export const SCAN_WORK_FILE = 'work.json';
@@ -35,8 +35,8 @@ export const SCAN_WORK_FILE = 'work.json';
 const WorkHeaderSchema = z.strictObject({
   format: z.literal(SCAN_WORK_FORMAT),
   formatVersion: z.literal(1),
-  tool: z.strictObject({ name: z.literal('tiercake'), version: z.string() }),
-  scanHash: z.string().regex(/^[0-9a-f]{64}$/),
+  tool: ToolStampSchema,
+  scanHash: Sha256HexSchema,
   describes: z.string(),
   points: z.int().min(1),
 });
@@ -122,7 +122,7 @@ export function openScanWork(path: string, scanHash: string, describes: string, 
     throw err;
   }
   if (!existsSync(headerFile)) {
-    writeAtomic(headerFile, `${JSON.stringify({ format: SCAN_WORK_FORMAT, formatVersion: 1, tool: { name: 'tiercake', version: toolVersion() }, scanHash, describes, points: pointCount }, null, 1)}\n`);
+    writeAtomic(headerFile, `${JSON.stringify({ format: SCAN_WORK_FORMAT, formatVersion: 1, tool: toolStamp(), scanHash, describes, points: pointCount }, null, 1)}\n`);
   }
 
   const doneRows = new Map<number, { json: z.infer<typeof PointSchema>; file: string }>();

@@ -14,7 +14,7 @@ import { radialFrame } from '../observables/radialFrame.js';
 import { fractionOfAtoms } from '../observables/readingWarnings.js';
 import { PARALLEL_MIN_SITES, type SolveArtifacts } from '../pipeline/solveScenario.js';
 import type { RunWarning } from '../pipeline/runWarnings.js';
-import { toolVersion } from './toolVersion.js';
+import { toolStamp } from './recordFields.js';
 import { fieldAxes, fieldEntries, type ImageEntry } from './fieldIndex.js';
 
 export interface SummaryExtras {
@@ -40,7 +40,7 @@ export function buildSummary(a: SolveArtifacts, files: string[], extras: Summary
   const lda = c.localDensity;
   const imaging = extras.imaging !== undefined ? withNullVisibility(extras.imaging, atoms) : undefined;
   return {
-    tool: { name: 'tiercake', version: toolVersion() },
+    tool: toolStamp(),
     scenario: a.scenario,
     mode: resolved.mode,
     energyUnit: unit.name,

@@ -22,7 +22,7 @@ import { writeOutputFolder, type CommitReport } from './outputFolder.js';
 import type { OutputTarget } from './outputTarget.js';
 import { describeScan, scanSetupHash } from './scanIdentity.js';
 import { indexList, shardStates } from './shardProgress.js';
-import { toolVersion } from './toolVersion.js';
+import { Sha256HexSchema, ToolStampSchema, toolStamp } from './recordFields.js';
 
 export const SUBMISSION_FILE = 'submit.json';
 export const SUBMISSION_FORMAT = 'tiercake-submission';
@@ -31,15 +31,15 @@ export const JOBS_LOG = 'jobs.jsonl';
 export const SubmissionSchema = z.strictObject({
   format: z.literal(SUBMISSION_FORMAT),
   formatVersion: z.literal(1),
-  tool: z.strictObject({ name: z.literal('tiercake'), version: z.string(), command: z.array(z.string()).min(1) }),
+  tool: z.strictObject({ ...ToolStampSchema.shape, command: z.array(z.string()).min(1) }),
   kind: z.enum(['ensemble', 'scan']),
   describes: z.string(),
   scenarioName: z.string(),
   scenarioPath: z.string(),
-  scenarioHash: z.string().regex(/^[0-9a-f]{64}$/),
+  scenarioHash: Sha256HexSchema,
   /** ensemble: realisations and block size; scan: the scan's identity hash */
   ensemble: z.strictObject({ realisations: z.int().min(1), blockSize: z.int().min(1), bins: z.string() }).nullable(),
-  scanHash: z.string().regex(/^[0-9a-f]{64}$/).nullable(),
+  scanHash: Sha256HexSchema.nullable(),
   shards: z.int().min(1),
   /** the submit arguments that describe the work (scenario first), for a resubmission */
   submitArgs: z.array(z.string()),
@@ -152,7 +152,7 @@ export function planSubmission(work: BatchWork, c: SubmissionChoices): Submissio
   const record: Submission = {
     format: SUBMISSION_FORMAT,
     formatVersion: 1,
-    tool: { name: 'tiercake', version: toolVersion(), command: c.tool },
+    tool: { ...toolStamp(), command: c.tool },
     kind: work.kind,
     describes,
     scenarioName: work.scenarioName,

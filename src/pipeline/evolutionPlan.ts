@@ -38,6 +38,7 @@ import { isClusterShape } from '../solver/cluster/clusterSweepExecutor.js';
 import { InputError } from '../scenario/inputError.js';
 import { parseRampPath, type EvolutionSettings } from '../scenario/evolutionSchema.js';
 import { resolveScenario, type ResolvedScenario } from '../scenario/resolveScenario.js';
+import { internalEnergyPerUnit } from '../scenario/scenarioEnergyUnit.js';
 import type { Scenario } from '../scenario/scenarioSchema.js';
 import type { DriveTargets, LinearSiteTerm } from './scenarioDrive.js';
 
@@ -226,21 +227,8 @@ export function evolutionPlan(resolved: ResolvedScenario, options: PlanOptions =
   const timeUnitNote = laboratory
     ? 'milliseconds (laboratory mode)'
     : `hbar/${energyUnit}, with ${energyUnit} the energy unit of the scenario (h/${energyUnit} = 2 pi in these units)`;
-  // energies of the scenario -> internal unit (the same rule as resolveScenario's energyParser)
-  const unitEnergy = ((): number => {
-    switch (energyUnit) {
-      case 'J':
-        return units.hopping;
-      case 'U':
-        return units.interaction;
-      case 'Hz':
-        return units.hertz ?? NaN;
-      case 'kHz':
-        return 1000 * (units.hertz ?? NaN);
-      case 'nK':
-        return units.nanokelvin ?? NaN;
-    }
-  })();
+  // energies of the scenario -> internal unit
+  const unitEnergy = internalEnergyPerUnit(energyUnit, units);
   const cyclesOf = (energyInUnit: number): number => (rate * energyInUnit * unitEnergy) / (2 * Math.PI);
   const warnings: EvolutionPlanWarning[] = [];
 

@@ -22,6 +22,8 @@ import * as z from 'zod';
 
 const positive = (): z.ZodNumber => z.number().positive();
 const time = (): z.ZodNumber => z.number().min(0);
+/** Keys an amplitude modulation may drive: the `modulation` of an evolution and its `spectrum`. */
+const modulatedKey = z.enum(['laboratory.depthEr', 'hubbard.hopping', 'hubbard.interaction']);
 
 /** Ramp segment shapes (src/dynamics/rampSchedule.ts). */
 export const rampShapes = ['linear', 'exponential', 's-curve'] as const;
@@ -54,8 +56,7 @@ export const RampSchema = z
 
 export const ModulationSchema = z
   .strictObject({
-    path: z
-      .enum(['laboratory.depthEr', 'hubbard.hopping', 'hubbard.interaction'])
+    path: modulatedKey
       .optional()
       .describe('what is modulated: the lattice depth (laboratory mode, the default there; J and U follow the band structure) or J or U (default in hubbard mode: hubbard.hopping)'),
     relativeAmplitude: z.number().min(0).lt(1).describe('A in value(t) = value (1 + A sin(2 pi f (t - start)))'),
@@ -67,8 +68,7 @@ export const ModulationSchema = z
 
 export const SpectrumSchema = z
   .strictObject({
-    path: z
-      .enum(['laboratory.depthEr', 'hubbard.hopping', 'hubbard.interaction'])
+    path: modulatedKey
       .optional()
       .describe('modulated key (default: laboratory.depthEr in laboratory mode, hubbard.hopping in hubbard mode)'),
     relativeAmplitude: z.number().gt(0).lt(1).default(0.1).describe('relative modulation amplitude A'),

@@ -10,16 +10,16 @@
 // Positions (`offset`) are measured from the lattice centre, (n - 1) / 2 per axis.
 
 import * as z from 'zod';
+import { EnergyUnitSchema } from './scenarioEnergyUnit.js';
 
 const positive = (): z.ZodNumber => z.number().positive();
-const energyUnit = z.enum(['J', 'U', 'Hz', 'kHz', 'nK']);
 const lengthUnit = z.enum(['sites', 'um']);
 const termName = z
   .string()
   .regex(/^[A-Za-z0-9][A-Za-z0-9._-]{0,39}$/, 'letters, digits, ".", "_" and "-" only, at most 40 characters')
   .optional()
   .describe('label of the term in the report and summary (default: kind and position in the list, e.g. "box-1")');
-const unitKey = energyUnit.optional().describe("energy unit of this term's energies and file values (default: the scenario's energyUnit)");
+const unitKey = EnergyUnitSchema.optional().describe("energy unit of this term's energies and file values (default: the scenario's energyUnit)");
 const lengthUnitKey = lengthUnit
   .optional()
   .describe('"sites" (lattice spacings) or "um" (micrometres, laboratory mode); required in laboratory mode, "sites" in hubbard mode');

@@ -25,7 +25,7 @@ import { InputError } from './inputError.js';
 import type { LandscapeTerm } from './landscapeSchema.js';
 import type { LaboratoryParameters } from './resolveLaboratory.js';
 import type { Scenario } from './scenarioSchema.js';
-import type { EnergyUnits } from './resolveScenario.js';
+import { internalEnergyPerUnit, type EnergyUnits, type ScenarioEnergyUnit } from './scenarioEnergyUnit.js';
 
 /** Largest landscape file read (a 512^3 float64 lattice is 1 GiB). */
 const MAX_FILE_BYTES = 2 ** 30 + 4096;
@@ -87,23 +87,11 @@ export interface LandscapeInput {
   scenarioDirectory?: string;
 }
 
-type EnergyUnitName = 'J' | 'U' | 'Hz' | 'kHz' | 'nK';
-
-/** Internal energy of one `unit` (the same mapping as energyParser in resolveScenario.ts). */
-function unitEnergy(unit: EnergyUnitName, units: EnergyUnits, field: string): number {
-  switch (unit) {
-    case 'J':
-      return units.hopping;
-    case 'U':
-      return units.interaction;
-    case 'Hz':
-    case 'kHz':
-      if (units.hertz === null) throw new InputError(`${field}: ${unit} needs laboratory mode`);
-      return unit === 'Hz' ? units.hertz : 1000 * units.hertz;
-    case 'nK':
-      if (units.nanokelvin === null) throw new InputError(`${field}: nK needs laboratory mode`);
-      return units.nanokelvin;
-  }
+/** Internal energy of one `unit`, refusing a laboratory unit outside laboratory mode (the message names `field`). */
+function unitEnergy(unit: ScenarioEnergyUnit, units: EnergyUnits, field: string): number {
+  if ((unit === 'Hz' || unit === 'kHz') && units.hertz === null) throw new InputError(`${field}: ${unit} needs laboratory mode`);
+  if (unit === 'nK' && units.nanokelvin === null) throw new InputError(`${field}: nK needs laboratory mode`);
+  return internalEnergyPerUnit(unit, units);
 }
 
 function shortPath(path: string): string {
@@ -224,7 +212,7 @@ export function resolveLandscape(scenario: Scenario, input: LandscapeInput): Res
   const terms = scenario.landscape ?? [];
   const { geometry, units, laboratory } = input;
   const dims = geometry.dims;
-  const scenarioUnit = (scenario.energyUnit ?? (scenario.hubbard ? 'J' : 'Hz')) as EnergyUnitName;
+  const scenarioUnit: ScenarioEnergyUnit = scenario.energyUnit ?? (scenario.hubbard ? 'J' : 'Hz');
   const perScenarioUnit = unitEnergy(scenarioUnit, units, 'energyUnit');
   const spacingUm = laboratory?.latticeSpacingUm ?? null;
   const records: LandscapeTermRecord[] = [];
@@ -235,7 +223,7 @@ export function resolveLandscape(scenario: Scenario, input: LandscapeInput): Res
   terms.forEach((t, index) => {
     const field = `landscape[${index}]`;
     const name = t.name ?? `${t.kind}-${index}`;
-    const energy = unitEnergy((t.unit ?? scenarioUnit) as EnergyUnitName, units, `${field}.unit`);
+    const energy = unitEnergy(t.unit ?? scenarioUnit, units, `${field}.unit`);
     const lengthPerSite = (unit: 'sites' | 'um' | undefined): number[] =>
       unit === 'um' ? Array(dims).fill(spacingUm as number) : Array(dims).fill(1);
     let siteEnergy: Float64Array;

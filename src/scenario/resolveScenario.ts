@@ -12,22 +12,10 @@ import { InputError } from './inputError.js';
 import { ParameterError } from '../physics/parameterError.js';
 import type { Scenario } from './scenarioSchema.js';
 import { resolveLaboratory, type LaboratoryParameters } from './resolveLaboratory.js';
+import { internalEnergyPerUnit, type EnergyUnits, type ScenarioEnergyUnit } from './scenarioEnergyUnit.js';
 import { boxDisorder } from '../lattice/boxDisorder.js';
 import { grainSitesFromAperture, longitudinalGrainSitesFromAperture, speckleField } from '../lattice/speckle.js';
 import { resolveLandscape, type LandscapeTermRecord } from './resolveLandscape.js';
-
-export interface EnergyUnits {
-  /** label of the internal energy unit the solver works in (J, U or Hz) */
-  internal: 'J' | 'U' | 'Hz';
-  /** internal energy of one J (nearest-neighbour hopping along the first axis) */
-  hopping: number;
-  /** internal energy of one U (at the trap centre) */
-  interaction: number;
-  /** internal energy of 1 Hz (h x 1 Hz), laboratory mode only */
-  hertz: number | null;
-  /** internal energy of k_B x 1 nK, laboratory mode only */
-  nanokelvin: number | null;
-}
 
 export interface ResolvedScenario {
   scenario: Scenario;
@@ -223,9 +211,6 @@ function disorderInputError(err: unknown): unknown {
   return new InputError(`disorder.${disorderKeyOf[m[1]] ?? m[1]}${m[2] ?? ''}: ${m[3]}`);
 }
 
-/** The scenario's energy unit (energyUnit; default J in dimensionless mode, Hz in laboratory mode). */
-export type ScenarioEnergyUnit = 'J' | 'U' | 'Hz' | 'kHz' | 'nK';
-
 /**
  * The one energy unit of a run's outputs: the scenario's own (fields, CSV columns and every
  * bare energy in summary.json use it) and the internal energy of one of it.
@@ -238,18 +223,7 @@ export interface OutputEnergyUnit {
 
 export function outputEnergyUnit(scenario: Scenario, units: EnergyUnits): OutputEnergyUnit {
   const name: ScenarioEnergyUnit = scenario.energyUnit ?? (scenario.hubbard ? 'J' : 'Hz');
-  switch (name) {
-    case 'J':
-      return { name, internalPerUnit: units.hopping };
-    case 'U':
-      return { name, internalPerUnit: units.interaction };
-    case 'Hz':
-      return { name, internalPerUnit: units.hertz ?? NaN };
-    case 'kHz':
-      return { name, internalPerUnit: 1000 * (units.hertz ?? NaN) };
-    case 'nK':
-      return { name, internalPerUnit: units.nanokelvin ?? NaN };
-  }
+  return { name, internalPerUnit: internalEnergyPerUnit(name, units) };
 }
 
 /** Converts an energy written in the scenario's unit into the internal unit. */

@@ -7,6 +7,7 @@ import * as z from 'zod';
 import { CameraSchema, imagingModeIssues, TimeOfFlightSchema } from './imagingSchema.js';
 import { LandscapeSchema, landscapeIssues } from './landscapeSchema.js';
 import { EvolutionSchema, evolutionIssues } from './evolutionSchema.js';
+import { EnergyUnitSchema } from './scenarioEnergyUnit.js';
 
 const finite = (): z.ZodNumber => z.number();
 const positive = (): z.ZodNumber => z.number().positive();
@@ -188,10 +189,7 @@ export const ScenarioSchema = z
       .regex(/^[A-Za-z0-9][A-Za-z0-9._-]{0,79}$/, 'letters, digits, ".", "_" and "-" only, at most 80 characters')
       .describe('scenario name (used in titles and as the default output folder)'),
     description: z.string().max(2000).optional().describe('free text shown in the report'),
-    energyUnit: z
-      .enum(['J', 'U', 'Hz', 'kHz', 'nK'])
-      .optional()
-      .describe('unit of every energy in the file: J or U in dimensionless mode; Hz, kHz or nK (also J or U) in laboratory mode'),
+    energyUnit: EnergyUnitSchema.optional().describe('unit of every energy in the file: J or U in dimensionless mode; Hz, kHz or nK (also J or U) in laboratory mode'),
     lattice: LatticeSchema,
     hubbard: HubbardSchema.optional(),
     laboratory: LaboratorySchema.optional(),

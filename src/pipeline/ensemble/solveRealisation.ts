@@ -6,7 +6,8 @@
 // deterministic, so both give the same bits.
 
 import { validateScenario } from '../../scenario/loadScenario.js';
-import { resolveScenario, type EnergyUnits, type ResolvedScenario } from '../../scenario/resolveScenario.js';
+import { resolveScenario, type ResolvedScenario } from '../../scenario/resolveScenario.js';
+import type { EnergyUnits } from '../../scenario/scenarioEnergyUnit.js';
 import type { Scenario } from '../../scenario/scenarioSchema.js';
 import { runLattice, type ExecutorFactory, type RunProgress } from '../../solver/runLattice.js';
 import { classifyOutcome, runRequestOf } from '../runRequest.js';
