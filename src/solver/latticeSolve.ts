@@ -65,9 +65,23 @@ export interface LatticeSolveResult {
 }
 
 /** Sums of the measured fields, in a fixed serial order (identical for any thread count). */
+/** The per-site fields that latticeTotals sums (the solver's measure fields, or a cluster solve's). */
+export interface SiteTotalsFields {
+  phi: ArrayLike<number>;
+  density: ArrayLike<number>;
+  grandPotential: ArrayLike<number>;
+  entropy: ArrayLike<number>;
+  topWeight: ArrayLike<number>;
+}
+
 export function latticeTotals(state: SolverState, mu: number): LatticeTotals {
   const m = state.measure;
-  const phi = state.fields.phi;
+  return sumSiteTotals({ phi: state.fields.phi, density: m.density, grandPotential: m.grandPotential, entropy: m.entropy, topWeight: m.topWeight }, mu);
+}
+
+/** Lattice totals of per-site fields, summed in site order (so the same doubles for any thread count). */
+export function sumSiteTotals(m: SiteTotalsFields, mu: number): LatticeTotals {
+  const phi = m.phi;
   let atoms = 0;
   let condensed = 0;
   let omega = 0;

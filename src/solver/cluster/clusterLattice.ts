@@ -26,6 +26,7 @@
 
 import type { LatticeModel } from '../../lattice/latticeModel.js';
 import type { MeasureFields } from '../sweepKernel.js';
+import { sumSiteTotals } from '../latticeSolve.js';
 import { createSiteWorkspace, solveSiteGround } from '../site/index.js';
 import { createClusterSolver, solveClusterGround, solveClusterThermal, type ClusterSolver, type ClusterSolverOptions } from './clusterSolver.js';
 import { createClusterTiling, type ClusterTiling } from './clusterTiling.js';
@@ -361,19 +362,8 @@ export function solveClusterLattice(request: ClusterLatticeRequest): ClusterLatt
   };
   driver.measure(mu, temperature, out);
   const variance = new Float64Array(n);
-  let atoms = 0;
-  let condensed = 0;
-  let grand = 0;
-  let s = 0;
-  let maxTop = 0;
-  for (let i = 0; i < n; i++) {
-    variance[i] = out.densitySq[i] - out.density[i] * out.density[i];
-    atoms += out.density[i];
-    condensed += phi[i] * phi[i];
-    grand += out.grandPotential[i];
-    s += out.entropy[i];
-    if (out.topWeight[i] > maxTop) maxTop = out.topWeight[i];
-  }
+  for (let i = 0; i < n; i++) variance[i] = out.densitySq[i] - out.density[i] * out.density[i];
+  const { maxTopWeightSite: _site, ...totals } = sumSiteTotals({ phi, density: out.density, grandPotential: out.grandPotential, entropy: out.entropy, topWeight: out.topWeight }, mu);
   const stats = driver.statistics();
   return {
     phi,
@@ -386,7 +376,7 @@ export function solveClusterLattice(request: ClusterLatticeRequest): ClusterLatt
     grandPotential: out.grandPotential,
     bondCorrelation: out.bondCorrelation,
     bondExact: out.bondExact,
-    totals: { atoms, condensedAtoms: condensed, grandPotential: grand, freeEnergy: grand + mu * atoms, entropy: s, maxTopWeight: maxTop },
+    totals,
     converged,
     stopped,
     sweeps,
