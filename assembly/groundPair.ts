@@ -7,7 +7,7 @@
 // sign change) is redone by the scalar code from its Weyl bound, as in the reference.
 
 import { groundEnergy, solveGroundScalar } from './groundScalar';
-import { P_AMP, P_CURV, P_DIAG, P_INDEX, P_LEAD, P_OFFSQ, P_RADIUS, P_SLOPE, P_SQRTUP, P_TRAIL } from './scratch';
+import { PAIR_SET, P_AMP, P_CURV, P_DIAG, P_INDEX, P_LEAD, P_OFFSQ, P_RADIUS, P_SLOPE, P_SQRTUP, P_TRAIL } from './scratch';
 import { epsPtr, f64At, interactionAt, lowerPtr, phiPtr, psiPrevPtr } from './lattice';
 
 let base: i32 = 0;
@@ -21,24 +21,27 @@ export let pairEnergyB: f64 = 0.0;
 export function setPairScratch(slot: i32, count: i32): void {
   base = slot;
   stateCount = count;
-  for (let k = 0; k < count; k++) {
-    v128.store(slot + (k << 4), f64x2.splat(<f64>k), P_INDEX);
-    v128.store(slot + (k << 4), f64x2.splat(Math.sqrt(<f64>(k + 1))), P_SQRTUP);
+  // The constant tables in both pair workspaces (the quad kernel uses the second one).
+  for (let set = slot; set <= slot + PAIR_SET; set += PAIR_SET) {
+    for (let k = 0; k < count; k++) {
+      v128.store(set + (k << 4), f64x2.splat(<f64>k), P_INDEX);
+      v128.store(set + (k << 4), f64x2.splat(Math.sqrt(<f64>(k + 1))), P_SQRTUP);
+    }
+    // Gershgorin radius per psi, summed as in the reference: sqrt(n) + sqrt(n + 1) at the
+    // edges without the missing term (0 + x = x).
+    for (let n = 0; n < count; n++) {
+      const left: f64 = n > 0 ? Math.sqrt(<f64>n) : 0.0;
+      const right: f64 = n < count - 1 ? Math.sqrt(<f64>(n + 1)) : 0.0;
+      v128.store(set + (n << 4), f64x2.splat(left + right), P_RADIUS);
+    }
+    v128.store(set + (count << 4), f64x2.splat(<f64>count), P_INDEX);
   }
-  // Gershgorin radius per psi, summed as in the reference: sqrt(n) + sqrt(n + 1) at the edges
-  // without the missing term (0 + x = x).
-  for (let n = 0; n < count; n++) {
-    const left: f64 = n > 0 ? Math.sqrt(<f64>n) : 0.0;
-    const right: f64 = n < count - 1 ? Math.sqrt(<f64>(n + 1)) : 0.0;
-    v128.store(slot + (n << 4), f64x2.splat(left + right), P_RADIUS);
-  }
-  v128.store(slot + (count << 4), f64x2.splat(<f64>count), P_INDEX);
 }
 
-@inline function pair(a: f64, b: f64): v128 {
+@inline export function pair(a: f64, b: f64): v128 {
   return f64x2.replace_lane(f64x2.splat(a), 1, b);
 }
-@inline function select(ifSet: v128, otherwise: v128, mask: v128): v128 {
+@inline export function select(ifSet: v128, otherwise: v128, mask: v128): v128 {
   return v128.bitselect(ifSet, otherwise, mask);
 }
 
@@ -193,6 +196,38 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
     leadAt = select(lambda, leadAt, active);
   }
 
+  const twist = pairTrailing(b, lambda, leadAt, scale);
+  const norm = pairAdjugate(b, twist, psi);
+  const negative = adjugateNegative;
+  const phi = pairNormalise(b, norm);
+  pairPhiA = f64x2.extract_lane(phi, 0);
+  pairPhiB = f64x2.extract_lane(phi, 1);
+  pairEnergyA = f64x2.extract_lane(lambda, 0);
+  pairEnergyB = f64x2.extract_lane(lambda, 1);
+  // A lane on an excited state: the scalar path from the Weyl bound, as in the reference.
+  if (cold || !v128.any_true(negative)) return PAIR_SOLVED;
+  if (i64x2.extract_lane(negative, 0) != 0) {
+    pairPhiA = solveGroundScalar(f64x2.extract_lane(u, 0), f64x2.extract_lane(muLocal, 0), psiA, f64x2.extract_lane(bound, 0), NaN);
+    pairEnergyA = groundEnergy;
+  }
+  if (i64x2.extract_lane(negative, 1) != 0) {
+    pairPhiB = solveGroundScalar(f64x2.extract_lane(u, 1), f64x2.extract_lane(muLocal, 1), psiB, f64x2.extract_lane(bound, 1), NaN);
+    pairEnergyB = groundEnergy;
+  }
+  return PAIR_FALLBACK;
+}
+
+/**
+ * After the Laguerre search of the pair workspace at b: the leading determinants at lambda
+ * (from leadAt by a second-order Taylor step where the lanes moved little, else by the
+ * recurrence), the trailing determinants, and the twist index per lane (largest adjugate
+ * diagonal entry), returned.
+ */
+@inline export function pairTrailing(b: i32, lambda: v128, leadAt: v128, scale: v128): v128 {
+  const one = f64x2.splat(1.0);
+  const zero = f64x2.splat(0.0);
+  const states = stateCount;
+  const last = states - 1;
   // Leading determinants carried to lambda by a second-order Taylor step (all lanes moved
   // little: done inside the trailing pass below) or recomputed by the recurrence.
   const moved = f64x2.sub(lambda, leadAt);
@@ -248,7 +283,23 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
       t = tNew;
     }
   }
-  // Adjugate column at the twist: outward products of |e_j| = psi sqrt(j + 1).
+  return twist;
+}
+
+/** true lanes: the last pairAdjugate column has a component that is not >= 0 */
+export let adjugateNegative: v128 = f64x2.splat(0.0);
+
+/**
+ * Adjugate column at the twist into P_AMP of the workspace at b (not normalised): outward
+ * products of |e_j| = psi sqrt(j + 1). Returns the squared norm per lane; sets
+ * adjugateNegative.
+ */
+@inline export function pairAdjugate(b: i32, twist: v128, psi: v128): v128 {
+  const one = f64x2.splat(1.0);
+  const zero = f64x2.splat(0.0);
+  const states = stateCount;
+  const last = states - 1;
+  const qLast = b + (last << 4);
   let norm = one;
   let negative = zero;
   const twistA = <i32>f64x2.extract_lane(twist, 0);
@@ -308,6 +359,15 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
       negative = v128.or(negative, v128.andnot(above, f64x2.ge(x, zero)));
     }
   }
+  adjugateNegative = negative;
+  return norm;
+}
+
+/** Normalises P_AMP of the workspace at b by 1/sqrt(norm); returns phi = <b> per lane. */
+@inline export function pairNormalise(b: i32, norm: v128): v128 {
+  const one = f64x2.splat(1.0);
+  const zero = f64x2.splat(0.0);
+  const states = stateCount;
   const scaleAmp = f64x2.div(one, f64x2.sqrt(norm));
   let previous = f64x2.mul(v128.load(b, P_AMP), scaleAmp);
   v128.store(b, previous, P_AMP);
@@ -319,21 +379,7 @@ export function solveGroundPair(iA: i32, iB: i32, psiA: f64, psiB: f64, mu: f64,
     phi = f64x2.add(phi, f64x2.mul(f64x2.mul(v128.load(q - 16, P_SQRTUP), previous), ak));
     previous = ak;
   }
-  pairPhiA = f64x2.extract_lane(phi, 0);
-  pairPhiB = f64x2.extract_lane(phi, 1);
-  pairEnergyA = f64x2.extract_lane(lambda, 0);
-  pairEnergyB = f64x2.extract_lane(lambda, 1);
-  // A lane on an excited state: the scalar path from the Weyl bound, as in the reference.
-  if (cold || !v128.any_true(negative)) return PAIR_SOLVED;
-  if (i64x2.extract_lane(negative, 0) != 0) {
-    pairPhiA = solveGroundScalar(f64x2.extract_lane(u, 0), f64x2.extract_lane(muLocal, 0), psiA, f64x2.extract_lane(bound, 0), NaN);
-    pairEnergyA = groundEnergy;
-  }
-  if (i64x2.extract_lane(negative, 1) != 0) {
-    pairPhiB = solveGroundScalar(f64x2.extract_lane(u, 1), f64x2.extract_lane(muLocal, 1), psiB, f64x2.extract_lane(bound, 1), NaN);
-    pairEnergyB = groundEnergy;
-  }
-  return PAIR_FALLBACK;
+  return phi;
 }
 
 export let pairDensity: v128 = f64x2.splat(0.0);

@@ -20,6 +20,7 @@ import {
   setPairScratch,
   solveGroundPair,
 } from './groundPair';
+import { QUAD_SOLVED, quadEnergy0, quadEnergy1, quadEnergy2, quadEnergy3, quadPhi0, quadPhi1, quadPhi2, quadPhi3, setQuadScratch, solveGroundQuad } from './groundQuad';
 import {
   setThermalScratch,
   solveSiteThermal,
@@ -62,12 +63,14 @@ import {
 export { setGeometry, setFields, setMeasureFields } from './lattice';
 export { SLOT_BYTES } from './scratch';
 export { fdExp, fdLog } from './fdlibm';
+export { quadLaneFallbacks, quadSolved, quadSplitAdjugate, quadSplitTrailing } from './groundQuad';
 
 /** This instance's scratch slot (bytes at slot .. slot + SLOT_BYTES); after setGeometry. */
 export function setScratch(slot: i32): void {
   setGroundScratch(slot, states);
   setThermalScratch(slot, states);
   setPairScratch(slot, states);
+  setQuadScratch(slot, states);
   setWarmScratch(slot, states);
 }
 
@@ -75,6 +78,11 @@ export function setScratch(slot: i32): void {
 let scalarOnly: bool = false;
 export function setScalarOnly(flag: bool): void {
   scalarOnly = flag;
+}
+/** sweeps: four sites (two interleaved pairs, groundQuad.ts) at a time; false: pairs only */
+let quads: bool = true;
+export function setQuads(flag: bool): void {
+  quads = flag;
 }
 
 let maxChange: f64 = 0.0;
@@ -99,6 +107,23 @@ function updateGround(i: i32, psi: f64, mu: f64, coupling: f64): void {
   store<f64>(lowerPtr + (i << 3), groundEnergy);
   store<f64>(psiPrevPtr + (i << 3), psi);
   commit(i, phiNew);
+}
+
+@inline function storeGround(i: i32, psi: f64, energy: f64, phiNew: f64): void {
+  store<f64>(lowerPtr + (i << 3), energy);
+  store<f64>(psiPrevPtr + (i << 3), psi);
+  commit(i, phiNew);
+}
+
+/** Ground-state update of sites i and i + 2 (f64x2 lanes, else one at a time). */
+function updateGroundPair(i: i32, psiA: f64, psiB: f64, mu: f64, coupling: f64): void {
+  if (solveGroundPair(i, i + 2, psiA, psiB, mu, coupling, false) != PAIR_NOT_APPLICABLE) {
+    storeGround(i, psiA, pairEnergyA, pairPhiA);
+    storeGround(i + 2, psiB, pairEnergyB, pairPhiB);
+  } else {
+    updateGround(i, psiA, mu, coupling);
+    updateGround(i + 2, psiB, mu, coupling);
+  }
 }
 
 /**
@@ -141,21 +166,27 @@ export function sweepColour(colour: i32, rowStart: i32, rowEnd: i32, mu: f64, te
       continue;
     }
     if (!scalarOnly) {
+      if (quads) {
+        for (; c + 6 < n2; c += 8) {
+          const i = base + c;
+          const psi0 = sweepMeanField(i, c, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
+          const psi1 = sweepMeanField(i + 2, c + 2, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
+          const psi2 = sweepMeanField(i + 4, c + 4, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
+          const psi3 = sweepMeanField(i + 6, c + 6, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
+          if (solveGroundQuad(i, psi0, psi1, psi2, psi3, mu, coupling) == QUAD_SOLVED) {
+            storeGround(i, psi0, quadEnergy0, quadPhi0);
+            storeGround(i + 2, psi1, quadEnergy1, quadPhi1);
+            storeGround(i + 4, psi2, quadEnergy2, quadPhi2);
+            storeGround(i + 6, psi3, quadEnergy3, quadPhi3);
+          } else {
+            updateGroundPair(i, psi0, psi1, mu, coupling);
+            updateGroundPair(i + 4, psi2, psi3, mu, coupling);
+          }
+        }
+      }
       for (; c + 2 < n2; c += 4) {
         const i = base + c;
-        const psiA = sweepMeanField(i, c, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
-        const psiB = sweepMeanField(i + 2, c + 2, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1);
-        if (solveGroundPair(i, i + 2, psiA, psiB, mu, coupling, false) != PAIR_NOT_APPLICABLE) {
-          store<f64>(lowerPtr + (i << 3), pairEnergyA);
-          store<f64>(psiPrevPtr + (i << 3), psiA);
-          commit(i, pairPhiA);
-          store<f64>(lowerPtr + ((i + 2) << 3), pairEnergyB);
-          store<f64>(psiPrevPtr + ((i + 2) << 3), psiB);
-          commit(i + 2, pairPhiB);
-        } else {
-          updateGround(i, psiA, mu, coupling);
-          updateGround(i + 2, psiB, mu, coupling);
-        }
+        updateGroundPair(i, sweepMeanField(i, c, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1), sweepMeanField(i + 2, c + 2, up0, dn0, wu0, wd0, up1, dn1, wu1, wd1), mu, coupling);
       }
     }
     for (; c < n2; c += 2) {

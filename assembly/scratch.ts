@@ -5,7 +5,7 @@
 
 export const SLOT_BYTES: i32 = 16384;
 const VEC: i32 = 256; // bytes per scalar array (up to 32 states)
-const PAIR: i32 = 512; // bytes per pair array
+const PAIR: i32 = 320; // bytes per pair array (up to 20 states; the kernel takes 17)
 
 // scalar workspace (the same roles as src/solver/site/siteWorkspace.ts)
 export const DIAG: i32 = 0;
@@ -22,7 +22,8 @@ export const COUPL: i32 = POP + VEC;
 export const SQRTUP: i32 = COUPL + VEC;
 export const EVEC: i32 = SQRTUP + VEC; // states x states, up to 17 x 17
 export const PAIR_BASE: i32 = EVEC + 17 * 17 * 8 + 8;
-// pair workspace (16-byte aligned)
+// pair workspace (16-byte aligned); the quad kernel (groundQuad.ts) uses two of them, the
+// second PAIR_SET bytes after the first, each with its own copy of the constant tables
 export const P_DIAG: i32 = (PAIR_BASE + 15) & ~15;
 export const P_OFFSQ: i32 = P_DIAG + PAIR;
 export const P_LEAD: i32 = P_OFFSQ + PAIR;
@@ -35,6 +36,8 @@ export const P_INDEX: i32 = P_AMP + PAIR;
 export const P_SQRTUP: i32 = P_INDEX + PAIR;
 // Gershgorin radius per unit psi, (sqrt(n), sqrt(n + 1)) summed per state
 export const P_RADIUS: i32 = P_SQRTUP + PAIR;
+/** bytes of one pair workspace (the arrays above) */
+export const PAIR_SET: i32 = P_RADIUS + PAIR - P_DIAG;
 // thermal warm path: indices of the refined levels (i32)
-export const T_LEVELS: i32 = P_RADIUS + PAIR;
+export const T_LEVELS: i32 = P_DIAG + 2 * PAIR_SET;
 export const SCRATCH_END: i32 = T_LEVELS + 128;

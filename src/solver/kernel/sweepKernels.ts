@@ -75,6 +75,7 @@ interface KernelExports {
   setMeasureFields(density: number, densitySq: number, parityOdd: number, topWeight: number, entropy: number, psi: number, grandPotential: number): void;
   setScratch(slot: number): void;
   setScalarOnly(flag: number): void;
+  setQuads(flag: number): void;
   sweepColour(colour: number, rowStart: number, rowEnd: number, mu: number, temperature: number): number;
   measureRows(rowStart: number, rowEnd: number, mu: number, temperature: number): void;
   SLOT_BYTES: WebAssembly.Global;
@@ -103,10 +104,15 @@ export function instantiateWasmKernel(layout: SolverLayout, slot: number): WebAs
   return instance.exports;
 }
 
-/** WebAssembly kernel on `state` using scratch slot `slot`; pairs = false forces one site at a time. */
-export function createWasmKernel(state: SolverState, slot: number, options: { pairs?: boolean } = {}): SweepKernel {
+/**
+ * WebAssembly kernel on `state` using scratch slot `slot`. Sweeps take four sites at a time
+ * (two interleaved f64x2 pairs); quads = false: pairs only; pairs = false: one site at a
+ * time. All give the same doubles.
+ */
+export function createWasmKernel(state: SolverState, slot: number, options: { pairs?: boolean; quads?: boolean } = {}): SweepKernel {
   const k = instantiateWasmKernel(state.layout, slot) as unknown as KernelExports;
   k.setScalarOnly(options.pairs === false ? 1 : 0);
+  k.setQuads(options.quads === false ? 0 : 1);
   return {
     name: 'wasm',
     sweep: (colour, rowStart, rowEnd, mu, temperature) => k.sweepColour(colour, rowStart, rowEnd, mu, temperature),
