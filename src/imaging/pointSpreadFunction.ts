@@ -27,6 +27,12 @@
 //               its size must not change.
 // Renormalising a gather-form kernel near the border would NOT conserve atoms, which is
 // why neither mode does that.
+//
+// Cost: a cloud often covers only part of the picture, and pixels outside it are exactly
+// zero at T = 0. The first pass spreads each input row only over the span of its non-zero
+// pixels and the second pass skips zero pixels; a skipped term is w * 0 = 0, so the sums
+// (same terms, same order) are bit for bit those of the full loops. The folded indices of
+// 'reflect' near an edge are tabulated once per image instead of per pixel.
 
 import { assertPlanarField, type PlanarField } from './planarField.js';
 
@@ -134,11 +140,17 @@ export function gaussianBlur(image: PlanarField, options: GaussianBlurOptions): 
   const src = image.values;
   for (let i = 0; i < nx; i++) {
     const rowIn = i * ny;
+    // The span of non-zero pixels of this row (the terms outside it are exact zeros).
+    let first = 0;
+    while (first < ny && src[rowIn + first] === 0) first++;
+    if (first === ny) continue;
+    let last = ny - 1;
+    while (src[rowIn + last] === 0) last--;
     for (let d = -rx; d <= rx; d++) {
       const target = grow ? i + marginX + d : reflectIndex(i + d, nx);
       const w = wx[d + rx];
       const rowOut = target * ny;
-      for (let j = 0; j < ny; j++) tmp[rowOut + j] += w * src[rowIn + j];
+      for (let j = first; j <= last; j++) tmp[rowOut + j] += w * src[rowIn + j];
     }
   }
   // Pass 2, along axis 1.
@@ -159,6 +171,13 @@ export function gaussianBlur(image: PlanarField, options: GaussianBlurOptions): 
   } else {
     // The folded index only differs from j + e within ry of an edge; away from the edges
     // the plain index is used (the same additions in the same order, so the same bits).
+    // folded[j * taps + e] = reflectIndex(j + e - ry, ny) for the pixels j near an edge.
+    const taps = 2 * ry + 1;
+    const folded = new Int32Array(ny * taps);
+    for (let j = 0; j < ny; j++) {
+      if (j >= ry && j + ry < ny) continue;
+      for (let e = 0; e < taps; e++) folded[j * taps + e] = reflectIndex(j + e - ry, ny);
+    }
     for (let p = 0; p < outNx; p++) {
       const rowIn = p * ny;
       const rowOut = p * outNy;
@@ -167,9 +186,10 @@ export function gaussianBlur(image: PlanarField, options: GaussianBlurOptions): 
         if (v === 0) continue;
         if (j >= ry && j + ry < ny) {
           const base = rowOut + j - ry;
-          for (let e = 0; e <= 2 * ry; e++) values[base + e] += wy[e] * v;
+          for (let e = 0; e < taps; e++) values[base + e] += wy[e] * v;
         } else {
-          for (let e = -ry; e <= ry; e++) values[rowOut + reflectIndex(j + e, ny)] += wy[e + ry] * v;
+          const at = j * taps;
+          for (let e = 0; e < taps; e++) values[rowOut + folded[at + e]] += wy[e] * v;
         }
       }
     }
