@@ -23,7 +23,7 @@
 // (default: the lattice centre sits at 0, 0); axis 0 of the field is x.
 
 import { assertPlanarField, type PlanarField } from './planarField.js';
-import type { PixelPicture } from './pixelPicture.js';
+import { pixelCentresUm, type PixelPicture } from './pixelPicture.js';
 
 /** Pixel grid in the object plane: pixel (k, l) is centred at (firstXUm + k p, firstYUm + l p). */
 export interface CameraGrid {
@@ -175,10 +175,8 @@ export function resampleToCamera(sites: PlanarField, options: CameraResampleOpti
   let totalOut = 0;
   for (let i = 0; i < values.length; i++) totalOut += values[i];
 
-  const xCentresUm = new Float64Array(grid.nx);
-  for (let k = 0; k < grid.nx; k++) xCentresUm[k] = grid.firstXUm + k * pixelUm;
-  const yCentresUm = new Float64Array(grid.ny);
-  for (let l = 0; l < grid.ny; l++) yCentresUm[l] = grid.firstYUm + l * pixelUm;
+  const xCentresUm = pixelCentresUm(grid.firstXUm, grid.nx, pixelUm);
+  const yCentresUm = pixelCentresUm(grid.firstYUm, grid.ny, pixelUm);
   return {
     values,
     nx: grid.nx,

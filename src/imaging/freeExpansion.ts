@@ -36,7 +36,7 @@ import { gridSizes } from '../lattice/gridShape.js';
 import type { OrderParameterField } from '../observables/momentumStructureFactor.js';
 import { hbarOverMassUm2PerMs, type SiteOrbital1d } from './siteOrbital.js';
 import type { BondCoherenceColumns } from './particleHoleCoherence.js';
-import type { PixelPicture } from './pixelPicture.js';
+import { pixelCentresUm, type PixelPicture } from './pixelPicture.js';
 
 /** Pixel grid after the flight: pixel (k, l) is centred at (firstXUm + k pixelUm, firstYUm + l pixelUm). */
 export interface FlightPixelGrid {
@@ -337,8 +337,8 @@ export function freeExpansionImage(field: OrderParameterField, options: FreeExpa
     nx: P,
     ny: Q,
     pixelUm,
-    xCentresUm: Float64Array.from({ length: P }, (_, p) => grid.firstXUm + p * pixelUm),
-    yCentresUm: Float64Array.from({ length: Q }, (_, q) => grid.firstYUm + q * pixelUm),
+    xCentresUm: pixelCentresUm(grid.firstXUm, P, pixelUm),
+    yCentresUm: pixelCentresUm(grid.firstYUm, Q, pixelUm),
     coherentAtoms,
     incoherentAtoms,
     bondAtoms,

@@ -5,6 +5,13 @@
 
 import type { PlanarField } from './planarField.js';
 
+/** Centres of `count` pixels of size pixelUm along one axis, the first at firstUm. */
+export function pixelCentresUm(firstUm: number, count: number, pixelUm: number): Float64Array {
+  const out = new Float64Array(count);
+  for (let k = 0; k < count; k++) out[k] = firstUm + k * pixelUm;
+  return out;
+}
+
 export interface PixelPicture extends PlanarField {
   /** Pixel size in the plane the coordinates refer to (object plane, or the plane after the flight). */
   pixelUm: number;

@@ -15,6 +15,7 @@
 import type { CameraGrid, CameraImage } from './cameraResample.js';
 import { assertPlanarField, type PlanarField } from './planarField.js';
 import { quadrilateralSquareOverlap, touchedPixels } from './squareOverlap.js';
+import { pixelCentresUm } from './pixelPicture.js';
 
 export interface RotatedResampleOptions {
   /** Lattice spacing, length unit. */
@@ -77,9 +78,7 @@ export function resampleRotated(sites: PlanarField, options: RotatedResampleOpti
       }
     }
   }
-  const xCentresUm = new Float64Array(gx);
-  for (let k = 0; k < gx; k++) xCentresUm[k] = grid.firstXUm + k * pixelUm;
-  const yCentresUm = new Float64Array(gy);
-  for (let l = 0; l < gy; l++) yCentresUm[l] = grid.firstYUm + l * pixelUm;
+  const xCentresUm = pixelCentresUm(grid.firstXUm, gx, pixelUm);
+  const yCentresUm = pixelCentresUm(grid.firstYUm, gy, pixelUm);
   return { values, nx: gx, ny: gy, pixelUm, xCentresUm, yCentresUm, atomsOutside: totalIn - totalOut };
 }

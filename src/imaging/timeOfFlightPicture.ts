@@ -22,7 +22,7 @@ import { cloudRadiusUm, farFieldCheck, timeOfFlightScales, type FarFieldCheck, t
 import { orbitalEnvelope } from './wannierEnvelope.js';
 import { withBondCoherence, type BondCoherenceColumns } from './particleHoleCoherence.js';
 import type { SiteOrbital1d } from './siteOrbital.js';
-import type { PixelPicture } from './pixelPicture.js';
+import { pixelCentresUm, type PixelPicture } from './pixelPicture.js';
 import { momentumStructureFactor, type OrderParameterField } from '../observables/momentumStructureFactor.js';
 
 export interface TimeOfFlightPictureInput {
@@ -165,8 +165,8 @@ export function timeOfFlightPicture(input: TimeOfFlightPictureInput): TimeOfFlig
       ` at k = m x / (hbar t), with the true Wannier envelope (${orbitals[0].description}; ${orbitals[1].description}); ` +
       'exact only for t >> m R^2 / hbar; atoms per pixel; coordinates from the zero-momentum point';
   }
-  const xCentresUm = Float64Array.from({ length: frame.nx }, (_, i) => frame.firstXUm + i * pixelUm);
-  const yCentresUm = Float64Array.from({ length: frame.ny }, (_, j) => frame.firstYUm + j * pixelUm);
+  const xCentresUm = pixelCentresUm(frame.firstXUm, frame.nx, pixelUm);
+  const yCentresUm = pixelCentresUm(frame.firstYUm, frame.ny, pixelUm);
   let atomsInPicture = 0;
   for (let i = 0; i < values.length; i++) atomsInPicture += values[i];
   const picture = { values, nx: frame.nx, ny: frame.ny, pixelUm, xCentresUm, yCentresUm };

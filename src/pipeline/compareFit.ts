@@ -47,6 +47,7 @@ import { createPictureRenderer, type PictureParameters } from './compareFitPictu
 import { compareProfile, type CompareProfile } from './compareFitProfile.js';
 import { componentStd, linearisedShots } from './compareFitBootstrap.js';
 import { reportedUnit, selectFitParameters, type FitParameterName, type FitParameterRequest, type FitParameterRow, type FitSlot, type ReportedName } from './compareFitParameters.js';
+import { pixelCentresUm } from '../imaging/pixelPicture.js';
 
 export type { FitParameterName, FitParameterRequest, FitParameterRow } from './compareFitParameters.js';
 
@@ -549,8 +550,8 @@ export async function runCompareFit(request: CompareFitRequest): Promise<Compare
       residual,
       sigma: sigmaFull,
       chiSquareMask,
-      xCentresUm: Float64Array.from({ length: nx }, (_, i) => grid.firstXUm + i * p),
-      yCentresUm: Float64Array.from({ length: ny }, (_, i) => grid.firstYUm + i * p),
+      xCentresUm: pixelCentresUm(grid.firstXUm, nx, p),
+      yCentresUm: pixelCentresUm(grid.firstYUm, ny, p),
       internalPerScenarioUnit,
       energyUnit,
       parameters,
