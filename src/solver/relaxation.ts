@@ -11,13 +11,15 @@
 // does not make the estimate optimistic.
 //
 // Acceleration (andersonMixing.ts). After every sweep the next input is the Anderson mix of
-// the last ANDERSON_DEPTH + 1 sweeps. Safeguards: the history restarts when the change grows,
-// or when the secant columns are nearly dependent or the coefficients huge; the mixed phi is
-// floored at a small fraction of the sweep's output so that it stays positive (the ground
-// state has phi >= 0 everywhere) and no region is set exactly to zero. Sums run over the
-// sites in a fixed order on the calling thread, so the step is identical for any thread
-// count. Measured on the trapped 48^3 yardstick cloud: 24 sweeps with the former slow-mode
-// extrapolation, 18 mixed; near a lobe edge 2-5x fewer than that (bench/ and the report).
+// the last ANDERSON_DEPTH + 1 sweeps. Safeguards: the history restarts from the last step
+// when the change grows, and after GROWTH_RUN growing sweeps in a row a plain sweep follows
+// (without it a T > 0 trapped layer ran away for 250 sweeps); columns that are nearly
+// dependent or huge coefficients end the history too; the mixed phi is floored at a small
+// fraction of the sweep's output so that it stays positive (the ground state has phi >= 0
+// everywhere) and no region is set exactly to zero. Sums run over the sites in a fixed
+// order on the calling thread, so the step is identical for any thread count. Measured on
+// the trapped 48^3 and 64^3 yardstick clouds: 24 sweeps with the former slow-mode
+// extrapolation, 18 mixed; in open boxes near the n = 1 lobe tip 2-3x fewer than that.
 //
 // `slowModeFactor` (Aitken's delta-squared process on the dominant mode; Brezinski &
 // Redivo-Zaglia, Extrapolation Methods, 1991) stays for the twisted solver.
@@ -40,6 +42,8 @@ export interface RelaxOptions {
 
 /** Difference columns of the Anderson mixing (measured on the yardstick and near lobe edges: 3 to 5 alike, 2 worse). */
 export const ANDERSON_DEPTH = 4;
+/** Sweeps in a row with a growing change after which a plain sweep follows. */
+const GROWTH_RUN = 2;
 /** The mixed phi stays at or above this fraction of the sweep's output. */
 const PHI_FLOOR_FRACTION = 0.01;
 
@@ -96,6 +100,7 @@ export async function relaxAtFixedMu(state: SolverState, executor: SweepExecutor
   // Contractions along the last steps (mixed sweeps), newest last.
   const contractions: number[] = [];
   let extrapolations = 0;
+  let grewInRow = 0;
   let rate = NaN;
   let errorEstimate = Infinity;
   let converged = false;
@@ -114,9 +119,16 @@ export async function relaxAtFixedMu(state: SolverState, executor: SweepExecutor
       const prev = history.length >= 2 ? history[history.length - 2] : NaN;
       rate = prev === prev ? (prev > 0 ? change / prev : 0) : NaN;
     } else {
-      // A growing change means the secant model no longer describes the map: start afresh.
-      if (history.length >= 2 && change > history[history.length - 2]) mixer.restart();
+      // A growing change means the secant model no longer describes the map: start afresh
+      // from the last step; growing twice in a row, take a plain sweep before mixing again.
+      const grew = history.length >= 2 && change > history[history.length - 2];
+      if (grew) mixer.restart();
       const contraction = mixer.record(phi, delta);
+      grewInRow = grew ? grewInRow + 1 : 0;
+      // Where the sweeps move away from a fixed point (contraction >= 1: phi growing out of
+      // the normal state phi = 0 below T_c) a secant step would jump onto that unstable
+      // point; plain sweeps leave it.
+      if (grewInRow >= GROWTH_RUN || contraction >= 1) mixer.restart();
       if (contraction === contraction) {
         contractions.push(contraction);
         if (contractions.length > ANDERSON_DEPTH) contractions.shift();
