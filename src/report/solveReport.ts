@@ -135,7 +135,7 @@ export function buildSolveReport(
     { label: 'last max |delta phi|', value: relax.residual },
     { label: 'estimated remaining error', value: relax.errorEstimate, note: 'last change × r/(1 − r)' },
     { label: 'contraction rate r per sweep', value: relax.contractionRate },
-    { label: 'sweeps mixed (Anderson)', value: relax.extrapolations },
+    { label: 'extrapolation steps', value: relax.extrapolations },
     { label: 'mu evaluations', value: outcome.solve.muSearch.evaluations },
     { label: 'largest weight on |nmax>', value: outcome.truncation.maxTopWeight, note: `allowed ${scenario.truncation.topWeightMax}` },
     {
