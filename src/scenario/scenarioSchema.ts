@@ -143,7 +143,7 @@ export const SolverSchema = z
   .strictObject({
     tolerance: positive().max(1e-2).default(1e-8).describe('stop when max |delta phi| and its estimated remaining error are below this'),
     maxSweeps: z.int().min(1).max(10_000_000).default(20_000).describe('sweep budget for the whole solve (all mu steps)'),
-    accelerate: z.boolean().default(true).describe('Anderson mixing of whole sweeps against critical slowing down (false: plain sweeps)'),
+    accelerate: z.boolean().default(true).describe('extrapolate the slowest mode against critical slowing down'),
     atomTolerance: positive().max(0.1).default(1e-6).describe('relative accuracy of the atom number at fixed N'),
     compressibility: z.boolean().default(true).describe('compute the local compressibility map dn/dmu (two extra solves)'),
     kernel: z
