@@ -1,30 +1,19 @@
 // Self-consistency at fixed chemical potential and temperature: red-black sweeps until the
-// order parameter stops changing, accelerated by Anderson mixing of whole sweeps.
+// order parameter stops changing, with an extrapolation step against critical slowing down.
 //
 // Stopping rule. A fixed-point iteration that contracts by a rate r per sweep leaves an
 // error of about |delta| r/(1 - r) when the last change was |delta| (geometric tail). So we
-// estimate r and stop only when that error estimate, not just the last change, is below the
-// tolerance; both are reported. Plain sweeps take r from successive max-norm changes. Mixed
-// sweeps take the contraction of the sweep map itself along the recent steps,
-// max|G(x_k) - G(x_k-1)| / max|x_k - x_k-1| (the same number for plain sweeps), the largest
-// over the last ANDERSON_DEPTH sweeps, so that a step which happened to miss the slow mode
-// does not make the estimate optimistic.
+// estimate r from successive max-norm changes and stop only when that error estimate, not
+// just the last change, is below the tolerance; both are reported.
 //
-// Acceleration (andersonMixing.ts). After every sweep the next input is the Anderson mix of
-// the last ANDERSON_DEPTH + 1 sweeps. Safeguards: the history restarts from the last step
-// when the change grows, and after GROWTH_RUN growing sweeps in a row a plain sweep follows
-// (without it a T > 0 trapped layer ran away for 250 sweeps); columns that are nearly
-// dependent or huge coefficients end the history too; the mixed phi is floored at a small
-// fraction of the sweep's output so that it stays positive (the ground state has phi >= 0
-// everywhere) and no region is set exactly to zero. Sums run over the sites in a fixed
-// order on the calling thread, so the step is identical for any thread count. Measured on
-// the trapped 48^3 and 64^3 yardstick clouds: 24 sweeps with the former slow-mode
-// extrapolation, 18 mixed; in open boxes near the n = 1 lobe tip 2-3x fewer than that.
-//
-// `slowModeFactor` (Aitken's delta-squared process on the dominant mode; Brezinski &
-// Redivo-Zaglia, Extrapolation Methods, 1991) stays for the twisted solver.
+// Acceleration. Near a phase boundary one slow mode dominates and r -> 1. When three
+// successive rate estimates agree, the remaining tail is extrapolated in one step,
+// phi <- phi + delta r/(1 - r) (Aitken's delta-squared process applied to the dominant
+// mode; Brezinski & Redivo-Zaglia, Extrapolation Methods, 1991). The extrapolated
+// value is floored at a small fraction of the current one so that phi stays positive
+// (the ground state has phi >= 0 everywhere) and no region is set exactly to zero. Max
+// norms only are used, so the step is identical for any thread count.
 
-import { createAndersonMixer, lastColourSites } from './andersonMixing.js';
 import type { SweepExecutor } from './sweepExecutor.js';
 import type { SolverState } from './solverState.js';
 
@@ -34,18 +23,13 @@ export interface RelaxOptions {
   /** stop when max |delta phi| and its geometric-tail error estimate are both below this */
   tolerance: number;
   maxSweeps: number;
-  /** Anderson-mix whole sweeps (on by default); off: plain sweeps, the reference path */
+  /** extrapolate the slow mode (on by default) */
   accelerate: boolean;
   /** called after every sweep; return 'stop' to interrupt */
   observer?: (progress: SweepProgress) => void | 'stop';
+  /** cap on the extrapolation factor r/(1 - r) */
+  maxExtrapolation?: number;
 }
-
-/** Difference columns of the Anderson mixing (measured on the yardstick and near lobe edges: 3 to 5 alike, 2 worse). */
-export const ANDERSON_DEPTH = 4;
-/** Sweeps in a row with a growing change after which a plain sweep follows. */
-const GROWTH_RUN = 2;
-/** The mixed phi stays at or above this fraction of the sweep's output. */
-const PHI_FLOOR_FRACTION = 0.01;
 
 export interface SweepProgress {
   sweep: number;
@@ -64,7 +48,6 @@ export interface RelaxResult {
   contractionRate: number;
   /** estimated remaining error in phi, residual r/(1 - r) */
   errorEstimate: number;
-  /** sweeps whose output was replaced by an Anderson mix */
   extrapolations: number;
   /** max |delta phi| of every sweep */
   residualHistory: number[];
@@ -94,46 +77,36 @@ export async function relaxAtFixedMu(state: SolverState, executor: SweepExecutor
   const delta = state.fields.delta;
   const n = phi.length;
   const history: number[] = [];
-  const mixer = accelerate
-    ? createAndersonMixer(executor.sweepInput === 'lastColour' ? lastColourSites(state.layout.inner) : null, n, ANDERSON_DEPTH)
-    : null;
-  // Contractions along the last steps (mixed sweeps), newest last.
-  const contractions: number[] = [];
+  const rates: number[] = [];
+  let sinceExtrapolation = 0;
   let extrapolations = 0;
-  let grewInRow = 0;
+  let maxFactor = options.maxExtrapolation ?? 5000;
   let rate = NaN;
   let errorEstimate = Infinity;
   let converged = false;
   let stopped = false;
   let sweep = 0;
+  let lastChangeBeforeExtrapolation = NaN;
 
   while (sweep < maxSweeps) {
     const c0 = await executor.sweep(0, mu, temperature);
     const c1 = await executor.sweep(1, mu, temperature);
     sweep++;
+    sinceExtrapolation++;
     const change = c0 > c1 ? c0 : c1;
     history.push(change);
     if (!(change === change)) break; // NaN: give up, reported as not converged
 
-    if (mixer === null) {
-      const prev = history.length >= 2 ? history[history.length - 2] : NaN;
-      rate = prev === prev ? (prev > 0 ? change / prev : 0) : NaN;
+    if (history.length >= 2 && sinceExtrapolation >= 2) {
+      const prev = history[history.length - 2];
+      rate = prev > 0 ? change / prev : 0;
+      rates.push(rate);
     } else {
-      // A growing change means the secant model no longer describes the map: start afresh
-      // from the last step; growing twice in a row, take a plain sweep before mixing again.
-      const grew = history.length >= 2 && change > history[history.length - 2];
-      if (grew) mixer.restart();
-      const contraction = mixer.record(phi, delta);
-      grewInRow = grew ? grewInRow + 1 : 0;
-      // Where the sweeps move away from a fixed point (contraction >= 1: phi growing out of
-      // the normal state phi = 0 below T_c) a secant step would jump onto that unstable
-      // point; plain sweeps leave it.
-      if (grewInRow >= GROWTH_RUN || contraction >= 1) mixer.restart();
-      if (contraction === contraction) {
-        contractions.push(contraction);
-        if (contractions.length > ANDERSON_DEPTH) contractions.shift();
-      }
-      rate = contractions.length === 0 ? NaN : Math.max(...contractions);
+      rate = NaN;
+    }
+    if (sinceExtrapolation === 1 && extrapolations > 0 && change > 10 * lastChangeBeforeExtrapolation) {
+      // The last extrapolation overshot: be more careful from now on.
+      maxFactor = Math.max(2, maxFactor / 8);
     }
     errorEstimate = change === 0 ? 0 : rate === rate && rate < 1 ? Math.max(change, (change * rate) / (1 - rate)) : Infinity;
     if (change === 0 || (change <= tolerance && errorEstimate <= tolerance) || change <= 1e-3 * tolerance) {
@@ -145,7 +118,20 @@ export async function relaxAtFixedMu(state: SolverState, executor: SweepExecutor
       stopped = true;
       break;
     }
-    if (mixer !== null && mixer.mix(phi, PHI_FLOOR_FRACTION)) extrapolations++;
+
+    const factor = accelerate ? slowModeFactor(rates, sinceExtrapolation, maxFactor) : 0;
+    if (factor > 0) {
+      for (let i = 0; i < n; i++) {
+        const current = phi[i];
+        const next = current + factor * delta[i];
+        const floor = 0.01 * current;
+        phi[i] = next > floor ? next : floor;
+      }
+      extrapolations++;
+      sinceExtrapolation = 0;
+      rates.length = 0;
+      lastChangeBeforeExtrapolation = change;
+    }
   }
   return {
     converged,

@@ -17,12 +17,6 @@ export interface SweepExecutor {
   readonly threads: number;
   /** the kernel every thread runs */
   readonly kernel: KernelName;
-  /**
-   * Which values one full sweep (colour 0, then 1) depends on: 'lastColour' for the red-black
-   * kernels (colour 0 is recomputed from colour 1), absent for any site. The Anderson mixing
-   * of relaxation.ts mixes only these.
-   */
-  readonly sweepInput?: 'lastColour';
   /** update one colour; returns max |delta phi| */
   sweep(colour: number, mu: number, temperature: number): Promise<number>;
   /** fill the measured per-site fields */
@@ -52,7 +46,6 @@ export function createSweepExecutor(state: SolverState, pool: SweepPool | null, 
     return {
       threads: 1,
       kernel: kernelName,
-      sweepInput: 'lastColour',
       sweep: async (colour, mu, temperature) => {
         const change = local.sweep(colour, 0, rowCount, mu, temperature);
         await yieldToEventLoop();
@@ -130,7 +123,6 @@ export function createSweepExecutor(state: SolverState, pool: SweepPool | null, 
   return {
     threads: workerCount + 1,
     kernel: kernelName,
-    sweepInput: 'lastColour',
     sweep: (colour, mu, temperature) => run(COMMAND.sweep, colour, mu, temperature),
     measure: async (mu, temperature) => {
       await run(COMMAND.measure, 0, mu, temperature);
