@@ -3,6 +3,7 @@
 import { pointValues, type ScanPlan } from '../../src/pipeline/scan/scanPlan.js';
 import type { ScanRow } from '../../src/pipeline/scan/scanRow.js';
 import type { ScanOutcome } from '../../src/output/scanOutputs.js';
+import type { ScanShardIdentity } from '../../src/output/scanShard.js';
 import type { Scenario } from '../../src/scenario/scenarioSchema.js';
 
 export function madeUpRow(plan: ScanPlan, point: number, overrides: Partial<ScanRow> = {}): ScanRow {
@@ -38,8 +39,8 @@ export function madeUpRow(plan: ScanPlan, point: number, overrides: Partial<Scan
   };
 }
 
-/** A made-up scan outcome around `rows` (fixed hashes, energy unit U); `over` replaces any field. */
-export function madeUpOutcome(plan: ScanPlan, rows: ScanRow[], over: Partial<ScanOutcome> = {}): ScanOutcome {
+/** A made-up scan identity (fixed hashes, energy unit U, no held key); `over` replaces any field. */
+export function madeUpScanIdentity(plan: ScanPlan, over: Partial<ScanShardIdentity> = {}): ScanShardIdentity {
   return {
     scenario: { name: 'layer' } as unknown as Scenario,
     scenarioHash: '1'.repeat(64),
@@ -48,6 +49,14 @@ export function madeUpOutcome(plan: ScanPlan, rows: ScanRow[], over: Partial<Sca
     hold: null,
     energyUnit: 'U',
     keepPoints: false,
+    ...over,
+  };
+}
+
+/** A made-up scan outcome around `rows` (the identity above, one run); `over` replaces any field. */
+export function madeUpOutcome(plan: ScanPlan, rows: ScanRow[], over: Partial<ScanOutcome> = {}): ScanOutcome {
+  return {
+    ...madeUpScanIdentity(plan),
     rows,
     provenance: { kind: 'single run', threads: 1, seconds: 1.5, resumedPoints: 0 },
     ...over,

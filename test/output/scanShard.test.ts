@@ -12,22 +12,12 @@ import { SHARD_FORMAT } from '../../src/output/ensembleShard.js';
 import { OutputFolder } from '../../src/output/outputFolder.js';
 import { checkOutputTarget } from '../../src/output/outputTarget.js';
 import { planScan, shardChains, chainPoints } from '../../src/pipeline/scan/scanPlan.js';
-import type { Scenario } from '../../src/scenario/scenarioSchema.js';
-import { madeUpRow } from '../helpers/scanRows.js';
+import { madeUpRow, madeUpScanIdentity } from '../helpers/scanRows.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tiercake-scanshard-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 const plan = planScan([{ path: 'hubbard.hopping', values: [0.01, 0.02, 0.03, 0.04, 0.05], spacing: 'list' }], 2);
-const id = (over: Partial<ScanShardIdentity> = {}): ScanShardIdentity => ({
-  scenario: { name: 'layer' } as unknown as Scenario,
-  scenarioHash: '1'.repeat(64),
-  scanHash: '2'.repeat(64),
-  plan,
-  hold: null,
-  energyUnit: 'U',
-  keepPoints: true,
-  ...over,
-});
+const id = (over: Partial<ScanShardIdentity> = {}): ScanShardIdentity => madeUpScanIdentity(plan, { keepPoints: true, ...over });
 // one row with a double that needs all 17 digits, and NaN readings (null in JSON)
 const rowOf = (p: number) => madeUpRow(plan, p, { chemicalPotential: 0.1 + 0.2 + p });
 
