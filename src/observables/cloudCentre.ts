@@ -42,23 +42,26 @@ function median(values: number[]): number {
 
 export function findCloudCentre(values: Float64Array, shape: readonly number[]): CloudCentre {
   const n = gridSizes(shape, 'findCloudCentre');
-  const total = n[0] * n[1] * n[2];
+  const [n0, n1, n2] = n;
+  const total = n0 * n1 * n2;
   if (values.length !== total) {
     throw new Error(`findCloudCentre: shape [${shape.join(', ')}] needs ${total} values, got ${values.length}`);
   }
   const dims = shape.length;
-  const index = (x: number, y: number, z: number) => (x * n[1] + y) * n[2] + z;
+  // The loops below work on plain integers and locals (no index closure, no arrays made per
+  // point): a picture of 90 x 90 pixels is one of the compare fit's steps, and the closure form
+  // ran at ~25 ns per visited point. The sums keep the order of the plain form (a, b, c
+  // nested in that order), so the results are the same to the bit.
 
   // 1. Background from the outer faces of the axes longer than 2.
   const faces: number[] = [];
-  for (let x = 0; x < n[0]; x++) {
-    for (let y = 0; y < n[1]; y++) {
-      for (let z = 0; z < n[2]; z++) {
-        const onFace =
-          (n[0] > 2 && (x === 0 || x === n[0] - 1)) ||
-          (n[1] > 2 && (y === 0 || y === n[1] - 1)) ||
-          (n[2] > 2 && (z === 0 || z === n[2] - 1));
-        if (onFace) faces.push(values[index(x, y, z)]);
+  for (let x = 0; x < n0; x++) {
+    const xFace = n0 > 2 && (x === 0 || x === n0 - 1);
+    for (let y = 0; y < n1; y++) {
+      const xyFace = xFace || (n1 > 2 && (y === 0 || y === n1 - 1));
+      const row = (x * n1 + y) * n2;
+      for (let z = 0; z < n2; z++) {
+        if (xyFace || (n2 > 2 && (z === 0 || z === n2 - 1))) faces.push(values[row + z]);
       }
     }
   }
@@ -67,25 +70,33 @@ export function findCloudCentre(values: Float64Array, shape: readonly number[]):
   // 2. Smoothed maximum and half-maximum size.
   const smoothed = new Float64Array(total);
   let peak = -Infinity;
-  let peakAt = [0, 0, 0];
-  for (let x = 0; x < n[0]; x++) {
-    for (let y = 0; y < n[1]; y++) {
-      for (let z = 0; z < n[2]; z++) {
+  let peakX = 0;
+  let peakY = 0;
+  let peakZ = 0;
+  for (let x = 0; x < n0; x++) {
+    const a0 = x > 0 ? x - 1 : 0;
+    const a1 = x < n0 - 1 ? x + 1 : n0 - 1;
+    for (let y = 0; y < n1; y++) {
+      const b0 = y > 0 ? y - 1 : 0;
+      const b1 = y < n1 - 1 ? y + 1 : n1 - 1;
+      for (let z = 0; z < n2; z++) {
+        const c0 = z > 0 ? z - 1 : 0;
+        const c1 = z < n2 - 1 ? z + 1 : n2 - 1;
         let sum = 0;
-        let count = 0;
-        for (let a = Math.max(0, x - 1); a <= Math.min(n[0] - 1, x + 1); a++) {
-          for (let b = Math.max(0, y - 1); b <= Math.min(n[1] - 1, y + 1); b++) {
-            for (let c = Math.max(0, z - 1); c <= Math.min(n[2] - 1, z + 1); c++) {
-              sum += values[index(a, b, c)];
-              count++;
-            }
+        for (let a = a0; a <= a1; a++) {
+          for (let b = b0; b <= b1; b++) {
+            const row = (a * n1 + b) * n2;
+            for (let c = c0; c <= c1; c++) sum += values[row + c];
           }
         }
+        const count = (a1 - a0 + 1) * (b1 - b0 + 1) * (c1 - c0 + 1);
         const v = sum / count - background;
-        smoothed[index(x, y, z)] = v;
+        smoothed[(x * n1 + y) * n2 + z] = v;
         if (v > peak) {
           peak = v;
-          peakAt = [x, y, z];
+          peakX = x;
+          peakY = y;
+          peakZ = z;
         }
       }
     }
@@ -104,55 +115,74 @@ export function findCloudCentre(values: Float64Array, shape: readonly number[]):
   const window2 = window * window;
 
   // 3. Iterated windowed centroid of the background-subtracted values.
-  const c = [peakAt[0], peakAt[1], peakAt[2]];
-  const m1 = [0, 0, 0];
-  const m2 = [0, 0, 0];
-  let weight = 0;
-  let iterations = 0;
-  const accumulate = () => {
-    weight = 0;
-    m1.fill(0);
-    m2.fill(0);
-    const lo = c.map((ci) => Math.max(0, Math.ceil(ci - window)));
-    const hi = c.map((ci, d) => Math.min(n[d] - 1, Math.floor(ci + window)));
-    for (let x = lo[0]; x <= hi[0]; x++) {
-      const dx = x - c[0];
-      for (let y = lo[1]; y <= hi[1]; y++) {
-        const dy = y - c[1];
-        for (let z = lo[2]; z <= hi[2]; z++) {
-          const dz = z - c[2];
+  let cx = peakX;
+  let cy = peakY;
+  let cz = peakZ;
+  const moments = new Float64Array(7); // weight, m1 (x, y, z), m2 (x, y, z)
+  const accumulate = (): void => {
+    let weight = 0;
+    let m1x = 0;
+    let m1y = 0;
+    let m1z = 0;
+    let m2x = 0;
+    let m2y = 0;
+    let m2z = 0;
+    const xLo = Math.max(0, Math.ceil(cx - window));
+    const xHi = Math.min(n0 - 1, Math.floor(cx + window));
+    const yLo = Math.max(0, Math.ceil(cy - window));
+    const yHi = Math.min(n1 - 1, Math.floor(cy + window));
+    const zLo = Math.max(0, Math.ceil(cz - window));
+    const zHi = Math.min(n2 - 1, Math.floor(cz + window));
+    for (let x = xLo; x <= xHi; x++) {
+      const dx = x - cx;
+      for (let y = yLo; y <= yHi; y++) {
+        const dy = y - cy;
+        const row = (x * n1 + y) * n2;
+        for (let z = zLo; z <= zHi; z++) {
+          const dz = z - cz;
           if (dx * dx + dy * dy + dz * dz > window2) continue;
-          const w = values[index(x, y, z)] - background;
+          const w = values[row + z] - background;
           weight += w;
-          m1[0] += w * dx;
-          m1[1] += w * dy;
-          m1[2] += w * dz;
-          m2[0] += w * dx * dx;
-          m2[1] += w * dy * dy;
-          m2[2] += w * dz * dz;
+          m1x += w * dx;
+          m1y += w * dy;
+          m1z += w * dz;
+          m2x += w * dx * dx;
+          m2y += w * dy * dy;
+          m2z += w * dz * dz;
         }
       }
     }
+    moments[0] = weight;
+    moments[1] = m1x;
+    moments[2] = m1y;
+    moments[3] = m1z;
+    moments[4] = m2x;
+    moments[5] = m2y;
+    moments[6] = m2z;
   };
+  let iterations = 0;
   for (; iterations < maxIterations; ) {
     accumulate();
     iterations++;
+    const weight = moments[0];
     if (!(weight > 0)) break;
-    let shift = 0;
-    for (let d = 0; d < 3; d++) {
-      const move = m1[d] / weight;
-      c[d] += move;
-      shift = Math.max(shift, Math.abs(move));
-    }
-    if (shift < 1e-9) break;
+    const moveX = moments[1] / weight;
+    const moveY = moments[2] / weight;
+    const moveZ = moments[3] / weight;
+    cx += moveX;
+    cy += moveY;
+    cz += moveZ;
+    if (Math.max(Math.abs(moveX), Math.abs(moveY), Math.abs(moveZ)) < 1e-9) break;
   }
   accumulate();
+  const weight = moments[0];
+  const c = [cx, cy, cz];
   const centre = new Float64Array(dims);
   const sigma = new Float64Array(dims);
   for (let d = 0; d < dims; d++) {
     centre[d] = c[d];
-    const mean = weight > 0 ? m1[d] / weight : 0;
-    sigma[d] = weight > 0 ? Math.sqrt(Math.max(m2[d] / weight - mean * mean, 0)) : 0;
+    const mean = weight > 0 ? moments[1 + d] / weight : 0;
+    sigma[d] = weight > 0 ? Math.sqrt(Math.max(moments[4 + d] / weight - mean * mean, 0)) : 0;
   }
   return { centre, sigma, background, iterations };
 }

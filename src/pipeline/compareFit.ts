@@ -27,6 +27,7 @@
 // compareThermometry.ts, the files are written by src/output/compareOutputs.ts.
 
 import { fitAtBoundWarnings } from './fitAtBound.js';
+import { chiSquareWarnings } from './compareFitGoodness.js';
 import { findCloudCentre, type CloudCentre } from '../observables/cloudCentre.js';
 import type { CameraOptics } from '../imaging/cameraOptics.js';
 import type { MeasuredImage } from '../imaging/measuredImage.js';
@@ -494,6 +495,7 @@ export async function runCompareFit(request: CompareFitRequest): Promise<Compare
       };
     });
     warnings.push(...fitAtBoundWarnings(parameters));
+    warnings.push(...chiSquareWarnings(reducedChiSquare, degreesOfFreedom));
     if (!fit.converged) warnings.push({ code: 'fit-not-converged', message: `the fit stopped before convergence (${fit.message}); raise --max-iterations` });
     if (!best.converged) warnings.push({ code: 'solve-not-converged', message: 'the solve at the best-fit values did not converge; the fit must not be trusted' });
 

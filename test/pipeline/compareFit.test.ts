@@ -61,6 +61,9 @@ describe('fit of N and the centre to a noise-free picture', () => {
     expect(Math.abs(byName.centreYPixels.best - (9.5 + margin))).toBeLessThan(1e-4);
     expect(fit.fit.reducedChiSquare).toBeLessThan(1e-6);
     expect(byName.atoms.uncertainty).toBe(byName.atoms.uncertaintyFromSigma); // chi2_nu < 1: not scaled
+    // A noise-free picture scatters far less than its noise model: the only warning says so
+    // (chi2_nu many times sqrt(2/nu) below 1, compareFitGoodness.test.ts).
+    expect(fit.warnings.map((w) => w.code)).toEqual(['chi-square-far-from-one']);
 
     // Independent: Fisher matrix of (N, x0, y0) with the final weights.
     const { resolved } = prepareScenario(path);

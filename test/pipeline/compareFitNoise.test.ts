@@ -6,7 +6,7 @@
 // reduced chi-square near 1.
 
 import { describe, expect, it } from 'vitest';
-import { borderPixels, modelNoiseSigma, pixelNoiseModel } from '../../src/pipeline/compareFitNoise.js';
+import { borderPixels, modelNoiseSigma, pixelNoiseModel, smoothedOverMask } from '../../src/pipeline/compareFitNoise.js';
 import { seededRandom } from '../../src/numerics/seededRandom.js';
 import { samplePoisson } from '../../src/imaging/shotNoise.js';
 
@@ -52,5 +52,37 @@ describe('pixel noise model', () => {
     for (let i = 0; i < n; i++) chi2 += ((data[i] - model[i]) / sigma[i]) ** 2;
     expect(chi2 / n).toBeGreaterThan(0.9);
     expect(chi2 / n).toBeLessThan(1.1);
+  });
+});
+
+describe('3 x 3 mean over the used pixels', () => {
+  it('by hand on a 3 x 3 image with its centre masked, and bit for bit the plain form on a masked 37 x 29 picture', () => {
+    // Values x * 3 + y; the corner (0, 0) sees (0, 1) = 1, (1, 0) = 3 and (1, 1) = 4, masked: mean 2.
+    const small = Float64Array.from({ length: 9 }, (_, i) => i);
+    const mask = Uint8Array.from({ length: 9 }, (_, i) => (i === 4 ? 0 : 1));
+    const out = smoothedOverMask(small, 3, 3, mask);
+    expect(out[0]).toBe((0 + 1 + 3) / 3);
+    // The centre's own neighbours, all but itself: (0 + 1 + 2 + 3 + 5 + 6 + 7 + 8) / 8 = 4.
+    expect(out[4]).toBe(32 / 8);
+    const random = seededRandom('test/smoothed-over-mask');
+    const [nx, ny] = [37, 29];
+    const values = Float64Array.from({ length: nx * ny }, () => random.normal());
+    const holes = Uint8Array.from({ length: nx * ny }, () => (random.uniform() < 0.2 ? 0 : 1));
+    const plain = new Float64Array(nx * ny);
+    for (let i = 0; i < nx; i++) {
+      for (let j = 0; j < ny; j++) {
+        let sum = 0;
+        let count = 0;
+        for (let a = Math.max(0, i - 1); a <= Math.min(nx - 1, i + 1); a++) {
+          for (let b = Math.max(0, j - 1); b <= Math.min(ny - 1, j + 1); b++) {
+            if (holes[a * ny + b] === 0) continue;
+            sum += values[a * ny + b];
+            count++;
+          }
+        }
+        plain[i * ny + j] = count > 0 ? sum / count : 0;
+      }
+    }
+    expect(Array.from(smoothedOverMask(values, nx, ny, holes))).toEqual(Array.from(plain));
   });
 });
