@@ -61,24 +61,15 @@ export function writeDiagramFiles(result: PhaseMapResult, s: DiagramSettings, se
   });
   const png = svgToPng(svg);
 
-  const boundaryFilling: number[] = [];
-  const boundaryMu: number[] = [];
-  const boundaryZ: number[] = [];
-  for (const b of result.boundaries) {
-    for (let k = 0; k < b.mu.length; k++) {
-      boundaryFilling.push(b.filling);
-      boundaryMu.push(b.mu[k]);
-      boundaryZ.push(b.zJ[k]);
-    }
-  }
+  const edges = result.boundaries;
   const creator = `tiercake ${toolVersion()}`;
   const common = [`k_B T/U = ${temperature}, nmax = ${nmax}; z = coordination number; energies in units of U`];
   const boundary = csvTable(
     'lobe_boundaries.csv',
     [
-      { name: 'filling', values: boundaryFilling, unit: 'atoms per site', datatype: 'integer', description: 'filling n of the lobe (n - 1 < mu/U < n); 0 is the edge of the empty lattice' },
-      { name: 'mu_over_U', values: boundaryMu, unit: '1', description: 'chemical potential over U' },
-      { name: 'zJ_over_U', values: boundaryZ, unit: '1', description: 'coordination number times hopping, over U, at the edge of the superfluid' },
+      { name: 'filling', values: perEdgePoint(edges, (b) => b.filling), unit: 'atoms per site', datatype: 'integer', description: 'filling n of the lobe (n - 1 < mu/U < n); 0 is the edge of the empty lattice' },
+      { name: 'mu_over_U', values: perEdgePoint(edges, (b, k) => b.mu[k]), unit: '1', description: 'chemical potential over U' },
+      { name: 'zJ_over_U', values: perEdgePoint(edges, (b, k) => b.zJ[k]), unit: '1', description: 'coordination number times hopping, over U, at the edge of the superfluid' },
     ],
     {
       title: 'homogeneous Gutzwiller mean-field phase boundary',
@@ -166,29 +157,23 @@ function clusterOverlays(cluster: DiagramClusterLobes | null, muMin: number, muM
   return lines;
 }
 
+/** One value per edge point of every lobe, lobe after lobe: a column of a lobe table. */
+function perEdgePoint<L extends { mu: ArrayLike<number> }>(lobes: readonly L[], value: (lobe: L, k: number) => number): number[] {
+  const column: number[] = [];
+  for (const lobe of lobes) for (let k = 0; k < lobe.mu.length; k++) column.push(value(lobe, k));
+  return column;
+}
+
 function clusterLobeTable(cluster: DiagramClusterLobes, creator: string) {
-  const filling: number[] = [];
-  const nmax: number[] = [];
-  const mu: number[] = [];
-  const zJ: number[] = [];
-  const crossing: number[] = [];
-  for (const b of cluster.lobes) {
-    for (let k = 0; k < b.mu.length; k++) {
-      filling.push(b.filling);
-      nmax.push(b.nmax);
-      mu.push(b.mu[k]);
-      zJ.push(b.zJ[k]);
-      crossing.push(b.levelCrossing[k]);
-    }
-  }
+  const lobes = cluster.lobes;
   return csvTable(
     'cluster_lobes.csv',
     [
-      { name: 'filling', values: filling, unit: 'atoms per site', datatype: 'integer', description: 'filling n of the lobe' },
-      { name: 'nmax', values: nmax, unit: 'atoms per site', datatype: 'integer', description: 'truncation of the cluster problem for this lobe' },
-      { name: 'mu_over_U', values: mu, unit: '1', description: 'chemical potential over U' },
-      { name: 'zJ_over_U', values: zJ, unit: '1', description: `coordination number (${2 * cluster.shape.length}) times hopping over U at the edge of the Mott lobe` },
-      { name: 'level_crossing', values: crossing, unit: '1', datatype: 'integer', description: '1 where the edge is a level crossing of the cluster ground state, 0 where the Mott state becomes unstable to the mean field' },
+      { name: 'filling', values: perEdgePoint(lobes, (b) => b.filling), unit: 'atoms per site', datatype: 'integer', description: 'filling n of the lobe' },
+      { name: 'nmax', values: perEdgePoint(lobes, (b) => b.nmax), unit: 'atoms per site', datatype: 'integer', description: 'truncation of the cluster problem for this lobe' },
+      { name: 'mu_over_U', values: perEdgePoint(lobes, (b, k) => b.mu[k]), unit: '1', description: 'chemical potential over U' },
+      { name: 'zJ_over_U', values: perEdgePoint(lobes, (b, k) => b.zJ[k]), unit: '1', description: `coordination number (${2 * cluster.shape.length}) times hopping over U at the edge of the Mott lobe` },
+      { name: 'level_crossing', values: perEdgePoint(lobes, (b, k) => b.levelCrossing[k]), unit: '1', datatype: 'integer', description: '1 where the edge is a level crossing of the cluster ground state, 0 where the Mott state becomes unstable to the mean field' },
     ],
     {
       title: `cluster mean-field Mott lobes, ${cluster.shape.join('x')} clusters`,

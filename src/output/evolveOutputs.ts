@@ -224,34 +224,21 @@ export function evolutionPlots(a: EvolveArtifacts): WrittenImage[] {
     const unit = a.prepared.scenario.energyUnit ?? (a.plan.mode === 'laboratory' ? 'Hz' : 'J');
     const fU = a.verdict ? a.verdict.finalInteraction : NaN;
     const uInUnit = a.plan.cyclesOf(1) > 0 ? (a.plan.rate * fU) / (2 * Math.PI) / a.plan.cyclesOf(1) : NaN;
-    images.push(
+    // Both spectrum plots: one reading against the modulation frequency, U marked where it is known.
+    const againstFrequency = (file: string, caption: string, title: string, yAxis: { label: string; unit?: string }, label: string, y: (q: (typeof p)[number]) => number): WrittenImage =>
       figureImage(
-        'images/spectrum.png',
-        'Modulation spectrum',
+        file,
+        caption,
         renderLinePlotSvg({
-          title: `${name}: modulation spectrum`,
+          title: `${name}: ${title}`,
           xAxis: { label: 'modulation frequency h f', unit },
-          yAxis: { label: 'per atom', unit: e },
-          series: [
-            { label: 'energy absorbed per atom', x: p.map((q) => q.frequency), y: p.map((q) => q.energyAbsorbedPerAtom), style: { marker: 'circle' } },
-          ],
+          yAxis,
+          series: [{ label, x: p.map((q) => q.frequency), y: p.map(y), style: { marker: 'circle' } }],
           ...(Number.isFinite(uInUnit) ? { verticalMarkers: [{ at: uInUnit, label: 'U' }] } : {}),
         }),
-      ),
-    );
-    images.push(
-      figureImage(
-        'images/spectrum_doublons.png',
-        'Doublons created against frequency',
-        renderLinePlotSvg({
-          title: `${name}: doublons created`,
-          xAxis: { label: 'modulation frequency h f', unit },
-          yAxis: { label: 'sites' },
-          series: [{ label: 'doublons created', x: p.map((q) => q.frequency), y: p.map((q) => q.doublonsCreated), style: { marker: 'circle' } }],
-          ...(Number.isFinite(uInUnit) ? { verticalMarkers: [{ at: uInUnit, label: 'U' }] } : {}),
-        }),
-      ),
-    );
+      );
+    images.push(againstFrequency('images/spectrum.png', 'Modulation spectrum', 'modulation spectrum', { label: 'per atom', unit: e }, 'energy absorbed per atom', (q) => q.energyAbsorbedPerAtom));
+    images.push(againstFrequency('images/spectrum_doublons.png', 'Doublons created against frequency', 'doublons created', { label: 'sites' }, 'doublons created', (q) => q.doublonsCreated));
   }
   return images;
 }

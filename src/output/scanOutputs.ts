@@ -54,48 +54,57 @@ export function scanFillings(rows: readonly ScanRow[]): number[] {
   return [...new Set(rows.flatMap((r) => r.shells.map((s) => s.filling)))].sort((a, b) => a - b);
 }
 
-/** Name, unit and meaning of every CSV column, in order. */
-export function scanColumns(o: Pick<ScanOutcome, 'plan' | 'rows' | 'energyUnit' | 'hold'>): ColumnInfo[] {
+/** A CSV column: its description and the reading it takes from each row. */
+interface ScanColumn extends ColumnInfo {
+  value: (r: ScanRow) => number;
+}
+
+type ScanColumnSource = Pick<ScanOutcome, 'plan' | 'rows' | 'energyUnit' | 'hold'>;
+
+/** Every CSV column in order: one list, so the header, the rows and summary.json's descriptions cannot drift apart. */
+function scanColumnTable(o: ScanColumnSource): ScanColumn[] {
   const e = o.energyUnit;
-  const axes: ColumnInfo[] = o.plan.axes.map((a) => ({
+  const axes: ScanColumn[] = o.plan.axes.map((a, k) => ({
     name: a.path,
     unit: a.path === CHARACTERISTIC_DENSITY ? 'atoms' : 'the scenario key\'s own (see the scenario reference)',
     description:
       a.path === CHARACTERISTIC_DENSITY
         ? `scanned characteristic density N (V/J)^(d/2) (Rigol et al., PRA 79, 053605 (2009)), with the ${o.hold === 'atoms' ? 'atom number held and the trap scaled' : 'trap held and the atom number following'}`
         : `scanned scenario value (${a.spacing === 'log' ? 'logarithmic steps' : a.spacing === 'list' ? 'listed values' : 'equal steps'})`,
+    value: (r) => r.values[k],
   }));
-  const phaseColumns: ColumnInfo[] = phaseNames.map((p) => ({ name: `${snake(p)}_sites`, unit: 'sites', description: `sites labelled ${phaseTitles[p]}` }));
-  const shellColumns: ColumnInfo[] = scanFillings(o.rows).flatMap((f) => [
-    { name: `shell_${f}_inner_radius`, unit: 'sites', description: `inner edge of the n = ${f} Mott shell: trap-scaled radius where half the sites of a radial bin belong to it (0 for a central shell; nan where there is no such shell)` },
-    { name: `shell_${f}_outer_radius`, unit: 'sites', description: `outer edge of the n = ${f} Mott shell, the same rule` },
-    { name: `shell_${f}_sites`, unit: 'sites', description: `sites in the n = ${f} Mott shell (0: none)` },
+  const phaseColumns: ScanColumn[] = phaseNames.map((p, c) => ({ name: `${snake(p)}_sites`, unit: 'sites', description: `sites labelled ${phaseTitles[p]}`, value: (r) => r.phaseSites[c] }));
+  const shell = (r: ScanRow, f: number) => r.shells.find((s) => s.filling === f);
+  const shellColumns: ScanColumn[] = scanFillings(o.rows).flatMap((f) => [
+    { name: `shell_${f}_inner_radius`, unit: 'sites', description: `inner edge of the n = ${f} Mott shell: trap-scaled radius where half the sites of a radial bin belong to it (0 for a central shell; nan where there is no such shell)`, value: (r) => shell(r, f)?.innerRadius ?? NaN },
+    { name: `shell_${f}_outer_radius`, unit: 'sites', description: `outer edge of the n = ${f} Mott shell, the same rule`, value: (r) => shell(r, f)?.outerRadius ?? NaN },
+    { name: `shell_${f}_sites`, unit: 'sites', description: `sites in the n = ${f} Mott shell (0: none)`, value: (r) => shell(r, f)?.sites ?? 0 },
   ]);
   return [
     ...axes,
-    { name: 'atoms', unit: 'atoms', description: 'total atom number N' },
-    { name: 'chemical_potential', unit: e, description: 'chemical potential mu (at the trap centre, as the scenario defines it)' },
-    { name: 'condensed_atoms', unit: 'atoms', description: 'sum of |phi_i|^2 over the sites (Gutzwiller condensate)' },
-    { name: 'condensate_fraction', unit: '1', description: 'condensed_atoms / atoms' },
-    { name: 'superfluid_fraction', unit: '1', description: 'superfluid fraction from the curvature of the grand potential under a phase twist, mean over the periodic axes (solver.stiffness; nan when off or no axis is periodic). Compressible with superfluid_fraction near 0: Bose glass (Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989))' },
-    { name: 'superfluid_fraction_error', unit: '1', description: 'numerical error of superfluid_fraction from two twist sizes, the largest over the axes (nan with it)' },
-    { name: 'entropy', unit: 'k_B', description: 'total entropy S (0 in the ground state)' },
-    { name: 'entropy_per_atom', unit: 'k_B', description: 'S / N' },
-    { name: 'temperature', unit: e, description: 'k_B T (solved for at fixed entropy per atom)' },
-    { name: 'characteristic_density', unit: 'atoms', description: 'N prod_d sqrt(V_d / J_d), V_d the trap curvature per site^2 (Rigol et al., PRA 79, 053605 (2009)); nan without a trap on every axis' },
-    { name: 'characteristic_length', unit: 'sites', description: 'sqrt(J / V) along the first trapped axis; radius / characteristic_length is the radius in the units rho~ is defined with' },
-    { name: 'central_density', unit: 'atoms per site', description: 'mean density of the sites nearest the trap centre' },
-    { name: 'central_phase', unit: 'code', description: 'phase of those sites: 0 empty, 1 superfluid, 2 Mott insulator, 3 Bose glass, 4 normal fluid' },
+    { name: 'atoms', unit: 'atoms', description: 'total atom number N', value: (r) => r.atoms },
+    { name: 'chemical_potential', unit: e, description: 'chemical potential mu (at the trap centre, as the scenario defines it)', value: (r) => r.chemicalPotential },
+    { name: 'condensed_atoms', unit: 'atoms', description: 'sum of |phi_i|^2 over the sites (Gutzwiller condensate)', value: (r) => r.condensedAtoms },
+    { name: 'condensate_fraction', unit: '1', description: 'condensed_atoms / atoms', value: (r) => r.condensateFraction },
+    { name: 'superfluid_fraction', unit: '1', description: 'superfluid fraction from the curvature of the grand potential under a phase twist, mean over the periodic axes (solver.stiffness; nan when off or no axis is periodic). Compressible with superfluid_fraction near 0: Bose glass (Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989))', value: (r) => r.superfluidFraction },
+    { name: 'superfluid_fraction_error', unit: '1', description: 'numerical error of superfluid_fraction from two twist sizes, the largest over the axes (nan with it)', value: (r) => r.superfluidFractionError },
+    { name: 'entropy', unit: 'k_B', description: 'total entropy S (0 in the ground state)', value: (r) => r.entropy },
+    { name: 'entropy_per_atom', unit: 'k_B', description: 'S / N', value: (r) => r.entropyPerAtom },
+    { name: 'temperature', unit: e, description: 'k_B T (solved for at fixed entropy per atom)', value: (r) => r.temperature },
+    { name: 'characteristic_density', unit: 'atoms', description: 'N prod_d sqrt(V_d / J_d), V_d the trap curvature per site^2 (Rigol et al., PRA 79, 053605 (2009)); nan without a trap on every axis', value: (r) => r.characteristicDensity },
+    { name: 'characteristic_length', unit: 'sites', description: 'sqrt(J / V) along the first trapped axis; radius / characteristic_length is the radius in the units rho~ is defined with', value: (r) => r.characteristicLength },
+    { name: 'central_density', unit: 'atoms per site', description: 'mean density of the sites nearest the trap centre', value: (r) => r.centralDensity },
+    { name: 'central_phase', unit: 'code', description: 'phase of those sites: 0 empty, 1 superfluid, 2 Mott insulator, 3 Bose glass, 4 normal fluid', value: (r) => r.centralPhase },
     ...phaseColumns,
     ...shellColumns,
-    { name: 'nmax', unit: 'atoms per site', description: 'Fock-space truncation used (raised automatically when needed)' },
-    { name: 'sweeps', unit: 'sweeps', description: 'red-black sweeps of the solve (all chemical-potential and temperature steps)' },
-    { name: 'mu_evaluations', unit: 'solves', description: 'chemical-potential evaluations of the last fixed-N search (1 at fixed mu)' },
-    { name: 'warm_start', unit: 'flag', description: '1: started from the previous points of its chain, 0: cold start (first point of a chain)' },
-    { name: 'converged', unit: 'flag', description: '1: converged (self-consistency, atom number, temperature, truncation), 0: not; do not trust those rows' },
-    { name: 'realisations', unit: 'realisations', description: 'disorder realisations behind the row (scan --realisations; seeds "<disorder.seed>/r"); with more than one, the readings are their means' },
-    { name: 'superfluid_fraction_spread', unit: '1', description: 'sample standard deviation of superfluid_fraction over the realisations (nan for one realisation); standard error of the mean = spread / sqrt(realisations)' },
-    { name: 'compressibility_per_site', unit: '1/U', description: '(1/sites) sum_i dn_i/dmu times U at the trap centre (nan when solver.compressibility is off)' },
+    { name: 'nmax', unit: 'atoms per site', description: 'Fock-space truncation used (raised automatically when needed)', value: (r) => r.nmax },
+    { name: 'sweeps', unit: 'sweeps', description: 'red-black sweeps of the solve (all chemical-potential and temperature steps)', value: (r) => r.sweeps },
+    { name: 'mu_evaluations', unit: 'solves', description: 'chemical-potential evaluations of the last fixed-N search (1 at fixed mu)', value: (r) => r.muEvaluations },
+    { name: 'warm_start', unit: 'flag', description: '1: started from the previous points of its chain, 0: cold start (first point of a chain)', value: (r) => (r.warmStart ? 1 : 0) },
+    { name: 'converged', unit: 'flag', description: '1: converged (self-consistency, atom number, temperature, truncation), 0: not; do not trust those rows', value: (r) => (r.converged ? 1 : 0) },
+    { name: 'realisations', unit: 'realisations', description: 'disorder realisations behind the row (scan --realisations; seeds "<disorder.seed>/r"); with more than one, the readings are their means', value: (r) => r.realisations },
+    { name: 'superfluid_fraction_spread', unit: '1', description: 'sample standard deviation of superfluid_fraction over the realisations (nan for one realisation); standard error of the mean = spread / sqrt(realisations)', value: (r) => r.superfluidFractionSpread },
+    { name: 'compressibility_per_site', unit: '1/U', description: '(1/sites) sum_i dn_i/dmu times U at the trap centre (nan when solver.compressibility is off)', value: (r) => r.compressibilityPerSite },
     {
       name: 'stiffness_phase',
       unit: 'code',
@@ -103,51 +112,22 @@ export function scanColumns(o: Pick<ScanOutcome, 'plan' | 'rows' | 'energyUnit' 
         `the lattice's phase by the stiffness criterion (Fisher, Weichman, Grinstein & Fisher, PRB 40, 546 (1989)), the label most realisations carry: ${PhaseCode.mott} Mott insulator (every site at one integer filling and compressibility_per_site below ${MOTT_COMPRESSIBILITY_MAX} at T = 0), ` +
         `${PhaseCode.superfluid} superfluid (superfluid_fraction at least ${SUPERFLUID_FRACTION_MIN}), ${PhaseCode.boseGlass} Bose glass (compressible, below it), ${PhaseCode.normalFluid} normal fluid (the same at T > 0), ${PhaseCode.empty} empty; ` +
         'nan without the compressibility or the superfluid fraction (solver.stiffness on a periodic axis). Both thresholds are our choice',
+      value: (r) => (r.stiffnessPhase === null ? NaN : PhaseCode[r.stiffnessPhase]),
     },
-    ...STIFFNESS_PHASES.filter((p) => p !== 'empty').map((p) => ({ name: `${snake(p)}_share`, unit: '1', description: `fraction of the realisations labelled ${phaseTitles[p]} by stiffness_phase's rule (nan when unlabelled)` })),
+    ...STIFFNESS_PHASES.flatMap((p, k): ScanColumn[] =>
+      p === 'empty' ? [] : [{ name: `${snake(p)}_share`, unit: '1', description: `fraction of the realisations labelled ${phaseTitles[p]} by stiffness_phase's rule (nan when unlabelled)`, value: (r) => r.phaseShares?.[k] ?? NaN }],
+    ),
   ];
 }
 
+/** Name, unit and meaning of every CSV column, in order. */
+export function scanColumns(o: ScanColumnSource): ColumnInfo[] {
+  return scanColumnTable(o).map(({ name, unit, description }) => ({ name, unit, description }));
+}
+
 /** The CSV: header on the first line, one row per point. */
-export function scanCsv(o: Pick<ScanOutcome, 'plan' | 'rows' | 'energyUnit' | 'hold'>): string {
-  const rows = o.rows;
-  const col = (name: string, f: (r: ScanRow) => number): CsvColumn => ({ name, values: rows.map(f) });
-  const shell = (r: ScanRow, f: number) => r.shells.find((s) => s.filling === f);
-  const columns: CsvColumn[] = [
-    ...o.plan.axes.map((a, k) => col(a.path, (r) => r.values[k])),
-    col('atoms', (r) => r.atoms),
-    col('chemical_potential', (r) => r.chemicalPotential),
-    col('condensed_atoms', (r) => r.condensedAtoms),
-    col('condensate_fraction', (r) => r.condensateFraction),
-    col('superfluid_fraction', (r) => r.superfluidFraction),
-    col('superfluid_fraction_error', (r) => r.superfluidFractionError),
-    col('entropy', (r) => r.entropy),
-    col('entropy_per_atom', (r) => r.entropyPerAtom),
-    col('temperature', (r) => r.temperature),
-    col('characteristic_density', (r) => r.characteristicDensity),
-    col('characteristic_length', (r) => r.characteristicLength),
-    col('central_density', (r) => r.centralDensity),
-    col('central_phase', (r) => r.centralPhase),
-    ...phaseNames.map((p, c) => col(`${snake(p)}_sites`, (r) => r.phaseSites[c])),
-    ...scanFillings(rows).flatMap((f) => [
-      col(`shell_${f}_inner_radius`, (r) => shell(r, f)?.innerRadius ?? NaN),
-      col(`shell_${f}_outer_radius`, (r) => shell(r, f)?.outerRadius ?? NaN),
-      col(`shell_${f}_sites`, (r) => shell(r, f)?.sites ?? 0),
-    ]),
-    col('nmax', (r) => r.nmax),
-    col('sweeps', (r) => r.sweeps),
-    col('mu_evaluations', (r) => r.muEvaluations),
-    col('warm_start', (r) => (r.warmStart ? 1 : 0)),
-    col('converged', (r) => (r.converged ? 1 : 0)),
-    col('realisations', (r) => r.realisations),
-    col('superfluid_fraction_spread', (r) => r.superfluidFractionSpread),
-    col('compressibility_per_site', (r) => r.compressibilityPerSite),
-    col('stiffness_phase', (r) => (r.stiffnessPhase === null ? NaN : PhaseCode[r.stiffnessPhase])),
-    ...STIFFNESS_PHASES.flatMap((p, k) => (p === 'empty' ? [] : [col(`${snake(p)}_share`, (r) => r.phaseShares?.[k] ?? NaN)])),
-  ];
-  const expected = scanColumns(o).map((c) => c.name);
-  if (columns.some((c, k) => c.name !== expected[k])) throw new Error('scanCsv: the columns and their descriptions are out of step');
-  return toCsv(columns);
+export function scanCsv(o: ScanColumnSource): string {
+  return toCsv(scanColumnTable(o).map((c): CsvColumn => ({ name: c.name, values: o.rows.map(c.value) })));
 }
 
 /** summary.json: everything but `provenance` is the same for one run and merged shards. */

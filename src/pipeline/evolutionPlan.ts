@@ -276,6 +276,14 @@ export function evolutionPlan(resolved: ResolvedScenario, options: PlanOptions =
     trapCentre: Array(dims).fill(null),
     linear: [],
   };
+  // Keys whose ramp sets the value of each axis it names, in the key's own unit.
+  const perAxisKeys = {
+    'laboratory.depthEr': { staticValue: staticDepth, schedules: schedules.depthEr, unit: 'E_r' },
+    // hubbard mode: the internal unit is the energy unit
+    'trap.coefficient': { staticValue: staticCoefficient, schedules: schedules.trapCoefficient, unit: `${energyUnit} per site²` },
+    'trap.frequencyHz': { staticValue: staticFrequency, schedules: schedules.trapFrequencyHz, unit: 'Hz' },
+    'trap.centreSites': { staticValue: staticCentre, schedules: schedules.trapCentre, unit: 'sites' },
+  };
   const ramps: RampRecord[] = [];
   settings.ramps.forEach((r, k) => {
     const where = `evolution.ramps[${k}]`;
@@ -305,25 +313,16 @@ export function evolutionPlan(resolved: ResolvedScenario, options: PlanOptions =
         unit = energyUnit;
         break;
       case 'laboratory.depthEr':
-        staticValue = axes.map((d) => staticDepth[d]);
-        for (const d of axes) schedules.depthEr[d] = schedule;
-        unit = 'E_r';
-        break;
       case 'trap.coefficient':
-        staticValue = axes.map((d) => staticCoefficient[d]);
-        for (const d of axes) schedules.trapCoefficient[d] = schedule; // hubbard mode: the internal unit is the energy unit
-        unit = `${energyUnit} per site²`;
-        break;
       case 'trap.frequencyHz':
-        staticValue = axes.map((d) => staticFrequency[d]);
-        for (const d of axes) schedules.trapFrequencyHz[d] = schedule;
-        unit = 'Hz';
+      case 'trap.centreSites': {
+        // a per-axis key: the ramp's value itself, on each axis it names
+        const k = perAxisKeys[target.key];
+        staticValue = axes.map((d) => k.staticValue[d]);
+        for (const d of axes) k.schedules[d] = schedule;
+        unit = k.unit;
         break;
-      case 'trap.centreSites':
-        staticValue = axes.map((d) => staticCentre[d]);
-        for (const d of axes) schedules.trapCentre[d] = schedule;
-        unit = 'sites';
-        break;
+      }
       case 'disorder.width':
       case 'disorder.meanStrength': {
         const d = scenario.disorder!;

@@ -21,7 +21,7 @@ import type { RunProgress } from '../solver/runLattice.js';
 import { createSweepPool, type SweepPool } from '../solver/sweepExecutor.js';
 import { InputError } from '../scenario/inputError.js';
 import { evolutionPlan, type EvolutionPlan, type EvolutionPlanWarning } from './evolutionPlan.js';
-import { groundState, modelOfFrame, type StaticState } from './evolveGround.js';
+import { groundState, modelOfFrame, type GroundRequest, type StaticState } from './evolveGround.js';
 import { evolveCamera } from './evolvePictures.js';
 import { createEvolveRecorder, type AnimationFrame, type EvolutionSeries, type EvolutionSnapshot } from './evolveRecorder.js';
 import { runModulationScan, type SpectrumResult } from './modulationScan.js';
@@ -147,19 +147,21 @@ export async function evolveScenario(prepared: PreparedScenario, options: Evolve
   const timings = { startSeconds: 0, referenceSeconds: 0, evolveSeconds: 0, spectrumSeconds: 0 };
   try {
     if (staticThreads > 1) sweepPool = createSweepPool({ workers: staticThreads - 1, ...(options.sweepWorkerModule ?? {}) });
+    // Both static solves (the start and the reference at the end) on the same pool and
+    // threads, each timed and ended by SIGINT the same way.
+    const timedGroundState = async (stage: 'start' | 'reference', request: Pick<GroundRequest, 'model' | 'chemical' | 'automaticTruncation'>): Promise<StaticState> => {
+      const t0 = clock();
+      const solved = await groundState({ resolved, ...request, pool: sweepPool, threads: staticThreads, observer: solverObserver(stage) });
+      timings[`${stage}Seconds`] = (clock() - t0) / 1000;
+      if (solved.outcome.stopped) stopped();
+      return solved;
+    };
     // --- the start
-    let c0 = clock();
-    const start = await groundState({
-      resolved,
+    const start = await timedGroundState('start', {
       model: resolved.model,
       chemical: resolved.chemical.kind === 'mu' ? { kind: 'mu', mu: resolved.chemical.mu } : { kind: 'atoms', atoms: resolved.chemical.atoms, relativeTolerance: Math.min(1e-10, resolved.chemical.relativeTolerance) },
       automaticTruncation: true,
-      pool: sweepPool,
-      threads: staticThreads,
-      observer: solverObserver('start'),
     });
-    timings.startSeconds = (clock() - c0) / 1000;
-    if (start.outcome.stopped) stopped();
     const model = start.outcome.model;
     const mu = start.outcome.solve.mu;
     const atoms = start.outcome.solve.totals.atoms;
@@ -175,18 +177,11 @@ export async function evolveScenario(prepared: PreparedScenario, options: Evolve
     const scenario0 = scenarioDrive(frame, resolved.geometry, plan.targets);
     const endFrame = copyFrame(frame);
     scenario0.apply(plan.duration, endFrame, false);
-    c0 = clock();
-    const reference = await groundState({
-      resolved,
+    const reference = await timedGroundState('reference', {
       model: modelOfFrame(endFrame, model),
       chemical: { kind: 'atoms', atoms, relativeTolerance: 1e-10 },
       automaticTruncation: false,
-      pool: sweepPool,
-      threads: staticThreads,
-      observer: solverObserver('reference'),
     });
-    timings.referenceSeconds = (clock() - c0) / 1000;
-    if (reference.outcome.stopped) stopped();
     if (!reference.outcome.converged) {
       warnings.push({
         code: 'reference-not-converged',
@@ -221,7 +216,7 @@ export async function evolveScenario(prepared: PreparedScenario, options: Evolve
     const camera = evolveCamera(resolved);
     const label = (time: number): string => `t = ${Number(time.toPrecision(6))} ${plan.timeUnit}`;
     const recorder = createEvolveRecorder({ resolved, camera, shellFilling, snapshotTimes: plan.snapshotTimes, frameTimes: plan.frameTimes, label });
-    c0 = clock();
+    let c0 = clock();
     const result = await evolve({
       state,
       frame,

@@ -84,10 +84,11 @@ interface Column {
   header: string;
   unit: string;
   csvName: string;
-  /** unit for the CSV metadata ('1' for a pure number) */
-  csvUnit: string;
+  /** unit for the CSV metadata when it is not `unit`, or '1' for a pure number (unit '') */
+  csvUnit?: string;
   description: string;
-  text: (row: HubbardTableRow) => string;
+  /** the text table's cell; four significant figures of `value` when not given */
+  text?: (row: HubbardTableRow) => string;
   value: (row: HubbardTableRow) => number;
   integer?: boolean;
 }
@@ -104,35 +105,30 @@ function sig(value: number, digits = 4): string {
 }
 
 const columns: Column[] = [
-  { header: 'depth', unit: 'E_r', csvName: 'depth_Er', csvUnit: 'E_r', description: 'lattice depth per axis in recoil energies', text: (r) => sig(r.depthEr), value: (r) => r.depthEr },
-  { header: 'E_r', unit: 'Hz', csvName: 'recoil_Hz', csvUnit: 'Hz', description: 'recoil energy h^2 / (2 m lambda^2), as energy/h', text: (r) => sig(r.recoilHz), value: (r) => r.recoilHz },
-  { header: 'J', unit: 'Hz', csvName: 'J_Hz', csvUnit: 'Hz', description: 'nearest-neighbour hopping J, as energy/h', text: (r) => sig(r.JHz), value: (r) => r.JHz },
-  { header: 'U', unit: 'Hz', csvName: 'U_Hz', csvUnit: 'Hz', description: 'on-site interaction U, as energy/h', text: (r) => sig(r.UHz), value: (r) => r.UHz },
-  { header: 'U/J', unit: '', csvName: 'U_over_J', csvUnit: '1', description: 'U over J', text: (r) => sig(r.UoverJ), value: (r) => r.UoverJ },
+  { header: 'depth', unit: 'E_r', csvName: 'depth_Er', description: 'lattice depth per axis in recoil energies', value: (r) => r.depthEr },
+  { header: 'E_r', unit: 'Hz', csvName: 'recoil_Hz', description: 'recoil energy h^2 / (2 m lambda^2), as energy/h', value: (r) => r.recoilHz },
+  { header: 'J', unit: 'Hz', csvName: 'J_Hz', description: 'nearest-neighbour hopping J, as energy/h', value: (r) => r.JHz },
+  { header: 'U', unit: 'Hz', csvName: 'U_Hz', description: 'on-site interaction U, as energy/h', value: (r) => r.UHz },
+  { header: 'U/J', unit: '', csvName: 'U_over_J', description: 'U over J', value: (r) => r.UoverJ },
   {
     header: '(U/zJ)/5.83',
     unit: '',
     csvName: 'U_over_zJ_relative_to_mean_field_critical',
-    csvUnit: '1',
     description: '(U / zJ) / (3 + 2 sqrt 2): 1 at the mean-field n = 1 Mott transition',
-    text: (r) => sig(r.UoverZJRelativeToCritical),
     value: (r) => r.UoverZJRelativeToCritical,
   },
   {
     header: 'Wannier rms',
     unit: 'nm',
     csvName: 'wannier_rms_width_nm',
-    csvUnit: 'nm',
     description: 'rms width of |w(x)|^2 of the lowest-band Wannier function along a lattice axis',
-    text: (r) => sig(r.wannierWidthNm),
     value: (r) => r.wannierWidthNm,
   },
-  { header: 'band gap', unit: 'E_r', csvName: 'band_gap_Er', csvUnit: 'E_r', description: 'gap between the lowest two bands', text: (r) => sig(r.bandGapEr), value: (r) => r.bandGapEr },
+  { header: 'band gap', unit: 'E_r', csvName: 'band_gap_Er', description: 'gap between the lowest two bands', value: (r) => r.bandGapEr },
   {
     header: 'J2/J',
     unit: '',
     csvName: 'nnn_over_nn',
-    csvUnit: '1',
     description: 'next-nearest hopping over nearest hopping (negative); 0 when below the round-off of the band energies (see nnn_resolved)',
     text: (r) => (r.nnnResolved ? sig(r.nnnOverNn, 3) : '~0'),
     value: (r) => r.nnnOverNn,
@@ -152,7 +148,7 @@ const columns: Column[] = [
 /** Right-aligned text table with a units line, followed by the validity warnings of each row. */
 export function formatHubbardTable(rows: readonly HubbardTableRow[]): string {
   const shown = columns.filter((c) => c.header !== 'J2 resolved');
-  const cells = rows.map((row) => shown.map((c) => c.text(row)));
+  const cells = rows.map((row) => shown.map((c) => (c.text ? c.text(row) : sig(c.value(row)))));
   const headers = shown.map((c) => c.header);
   const units = shown.map((c) => (c.unit ? `[${c.unit}]` : ''));
   const widths = shown.map((_, i) =>
@@ -180,7 +176,7 @@ export function hubbardCsvTable(rows: readonly HubbardTableRow[], about: { speci
     columns.map((c) => ({
       name: c.csvName,
       values: rows.map((r) => c.value(r)),
-      unit: c.csvUnit,
+      unit: c.csvUnit ?? (c.unit === '' ? '1' : c.unit),
       description: c.description,
       ...(c.integer ? { datatype: 'integer' as const } : {}),
     })),

@@ -25,19 +25,25 @@ const lengthUnitKey = lengthUnit
   .describe('"sites" (lattice spacings) or "um" (micrometres, laboratory mode); required in laboratory mode, "sites" in hubbard mode');
 const filePath = z.string().min(1).max(4096).describe('file path, relative to the scenario file (or absolute)');
 
-export const SitesTermSchema = z
-  .strictObject({
-    kind: z.literal('sites').describe("'sites': per-site energies from an .npy file"),
-    name: termName,
+/** A landscape term: its `kind` and optional `name` first (the same in every term), then its own fields. */
+function landscapeTerm<K extends string, F extends z.ZodRawShape>(kind: K, kindText: string, fields: F, description: string) {
+  return z.strictObject({ kind: z.literal(kind).describe(kindText), name: termName, ...fields }).describe(description);
+}
+
+export const SitesTermSchema = landscapeTerm(
+  'sites',
+  "'sites': per-site energies from an .npy file",
+  {
     file: filePath.describe('.npy of per-site energies with the lattice shape (C order, axes x, y, z as in lattice.shape); path relative to the scenario file'),
     unit: unitKey,
-  })
-  .describe('per-site energies computed elsewhere');
+  },
+  'per-site energies computed elsewhere',
+);
 
-export const ImageTermSchema = z
-  .strictObject({
-    kind: z.literal('image').describe("'image': a potential picture (DMD or SLM pattern) placed on the lattice"),
-    name: termName,
+export const ImageTermSchema = landscapeTerm(
+  'image',
+  "'image': a potential picture (DMD or SLM pattern) placed on the lattice",
+  {
     file: filePath.describe(
       'picture: 2D .npy a[row, col] or greyscale PNG (8 or 16 bit); column = lattice x, row = lattice y, row 0 at the top; path relative to the scenario file',
     ),
@@ -51,13 +57,14 @@ export const ImageTermSchema = z
       .enum(['auto', 'bilinear', 'area'])
       .default('auto')
       .describe('"bilinear" at site centres, "area" mean over each site cell, "auto": area when a pixel is smaller than a site'),
-  })
-  .describe('potential picture');
+  },
+  'potential picture',
+);
 
-export const GradientTermSchema = z
-  .strictObject({
-    kind: z.literal('gradient').describe("'gradient': a linear tilt (gravity along a tilted lattice, a magnetic gradient)"),
-    name: termName,
+export const GradientTermSchema = landscapeTerm(
+  'gradient',
+  "'gradient': a linear tilt (gravity along a tilted lattice, a magnetic gradient)",
+  {
     direction: z.array(z.number()).min(1).max(3).describe('direction in which the energy rises, one component per lattice axis (normalised)'),
     perSite: z.number().optional().describe('slope: energy per lattice spacing along direction, in unit'),
     perUm: z.number().optional().describe('or slope: energy per micrometre along direction, in unit (laboratory mode)'),
@@ -68,13 +75,14 @@ export const GradientTermSchema = z
     unit: unitKey,
     offset: z.array(z.number()).min(1).max(3).optional().describe('where the tilt is zero, from the lattice centre per axis, in lengthUnit (default: the centre)'),
     lengthUnit: lengthUnitKey,
-  })
-  .describe('linear tilt');
+  },
+  'linear tilt',
+);
 
-export const BoxTermSchema = z
-  .strictObject({
-    kind: z.literal('box').describe("'box': flat bottom inside a disc, ring or rectangle, a wall outside"),
-    name: termName,
+export const BoxTermSchema = landscapeTerm(
+  'box',
+  "'box': flat bottom inside a disc, ring or rectangle, a wall outside",
+  {
     shape: z.enum(['disc', 'ring', 'rectangle']).describe('disc and ring lie in the x-y plane (cylinders along z in 3D); rectangle has one size per axis'),
     radius: positive().optional().describe('disc radius, lengthUnit'),
     innerRadius: z.number().min(0).optional().describe('ring inner radius, lengthUnit'),
@@ -90,13 +98,14 @@ export const BoxTermSchema = z
       .describe('edge softness: sigma of a Gaussian blur of the sharp edge (erf profile, 10-90 % rise 2.563 sigma), lengthUnit; 0 is a step'),
     unit: unitKey,
     lengthUnit: lengthUnitKey,
-  })
-  .describe('flat-bottomed box');
+  },
+  'flat-bottomed box',
+);
 
-export const SuperlatticeTermSchema = z
-  .strictObject({
-    kind: z.literal('superlattice').describe("'superlattice': a second standing wave V2 sin^2(pi x / period + phase) along one axis"),
-    name: termName,
+export const SuperlatticeTermSchema = landscapeTerm(
+  'superlattice',
+  "'superlattice': a second standing wave V2 sin^2(pi x / period + phase) along one axis",
+  {
     axis: z.enum(['x', 'y', 'z']).default('x').describe('lattice axis the second standing wave runs along'),
     depth: z.number().min(0).optional().describe('amplitude V2 in unit'),
     depthEr: z.number().min(0).max(400).optional().describe('or amplitude in recoil energies of its own wavelength h^2/(2 m wavelength^2) (laboratory mode, with wavelengthNm)'),
@@ -108,8 +117,9 @@ export const SuperlatticeTermSchema = z
       .default('unchanged')
       .describe('"combined" (laboratory mode): J, U and site energies from Wannier functions of the combined lattice; "unchanged": V2 sampled at the sites'),
     unit: unitKey,
-  })
-  .describe('second standing wave');
+  },
+  'second standing wave',
+);
 
 export const LandscapeTermSchema = z.discriminatedUnion('kind', [SitesTermSchema, ImageTermSchema, GradientTermSchema, BoxTermSchema, SuperlatticeTermSchema]);
 

@@ -34,4 +34,25 @@ describe('diagram files', () => {
     expect(readFileSync(join(out, 'report.html'), 'utf8')).toContain(diagramTitle(s));
     expect(diagramTitle({ ...s, temperature: 0.1 })).toBe('Mean-field phase map at k_B T = 0.1 U');
   });
+
+  it('lobe_boundaries.csv: one row per boundary point, lobe after lobe, on the analytic T = 0 boundary', async () => {
+    // Outside reference: the single-site mean-field Mott boundary at T = 0 (van Oosten, van der
+    // Straten & Stoof, PRA 63, 053601 (2001)), with x = mu/U in (n - 1, n):
+    //   zJ/U = (n - x)(x - n + 1) / (x + 1).
+    const s: DiagramSettings = { zJMax: 0.2, muMin: 0, muMax: 2, columns: 8, rows: 8, temperature: 0, nmax: 6, shade: 'density' };
+    const result = phaseMap({ ...s, boundaryPoints: 50 });
+    const out = join(dir, 'edges');
+    await writeOutputFolder(checkOutputTarget(out, { option: '--out' }), { command: 'diagram', scenarioHash: null }, (folder) => writeDiagramFiles(result, s, 0.1, folder));
+    const rows = rowsOf(readFileSync(join(out, 'lobe_boundaries.csv'), 'utf8'));
+    // hand count: the points of every lobe, in the order of the lobes
+    expect(rows.length).toBe(result.boundaries.reduce((t, b) => t + b.mu.length, 0));
+    expect(rows.map((r) => r[0])).toEqual(result.boundaries.flatMap((b) => Array.from(b.mu, () => b.filling)));
+    let checked = 0;
+    for (const [n, x, zJ] of rows) {
+      if (n < 1 || !(x > n - 1 && x < n)) continue;
+      expect(Math.abs(zJ - ((n - x) * (x - n + 1)) / (x + 1))).toBeLessThan(1e-6);
+      checked++;
+    }
+    expect(checked).toBeGreaterThan(20);
+  });
 });

@@ -50,6 +50,28 @@ describe('scan.csv', () => {
   });
 });
 
+describe('scan.csv columns', () => {
+  it('each column holds its own reading: every reading distinct, matched by hand to its column name', () => {
+    // one row whose readings are all different primes, so a column reading another field shows
+    const distinct = madeUpRow(plan, 1, {
+      atoms: 1009, chemicalPotential: 0.13, condensedAtoms: 401, condensateFraction: 0.37, superfluidFraction: 0.41,
+      superfluidFractionError: 0.043, entropy: 47, entropyPerAtom: 0.053, temperature: 0.059, characteristicDensity: 61,
+      characteristicLength: 6.7, centralDensity: 0.71, centralPhase: 3, nmax: 5, sweeps: 73, muEvaluations: 7,
+      realisations: 11, superfluidFractionSpread: 0.079, compressibilityPerSite: 0.083,
+    });
+    const text = scanCsv(madeUpOutcome(plan, [distinct])).trimEnd().split('\n');
+    const names = text[0].split(',');
+    const cells = text[1].split(',');
+    const expected: Record<string, number> = {
+      atoms: 1009, chemical_potential: 0.13, condensed_atoms: 401, condensate_fraction: 0.37, superfluid_fraction: 0.41,
+      superfluid_fraction_error: 0.043, entropy: 47, entropy_per_atom: 0.053, temperature: 0.059, characteristic_density: 61,
+      characteristic_length: 6.7, central_density: 0.71, central_phase: 3, nmax: 5, sweeps: 73, mu_evaluations: 7,
+      realisations: 11, superfluid_fraction_spread: 0.079, compressibility_per_site: 0.083,
+    };
+    for (const [name, value] of Object.entries(expected)) expect(Number(cells[names.indexOf(name)]), name).toBe(value);
+  });
+});
+
 describe('summary.json', () => {
   it('counts the points that did not converge and the mean sweeps of warm and cold starts', () => {
     const s = scanSummary(outcome);

@@ -6,7 +6,7 @@
 // rises toward 1 with depth (here 0.89 at 20 E_r, 0.92 at 30 E_r).
 
 import { describe, expect, it } from 'vitest';
-import { depthRangeEr, formatHubbardTable, hubbardCsv, hubbardTable } from '../../src/pipeline/hubbardTable.js';
+import { depthRangeEr, formatHubbardTable, hubbardCsv, hubbardCsvTable, hubbardTable } from '../../src/pipeline/hubbardTable.js';
 import { hubbardFromLab } from '../../src/physics/hubbardParameters.js';
 import { ParameterError } from '../../src/physics/parameterError.js';
 
@@ -47,6 +47,21 @@ describe('hubbard table for the command line', () => {
     });
     expect(rows[0]!.UHz).toBeGreaterThan(0);
     expect(() => hubbardTable({ species: '87Rb', wavelengthNm: 1064, depthsEr: [] })).toThrow(/depthsEr/);
+  });
+});
+
+describe('hubbard.csv metadata', () => {
+  it('units of every column, written out here: pure numbers as "1", the resolved flag as an integer with no unit', () => {
+    const rows = hubbardTable({ species: '87Rb', wavelengthNm: 852, depthsEr: [10] });
+    const meta = JSON.parse(hubbardCsvTable(rows, { species: '87Rb', wavelengthNm: 852, creator: 'test' }).metadata) as {
+      tableSchema: { columns: Array<{ name: string; datatype: string; 'schema:unitText': string }> };
+    };
+    const units = Object.fromEntries(meta.tableSchema.columns.map((c) => [c.name, c['schema:unitText']]));
+    expect(units).toEqual({
+      depth_Er: 'E_r', recoil_Hz: 'Hz', J_Hz: 'Hz', U_Hz: 'Hz', U_over_J: '1', U_over_zJ_relative_to_mean_field_critical: '1',
+      wannier_rms_width_nm: 'nm', band_gap_Er: 'E_r', nnn_over_nn: '1', nnn_resolved: '',
+    });
+    expect(meta.tableSchema.columns.at(-1)!.datatype).toBe('integer');
   });
 });
 

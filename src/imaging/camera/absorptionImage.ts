@@ -35,8 +35,9 @@
 // alpha/I0 + 1/I_sat with respect to I0, and alpha (1/I - 1/I0) with respect to I_dark).
 
 import { ParameterError, requirePositive } from '../../physics/parameterError.js';
-import { checkImage, checkMask, checkSameSize, type CameraWarning, type PixelImage, type PixelMask } from './pixelImage.js';
-import { cameraNoise, type CameraNoiseSettings } from './cameraNoise.js';
+import { checkImage, checkSameSize, type CameraWarning, type PixelImage, type PixelMask } from './pixelImage.js';
+import type { CameraNoiseSettings } from './cameraNoise.js';
+import { countingStart } from './countingStart.js';
 
 export interface AbsorptionFrames {
   /** Raw counts with the cloud in the probe beam. */
@@ -122,16 +123,10 @@ export function absorptionImage(frames: AbsorptionFrames, settings: AbsorptionSe
   }
   const maximumOpticalDepth = settings.maximumOpticalDepth ?? 4;
   requirePositive('maximumOpticalDepth', maximumOpticalDepth, '(largest usable measured OD, e.g. 4)');
-  const { gain, readNoise } = cameraNoise(settings);
-  const { width, height } = withAtoms;
-  const count = width * height;
-  if (settings.region !== undefined) checkMask('region', settings.region, width, height);
+  const { gain, readNoise, width, height, count, atomsPerPixel, atomsVariance, mask } = countingStart(withAtoms, settings);
 
   const opticalDepth = new Float64Array(count);
   const columnDensityPerUm2 = new Float64Array(count);
-  const atomsPerPixel = new Float64Array(count);
-  const atomsVariance = new Float64Array(count);
-  const mask = new Uint8Array(count);
   const pixelStatus = new Uint8Array(count);
   const maskedCounts = { outsideRegion: 0, weakProbe: 0, opticalDepthLimit: 0, nonFinite: 0 };
   const atomsPerSigmaN = settings.pixelAreaUm2 / settings.crossSectionUm2; // atoms per unit of sigma0 n

@@ -8,8 +8,9 @@
 // part of what a stack of shots measures.
 
 import { requirePositive } from '../../physics/parameterError.js';
-import { checkImage, checkMask, checkSameSize, type PixelImage, type PixelMask } from './pixelImage.js';
-import { cameraNoise, type CameraNoiseSettings } from './cameraNoise.js';
+import { checkImage, checkSameSize, type PixelImage, type PixelMask } from './pixelImage.js';
+import type { CameraNoiseSettings } from './cameraNoise.js';
+import { countingStart } from './countingStart.js';
 
 export interface FluorescenceSettings extends CameraNoiseSettings {
   /** Camera counts per atom in the exposure (> 0). */
@@ -37,13 +38,7 @@ export function fluorescenceImage(signal: PixelImage, background: PixelImage | u
     checkSameSize('background', signal, background);
   }
   requirePositive('countsPerAtom', settings.countsPerAtom, '(camera counts per atom in the exposure)');
-  const { gain, readNoise } = cameraNoise(settings);
-  const { width, height } = signal;
-  const n = width * height;
-  if (settings.region !== undefined) checkMask('region', settings.region, width, height);
-  const atomsPerPixel = new Float64Array(n);
-  const atomsVariance = new Float64Array(n);
-  const mask = new Uint8Array(n);
+  const { gain, readNoise, width, height, count: n, atomsPerPixel, atomsVariance, mask } = countingStart(signal, settings);
   const c = settings.countsPerAtom;
   const readVar = (background === undefined ? 1 : 2) * readNoise * readNoise;
   let total = 0;

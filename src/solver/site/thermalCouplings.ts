@@ -6,6 +6,7 @@
 //   p_k = (a_k - lambda) p_{k-1} - psi^2 k p_{k-2}.
 // Then phi = Tr(rho b) = sum_j w_j <j|b|j> / sum_j w_j with w_j = exp(-(lambda_j - lambda_0)/kT).
 
+import { insertionSortAscending } from '../../numerics/insertionSort.js';
 import { implicitQl } from './implicitQl.js';
 import type { SiteWorkspace } from './siteWorkspace.js';
 
@@ -71,15 +72,7 @@ export function thermalPhiByEigenvalues(
   }
   if (!implicitQl(d, e, n, null)) return NaN;
   // Ascending order (insertion sort; n is small) so that callers can keep the spectrum.
-  for (let j = 1; j < n; j++) {
-    const v = d[j];
-    let k = j - 1;
-    while (k >= 0 && d[k] > v) {
-      d[k + 1] = d[k];
-      k--;
-    }
-    d[k + 1] = v;
-  }
+  insertionSortAscending(d, n);
   const couplings = ws.couplings;
   couplings.fill(0);
   const e0 = d[0];
